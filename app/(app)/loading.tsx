@@ -1,0 +1,3 @@
+export default function SignedInLoading() {
+  return <p role="status" className="text-sm text-muted">Loading…</p>;
+}

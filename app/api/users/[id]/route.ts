@@ -1,0 +1,14 @@
+import { actorOf, requirePermission } from "@/lib/auth/session";
+import { updateUser } from "@/lib/db/queries/users";
+import { notFound, parseJsonBody } from "@/lib/http/errors";
+import { route } from "@/lib/http/route";
+import { isUuid } from "@/lib/validations/common";
+import { updateUserSchema } from "@/lib/validations/user";
+
+export const PATCH = route<{ params: Promise<{ id: string }> }>(async (req, { params }) => {
+  const admin = await requirePermission("user:manage");
+  const { id } = await params;
+  if (!isUuid(id)) throw notFound("That user");
+  const patch = await parseJsonBody(req, updateUserSchema);
+  return Response.json({ user: await updateUser(actorOf(admin), id, patch) });
+});

@@ -1,0 +1,19 @@
+import type { Metadata, Viewport } from "next";
+import "./globals.css";
+import { figureFont, textFont } from "./fonts";
+
+export const metadata: Metadata = {
+  title: { default: "Halftrip", template: "%s · Halftrip" },
+  description: "Levels, volumes and occupancy from ultrasonic sensors in the field.",
+  icons: { icon: "/favicon.svg" },
+};
+
+export const viewport: Viewport = { width: "device-width", initialScale: 1 };
+
+export default function RootLayout({ children }: { children: React.ReactNode }) {
+  return (
+    <html lang="en" className={`${textFont.variable} ${figureFont.variable}`}>
+      <body className="min-h-screen">{children}</body>
+    </html>
+  );
+}

@@ -1,0 +1,29 @@
+import Link from "next/link";
+import type { SessionUser } from "@/lib/auth/session";
+import { navFor } from "@/lib/navigation";
+import { Wordmark } from "./wordmark";
+import { NavLinks } from "./nav-links";
+import { SignOutButton } from "./sign-out-button";
+
+export function AppShell({ user, children }: { user: SessionUser; children: React.ReactNode }) {
+  const items = navFor(user.role).map(({ href, label }) => ({ href, label }));
+  return (
+    <div className="min-h-screen">
+      <header className="border-b border-rule bg-card">
+        <div className="mx-auto flex max-w-7xl items-center gap-6 px-4 py-2">
+          <Link href="/" aria-label="Halftrip home" className="shrink-0">
+            <Wordmark />
+          </Link>
+          <NavLinks items={items} />
+          <div className="ml-auto flex items-center gap-3 text-sm">
+            <span className="hidden text-muted sm:inline" data-testid="signed-in-as">
+              {user.email} · <span className="capitalize">{user.role}</span>
+            </span>
+            <SignOutButton />
+          </div>
+        </div>
+      </header>
+      <main className="mx-auto max-w-7xl px-4 py-6">{children}</main>
+    </div>
+  );
+}

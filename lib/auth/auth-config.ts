@@ -1,0 +1,36 @@
+import type { NextAuthOptions } from "next-auth";
+import { isRole, type Role } from "./permissions";
+
+// The part of the auth set-up that is safe anywhere (proxy included): no database, no bcrypt.
+export const SESSION_MAX_AGE_S = 12 * 60 * 60;
+
+export function authSecret(): string {
+  const secret = process.env.AUTH_SECRET ?? process.env.NEXTAUTH_SECRET;
+  if (!secret) throw new Error("AUTH_SECRET is not set");
+  return secret;
+}
+
+export const baseAuthConfig: Omit<NextAuthOptions, "providers"> = {
+  session: { strategy: "jwt", maxAge: SESSION_MAX_AGE_S },
+  pages: { signIn: "/sign-in", error: "/sign-in" },
+  callbacks: {
+    async jwt({ token, user }) {
+      if (user) {
+        const u = user as { id: string; organisationId: string; role: Role };
+        token.uid = u.id;
+        token.org = u.organisationId;
+        token.role = u.role;
+      }
+      return token;
+    },
+    async session({ session, token }) {
+      session.user = {
+        ...session.user,
+        id: String(token.uid ?? ""),
+        organisationId: String(token.org ?? ""),
+        role: isRole(token.role) ? token.role : "viewer",
+      };
+      return session;
+    },
+  },
+};

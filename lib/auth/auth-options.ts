@@ -1,0 +1,33 @@
+import type { NextAuthOptions } from "next-auth";
+import CredentialsProvider from "next-auth/providers/credentials";
+import { initModels, User } from "../db/models";
+import { signInSchema } from "../validations/user";
+import { baseAuthConfig } from "./auth-config";
+import { verifyPassword } from "./passwords";
+import { clearSignInFailures, recordSignInFailure } from "./sign-in-throttle";
+
+// The full provider set-up: reads users from the database and checks bcrypt hashes (server only).
+export const authOptions: NextAuthOptions = {
+  ...baseAuthConfig,
+  secret: process.env.AUTH_SECRET ?? process.env.NEXTAUTH_SECRET,
+  providers: [
+    CredentialsProvider({
+      name: "E-mail and password",
+      credentials: { email: { label: "E-mail", type: "email" }, password: { label: "Password", type: "password" } },
+      async authorize(credentials) {
+        const parsed = signInSchema.safeParse(credentials ?? {});
+        if (!parsed.success) return null;
+        const { email, password } = parsed.data;
+        initModels();
+        const user = await User.scope("withPassword").findOne({ where: { email } });
+        const ok = await verifyPassword(password, user?.password_hash);
+        if (!user || !ok || user.status !== "active") {
+          await recordSignInFailure(email);
+          return null;
+        }
+        await clearSignInFailures(email);
+        return { id: user.id, email: user.email, name: user.name, organisationId: user.organisation_id, role: user.role };
+      },
+    }),
+  ],
+};

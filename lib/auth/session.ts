@@ -1,0 +1,49 @@
+import { getServerSession } from "next-auth";
+import { redirect } from "next/navigation";
+import { initModels, User } from "../db/models";
+import type { Actor } from "../db/audit";
+import { forbidden, unauthorized } from "../http/errors";
+import { authOptions } from "./auth-options";
+import { can, type Permission, type Role } from "./permissions";
+
+export interface SessionUser {
+  id: string;
+  organisationId: string;
+  role: Role;
+  email: string;
+  name: string;
+}
+
+/**
+ * The signed-in user as the database knows them now: a deactivated user or a changed role takes effect
+ * on the next request, not when the session cookie expires.
+ */
+export async function currentUser(): Promise<SessionUser | null> {
+  const session = await getServerSession(authOptions);
+  const id = session?.user?.id;
+  if (!id) return null;
+  initModels();
+  const user = await User.findByPk(id);
+  if (!user || user.status !== "active") return null;
+  return { id: user.id, organisationId: user.organisation_id, role: user.role, email: user.email, name: user.name };
+}
+
+/** The one check every route handler and server action makes. Throws 401/403 as HttpError. */
+export async function requirePermission(permission: Permission): Promise<SessionUser> {
+  const user = await currentUser();
+  if (!user) throw unauthorized();
+  if (!can(user.role, permission)) throw forbidden();
+  return user;
+}
+
+/** For server-rendered pages: redirect to sign-in when signed out; show the forbidden page otherwise. */
+export async function requirePageUser(permission: Permission = "dashboard:read"): Promise<SessionUser> {
+  const user = await currentUser();
+  if (!user) redirect("/sign-in");
+  if (!can(user.role, permission)) redirect("/forbidden");
+  return user;
+}
+
+export function actorOf(user: SessionUser): Actor {
+  return { organisationId: user.organisationId, userId: user.id, label: user.email };
+}

@@ -1,0 +1,26 @@
+import { QueryTypes } from "sequelize";
+import { getSequelize } from "../db/sequelize";
+
+// 10 failed sign-ins for one e-mail within 15 minutes → refuse further attempts until the window moves on.
+export const MAX_FAILURES = 10;
+export const WINDOW_MINUTES = 15;
+
+export async function countRecentFailures(email: string): Promise<number> {
+  const rows = await getSequelize().query<{ n: string }>(
+    `SELECT count(*) AS n FROM sign_in_failures WHERE lower(email) = lower(:email) AND at > now() - make_interval(mins => :mins)`,
+    { replacements: { email, mins: WINDOW_MINUTES }, type: QueryTypes.SELECT },
+  );
+  return Number(rows[0]?.n ?? 0);
+}
+
+export async function isSignInThrottled(email: string): Promise<boolean> {
+  return (await countRecentFailures(email)) >= MAX_FAILURES;
+}
+
+export async function recordSignInFailure(email: string) {
+  await getSequelize().query(`INSERT INTO sign_in_failures (email) VALUES (:email)`, { replacements: { email } });
+}
+
+export async function clearSignInFailures(email: string) {
+  await getSequelize().query(`DELETE FROM sign_in_failures WHERE lower(email) = lower(:email)`, { replacements: { email } });
+}

@@ -1,0 +1,99 @@
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from "sequelize";
+import { getSequelize } from "../sequelize";
+import type { Role } from "../../auth/permissions";
+
+export class Organisation extends Model<InferAttributes<Organisation>, InferCreationAttributes<Organisation>> {
+  declare id: CreationOptional<string>;
+  declare name: string;
+}
+
+export type UserStatus = "invited" | "active" | "deactivated";
+
+export class User extends Model<InferAttributes<User>, InferCreationAttributes<User>> {
+  declare id: CreationOptional<string>;
+  declare organisation_id: string;
+  declare email: string;
+  declare name: CreationOptional<string>;
+  declare role: Role;
+  declare status: CreationOptional<UserStatus>;
+  declare password_hash: CreationOptional<string | null>;
+  declare created_at: CreationOptional<Date>;
+}
+
+export class Invite extends Model<InferAttributes<Invite>, InferCreationAttributes<Invite>> {
+  declare id: CreationOptional<string>;
+  declare user_id: string;
+  declare invited_by: string | null;
+  declare expires_at: Date;
+  declare used_at: CreationOptional<Date | null>;
+}
+
+export class AuditEntry extends Model<InferAttributes<AuditEntry>, InferCreationAttributes<AuditEntry>> {
+  declare id: CreationOptional<number>;
+  declare organisation_id: string;
+  declare actor_user_id: string | null;
+  declare actor_label: string;
+  declare action: string;
+  declare entity_type: string;
+  declare entity_id: string | null;
+  declare details: CreationOptional<Record<string, unknown>>;
+  declare at: CreationOptional<Date>;
+}
+
+let initialised = false;
+
+/** Registers every model on the shared instance once; cheap to call from any entry point. */
+export function initModels() {
+  if (initialised) return;
+  const sequelize = getSequelize();
+  const uuidPk = { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 };
+
+  Organisation.init({ id: uuidPk, name: { type: DataTypes.TEXT, allowNull: false } }, { sequelize, tableName: "organisations" });
+
+  User.init(
+    {
+      id: uuidPk,
+      organisation_id: { type: DataTypes.UUID, allowNull: false },
+      email: { type: DataTypes.TEXT, allowNull: false },
+      name: { type: DataTypes.TEXT, allowNull: false, defaultValue: "" },
+      role: { type: DataTypes.ENUM("admin", "operator", "technician", "viewer"), allowNull: false },
+      status: { type: DataTypes.ENUM("invited", "active", "deactivated"), allowNull: false, defaultValue: "invited" },
+      password_hash: { type: DataTypes.TEXT, allowNull: true },
+      created_at: DataTypes.DATE,
+    },
+    {
+      sequelize,
+      tableName: "users",
+      defaultScope: { attributes: { exclude: ["password_hash"] } },
+      scopes: { withPassword: { attributes: { include: ["password_hash"] } } },
+    },
+  );
+
+  Invite.init(
+    {
+      id: uuidPk,
+      user_id: { type: DataTypes.UUID, allowNull: false },
+      invited_by: { type: DataTypes.UUID, allowNull: true },
+      expires_at: { type: DataTypes.DATE, allowNull: false },
+      used_at: { type: DataTypes.DATE, allowNull: true },
+    },
+    { sequelize, tableName: "invites", updatedAt: false },
+  );
+
+  AuditEntry.init(
+    {
+      id: { type: DataTypes.BIGINT, primaryKey: true, autoIncrement: true },
+      organisation_id: { type: DataTypes.UUID, allowNull: false },
+      actor_user_id: { type: DataTypes.UUID, allowNull: true },
+      actor_label: { type: DataTypes.TEXT, allowNull: false },
+      action: { type: DataTypes.TEXT, allowNull: false },
+      entity_type: { type: DataTypes.TEXT, allowNull: false },
+      entity_id: { type: DataTypes.TEXT, allowNull: true },
+      details: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} },
+      at: { type: DataTypes.DATE, defaultValue: DataTypes.NOW },
+    },
+    { sequelize, tableName: "audit_log", timestamps: false },
+  );
+
+  initialised = true;
+}

@@ -1,0 +1,32 @@
+import pg from "pg";
+import { Sequelize } from "sequelize";
+
+// One Sequelize instance per process; the web server and the worker share this module.
+// DB_POOL_MAX lets the benchmark and the worker size the pool without code changes.
+const globalForDb = globalThis as unknown as { halftripSequelize?: Sequelize };
+
+function createSequelize(): Sequelize {
+  const url = process.env.DATABASE_URL;
+  if (!url) throw new Error("DATABASE_URL is not set");
+  return new Sequelize(url, {
+    dialect: "postgres",
+    dialectModule: pg,
+    logging: false,
+    pool: { max: Number(process.env.DB_POOL_MAX ?? 10), min: 0, idle: 10000, acquire: 5000 },
+    define: { underscored: true, timestamps: true, createdAt: "created_at", updatedAt: "updated_at" },
+  });
+}
+
+export function getSequelize(): Sequelize {
+  if (!globalForDb.halftripSequelize) globalForDb.halftripSequelize = createSequelize();
+  return globalForDb.halftripSequelize;
+}
+
+export async function isDatabaseUp(): Promise<boolean> {
+  try {
+    await getSequelize().query("SELECT 1");
+    return true;
+  } catch {
+    return false;
+  }
+}

@@ -1,0 +1,82 @@
+import { ZodError, type ZodType, z } from "zod";
+
+// Every error body of both APIs is { error: "<code>", message: "<what to fix>" }.
+export class HttpError extends Error {
+  constructor(
+    readonly status: number,
+    readonly code: string,
+    message: string,
+    readonly headers: Record<string, string> = {},
+    readonly extra: Record<string, unknown> = {},
+  ) {
+    super(message);
+  }
+}
+
+export const unauthorized = (message = "Sign in first.") => new HttpError(401, "unauthorized", message);
+export const forbidden = (message = "Your role may not do this.") => new HttpError(403, "forbidden", message);
+export const notFound = (what = "That item") => new HttpError(404, "not_found", `${what} was not found.`);
+export const conflict = (message: string) => new HttpError(409, "conflict", message);
+
+/** Turns zod issues into one readable sentence naming each field. */
+export function describeZodError(error: ZodError): string {
+  return error.issues
+    .map((issue) => (issue.path.length ? `${issue.path.join(".")}: ${issue.message}` : issue.message))
+    .join("; ");
+}
+
+export function fieldErrors(error: ZodError): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const issue of error.issues) {
+    const key = issue.path.join(".") || "_";
+    out[key] ??= issue.message;
+  }
+  return out;
+}
+
+export function jsonError(status: number, code: string, message: string, headers: Record<string, string> = {}, extra: Record<string, unknown> = {}) {
+  return Response.json({ error: code, message, ...extra }, { status, headers });
+}
+
+export function errorResponse(err: unknown): Response {
+  if (err instanceof HttpError) return jsonError(err.status, err.code, err.message, err.headers, err.extra);
+  if (err instanceof ZodError) {
+    return jsonError(422, "invalid", describeZodError(err), {}, { fields: fieldErrors(err) });
+  }
+  if (isDatabaseUnavailable(err)) {
+    return jsonError(503, "unavailable", "The database is unavailable; try again shortly.", { "Retry-After": "10" });
+  }
+  console.error(err);
+  return jsonError(500, "internal", "Something went wrong on our side; the error is logged.");
+}
+
+export function isDatabaseUnavailable(err: unknown): boolean {
+  const name = (err as { name?: string })?.name ?? "";
+  const code = (err as { parent?: { code?: string }; original?: { code?: string } })?.parent?.code;
+  return (
+    name === "SequelizeConnectionError" ||
+    name === "SequelizeConnectionRefusedError" ||
+    name === "SequelizeConnectionAcquireTimeoutError" ||
+    name === "SequelizeHostNotReachableError" ||
+    name === "SequelizeConnectionTimedOutError" ||
+    code === "ECONNREFUSED" ||
+    code === "57P01" ||
+    code === "57P03"
+  );
+}
+
+/** Reads and validates a JSON body; malformed JSON is a 400, a wrong shape a 422 with field messages. */
+export async function parseJsonBody<S extends ZodType>(req: Request, schema: S): Promise<z.infer<S>> {
+  let body: unknown;
+  try {
+    body = await req.json();
+  } catch {
+    throw new HttpError(400, "malformed_json", "The body is not valid JSON.");
+  }
+  return schema.parse(body);
+}
+
+export function parseQuery<S extends ZodType>(url: string, schema: S): z.infer<S> {
+  const params = Object.fromEntries(new URL(url).searchParams.entries());
+  return schema.parse(params);
+}

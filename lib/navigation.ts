@@ -1,0 +1,18 @@
+import { can, type Permission, type Role } from "./auth/permissions";
+
+// Only screens that exist are listed; each is shown to the roles that may open it.
+export interface NavItem {
+  href: string;
+  label: string;
+  permission: Permission;
+}
+
+export const NAV_ITEMS: NavItem[] = [
+  { href: "/", label: "Overview", permission: "dashboard:read" },
+  { href: "/users", label: "Users", permission: "user:manage" },
+  { href: "/mail", label: "Mail sink", permission: "mail:read" },
+];
+
+export function navFor(role: Role): NavItem[] {
+  return NAV_ITEMS.filter((item) => can(role, item.permission));
+}

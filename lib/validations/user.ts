@@ -1,0 +1,35 @@
+import { z } from "zod";
+import { ROLES } from "../auth/permissions";
+
+export const emailSchema = z.string().trim().toLowerCase().email("Enter a valid e-mail address, like name@example.org.");
+
+export const signInSchema = z.object({
+  email: emailSchema,
+  password: z.string().min(1, "Enter your password."),
+});
+
+export const passwordSchema = z
+  .string()
+  .min(10, "Use at least 10 characters.")
+  .max(200, "Use at most 200 characters.");
+
+export const inviteUserSchema = z.object({
+  email: emailSchema,
+  name: z.string().trim().max(120, "Keep the name under 120 characters.").default(""),
+  role: z.enum(ROLES, { message: `Choose a role: ${ROLES.join(", ")}.` }),
+});
+
+export const updateUserSchema = z
+  .object({
+    role: z.enum(ROLES, { message: `Choose a role: ${ROLES.join(", ")}.` }).optional(),
+    status: z.enum(["active", "deactivated"], { message: "Status is active or deactivated." }).optional(),
+    name: z.string().trim().max(120).optional(),
+  })
+  .strict()
+  .refine((v) => Object.keys(v).length > 0, "Send at least one of role, status, name.");
+
+export const acceptInviteSchema = z
+  .object({ token: z.string().min(10), password: passwordSchema, confirm: z.string() })
+  .refine((v) => v.password === v.confirm, { message: "The two passwords differ.", path: ["confirm"] });
+
+export type InviteUserInput = z.infer<typeof inviteUserSchema>;

@@ -1,0 +1,19 @@
+import { getToken } from "next-auth/jwt";
+import { NextResponse, type NextRequest } from "next/server";
+
+// Cheap first gate (no database): signed-out page requests go to sign-in. Route handlers and pages still
+// check the session and role themselves through requirePermission/requirePageUser.
+const PUBLIC_PREFIXES = ["/sign-in", "/invite/", "/api/", "/_next/", "/favicon", "/wordmark", "/docs"];
+
+export async function proxy(req: NextRequest) {
+  const { pathname, search } = req.nextUrl;
+  if (PUBLIC_PREFIXES.some((p) => pathname.startsWith(p))) return NextResponse.next();
+  const token = await getToken({ req, secret: process.env.AUTH_SECRET ?? process.env.NEXTAUTH_SECRET });
+  if (token) return NextResponse.next();
+  const url = req.nextUrl.clone();
+  url.pathname = "/sign-in";
+  url.search = pathname === "/" ? "" : `?callbackUrl=${encodeURIComponent(pathname + search)}`;
+  return NextResponse.redirect(url);
+}
+
+export const config = { matcher: ["/((?!_next/static|_next/image|.*\\.svg$).*)"] };

@@ -1,0 +1,90 @@
+import http from "node:http";
+import { randomUUID } from "node:crypto";
+import { SMTPServer } from "smtp-server";
+import { simpleParser } from "mailparser";
+
+// A local stand-in for the hosted mail service: accepts every message on 127.0.0.1, keeps the last
+// MAX_KEPT in memory and serves them as JSON to the admin page and to the tests.
+const SMTP_PORT = Number(process.env.SMTP_SINK_PORT ?? 2525);
+const HTTP_PORT = Number(process.env.SMTP_SINK_HTTP_PORT ?? 2580);
+const MAX_KEPT = 2000;
+
+interface Kept {
+  id: string;
+  received_at: string;
+  from: string;
+  to: string[];
+  subject: string;
+  text: string;
+  html: string | null;
+}
+
+const messages: Kept[] = [];
+
+function addresses(value: unknown): string[] {
+  const list = Array.isArray(value) ? value : value ? [value] : [];
+  return list.flatMap((a: { value?: { address?: string }[] }) => (a.value ?? []).map((v) => v.address ?? "")).filter(Boolean);
+}
+
+const smtp = new SMTPServer({
+  authOptional: true,
+  disabledCommands: ["STARTTLS"],
+  logger: false,
+  onData(stream, _session, callback) {
+    simpleParser(stream)
+      .then((mail) => {
+        messages.unshift({
+          id: randomUUID(),
+          received_at: new Date().toISOString(),
+          from: addresses(mail.from)[0] ?? "",
+          to: addresses(mail.to),
+          subject: mail.subject ?? "",
+          text: mail.text ?? "",
+          html: typeof mail.html === "string" ? mail.html : null,
+        });
+        messages.length = Math.min(messages.length, MAX_KEPT);
+        callback();
+      })
+      .catch((err: Error) => callback(err));
+  },
+});
+
+const api = http.createServer((req, res) => {
+  const url = new URL(req.url ?? "/", "http://sink");
+  const send = (status: number, body: unknown) => {
+    res.writeHead(status, { "content-type": "application/json" });
+    res.end(JSON.stringify(body));
+  };
+  if (req.method === "GET" && url.pathname === "/messages") {
+    const to = url.searchParams.get("to");
+    const items = messages
+      .filter((m) => !to || m.to.some((a) => a.toLowerCase() === to.toLowerCase()))
+      .map(({ text: _t, html: _h, ...rest }) => rest);
+    return send(200, { items });
+  }
+  const one = url.pathname.match(/^\/messages\/([\w-]+)$/);
+  if (req.method === "GET" && one) {
+    const m = messages.find((x) => x.id === one[1]);
+    return m ? send(200, m) : send(404, { error: "not_found" });
+  }
+  if (req.method === "DELETE" && url.pathname === "/messages") {
+    messages.length = 0;
+    return send(200, { ok: true });
+  }
+  if (req.method === "GET" && url.pathname === "/health") return send(200, { ok: true });
+  send(404, { error: "not_found" });
+});
+
+smtp.listen(SMTP_PORT, "127.0.0.1", () => {
+  api.listen(HTTP_PORT, "127.0.0.1", () => {
+    process.stdout.write(`[halftrip] mail sink: SMTP 127.0.0.1:${SMTP_PORT}, messages at http://127.0.0.1:${HTTP_PORT}/messages\n`);
+  });
+});
+
+function stop() {
+  api.close();
+  smtp.close(() => process.exit(0));
+  setTimeout(() => process.exit(0), 1000).unref();
+}
+process.on("SIGTERM", stop);
+process.on("SIGINT", stop);
