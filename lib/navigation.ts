@@ -11,6 +11,7 @@ export const NAV_ITEMS: NavItem[] = [
   { href: "/", label: "Overview", permission: "dashboard:read" },
   { href: "/users", label: "Users", permission: "user:manage" },
   { href: "/mail", label: "Mail sink", permission: "mail:read" },
+  { href: "/audit", label: "Audit log", permission: "audit:read" },
 ];
 
 export function navFor(role: Role): NavItem[] {

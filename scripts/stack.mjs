@@ -141,7 +141,7 @@ async function test() {
   const port = Number(process.env.TEST_PORT ?? 3100);
   const env = {
     ...baseEnv({ databaseUrl: ensureDatabase(dbName), port, smtpPort: 2526, sinkHttpPort: 2581 }),
-    BASE_URL: `http://127.0.0.1:${port}`,
+    TEST_BASE_URL: `http://127.0.0.1:${port}`,
     PG_ADMIN_URL: `postgres://postgres@127.0.0.1:${PG_PORT}/postgres`,
     HALFTRIP_TEST: "1",
   };
@@ -154,7 +154,7 @@ async function test() {
     migrateAndSeed(env);
     await startSink(env);
     startService("web", bin("next"), ["start", "-p", String(port)], { env: { ...env, NODE_ENV: "production" }, silent: true });
-    await waitForUrl(`${env.BASE_URL}/api/health`, 120000);
+    await waitForUrl(`${env.TEST_BASE_URL}/api/health`, 120000);
 
     const vitestJson = path.join(resultsDir, "vitest.json");
     run(bin("vitest"), ["run", "--reporter=default", "--reporter=json", `--outputFile.json=${vitestJson}`], { env });

@@ -119,7 +119,7 @@ export function evaluateLevelSetpoints(
 }
 
 export interface RateOfChangeOptions {
-  /** Trailing window ending at the newest sample, seconds. Halftrip's default: 3600. */
+  /** Trailing window [newest − windowS, newest], seconds. Halftrip's default: 3600. */
   windowS?: number;
   /** The samples used must span at least this long, seconds. Halftrip's default: 1800. */
   minSpanS?: number;
@@ -165,7 +165,7 @@ export function evaluateRateOfChange(
     .filter((s) => Number.isFinite(s.value))
     .map((s) => ({ x: instantToMs(s.at), y: s.value }));
   const newest = points.reduce((max, p) => Math.max(max, p.x), -Infinity);
-  const windowed = points.filter((p) => p.x > newest - windowS * 1000);
+  const windowed = points.filter((p) => p.x >= newest - windowS * 1000);
   const oldest = windowed.reduce((min, p) => Math.min(min, p.x), newest);
   const spanS = windowed.length === 0 ? 0 : (newest - oldest) / 1000;
   const insufficient: RateOfChangeEvaluation = {

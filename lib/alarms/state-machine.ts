@@ -218,7 +218,7 @@ function onAcknowledge(s: AlarmSnapshot): AlarmTransitionResult {
     case "normal":
       return refuse("not_acknowledgeable", "This alarm is normal; there is nothing to acknowledge.");
     default:
-      return refuse("not_acknowledgeable", `This alarm is ${s.state.replaceAll("_", " ")}; return it first to acknowledge it.`);
+      return refuse("not_acknowledgeable", `This alarm is ${s.state.replaceAll("_", " ")}; it can be acknowledged once it is unshelved, unsuppressed or back in service.`);
   }
 }
 
