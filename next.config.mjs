@@ -1,5 +1,7 @@
 /** @type {import('next').NextConfig} */
 const nextConfig = {
+  // A separate folder lets several dev sandboxes run side by side (scripts/stack.mjs sandbox).
+  distDir: process.env.NEXT_DIST_DIR ?? ".next",
   output: "standalone",
   serverExternalPackages: ["sequelize", "pg", "pg-hstore", "bcryptjs", "nodemailer", "smtp-server", "mailparser"],
   poweredByHeader: false,

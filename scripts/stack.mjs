@@ -120,6 +120,32 @@ async function serve(dev) {
   log(`mail sink: ${env.MAIL_SINK_URL}/messages (also the Mail sink page for admins) · Ctrl-C stops everything`);
 }
 
+// A private stack for one developer's API tests: its own database, ports and Next dist folder, with
+// `next dev` (no build). Writes .data/sandbox-<name>.env to source before running vitest files.
+async function sandbox(name, port) {
+  if (!/^[a-z0-9]+$/.test(name)) throw new Error("sandbox name: lower-case letters and digits");
+  ensureNodeModules();
+  startPostgres();
+  const env = {
+    ...baseEnv({ databaseUrl: ensureDatabase(`halftrip_${name}`), port, smtpPort: port + 1, sinkHttpPort: port + 2 }),
+    TEST_BASE_URL: `http://127.0.0.1:${port}`,
+    PG_ADMIN_URL: `postgres://postgres@127.0.0.1:${PG_PORT}/postgres`,
+    NEXT_DIST_DIR: `.next-${name}`,
+    HALFTRIP_TEST: "1",
+  };
+  const shutdown = async () => { await stopServices(); process.exit(0); };
+  process.on("SIGINT", shutdown);
+  process.on("SIGTERM", shutdown);
+  migrateAndSeed(env);
+  await startSink(env);
+  startService("web", bin("next"), ["dev", "-p", String(port)], { env: { ...env, NODE_ENV: "development" } });
+  await waitForUrl(`${env.TEST_BASE_URL}/api/health`, 180000);
+  const keys = ["DATABASE_URL", "AUTH_SECRET", "TEST_BASE_URL", "MAIL_SINK_URL", "SMTP_URL", "PG_ADMIN_URL", "APP_URL", "HALFTRIP_TEST"];
+  const file = path.join(dataDir, `sandbox-${name}.env`);
+  fs.writeFileSync(file, keys.map((k) => `${k}=${env[k]}`).join("\n") + "\n");
+  log(`sandbox ${name} ready at ${env.TEST_BASE_URL}; env in ${path.relative(root, file)}`);
+}
+
 function readJson(file) {
   try { return JSON.parse(fs.readFileSync(file, "utf8")); } catch { return null; }
 }
@@ -198,7 +224,9 @@ function countFailedSuitesWithFailedTests(v) {
 if (mode === "test") await test();
 else if (mode === "dev") await serve(true);
 else if (mode === "start") await serve(false);
-else if (mode === "migrate" || mode === "seed") {
+else if (mode === "sandbox") {
+  await sandbox(process.argv[3] ?? "dev1", Number(process.argv[4] ?? 3200));
+} else if (mode === "migrate" || mode === "seed") {
   ensureNodeModules();
   startPostgres();
   const env = baseEnv({ databaseUrl: process.env.DATABASE_URL ?? ensureDatabase("halftrip"), port: 3000, smtpPort: 2525, sinkHttpPort: 2580 });

@@ -1,5 +1,6 @@
 // Consumption trend of a tank: find the refills, fit a robust (Theil–Sen) slope to the draw-down
-// between them and project it to the reorder level and to empty.
+// between them and project it to the reorder level and to empty. Feed it measurements that passed
+// validation: a low dropout followed by the true level rises like a refill if it exceeds the threshold.
 
 import { pooledTheilSenSlope, type Point } from "../signal/robust-stats";
 

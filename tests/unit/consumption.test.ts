@@ -92,7 +92,8 @@ describe("forecastConsumption", () => {
   });
 
   it("stays robust to noise and a few wild readings", () => {
-    // Seeded 10 L noise and three 800 L dropouts (a lost echo read as a low level) [synthetic].
+    // Seeded 10 L noise and three 800 L dropouts (a lost echo read as a low level), whose recovery
+    // stays under the 1000 L refill threshold [synthetic].
     const draw = seededNormal(11);
     const series = tank().map((s) => ({ ...s, volumeL: s.volumeL + 10 * draw() }));
     for (const i of [50, 60, 70]) series[i] = { ...series[i], volumeL: series[i].volumeL - 800 };

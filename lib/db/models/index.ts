@@ -1,6 +1,9 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from "sequelize";
 import { getSequelize } from "../sequelize";
 import type { Role } from "../../auth/permissions";
+import { initFleetModels } from "./fleet";
+
+export { Asset, Channel, Device, DeviceKey, Site, type AssetKind } from "./fleet";
 
 export class Organisation extends Model<InferAttributes<Organisation>, InferCreationAttributes<Organisation>> {
   declare id: CreationOptional<string>;
@@ -95,5 +98,6 @@ export function initModels() {
     { sequelize, tableName: "audit_log", timestamps: false },
   );
 
+  initFleetModels(sequelize);
   initialised = true;
 }

@@ -1,0 +1,19 @@
+import { actorOf, requirePermission } from "@/lib/auth/session";
+import { findAsset, serialiseAsset, updateAsset } from "@/lib/db/queries/assets";
+import { parseJsonBody } from "@/lib/http/errors";
+import { idParam, type IdContext } from "@/lib/http/params";
+import { route } from "@/lib/http/route";
+import { updateAssetSchema } from "@/lib/validations/asset";
+
+export const GET = route<IdContext>(async (_req, ctx) => {
+  const user = await requirePermission("dashboard:read");
+  return Response.json(serialiseAsset(await findAsset(user.organisationId, await idParam(ctx, "That asset"))));
+});
+
+export const PATCH = route<IdContext>(async (req, ctx) => {
+  const user = await requirePermission("asset:manage");
+  const id = await idParam(ctx, "That asset");
+  const patch = await parseJsonBody(req, updateAssetSchema);
+  const { asset } = await updateAsset(actorOf(user), id, patch);
+  return Response.json(asset);
+});

@@ -1,0 +1,20 @@
+import { z } from "zod";
+import { actorOf, requirePermission } from "@/lib/auth/session";
+import { createAsset, listAssets } from "@/lib/db/queries/assets";
+import { parseJsonBody, parseQuery } from "@/lib/http/errors";
+import { route } from "@/lib/http/route";
+import { createAssetSchema } from "@/lib/validations/asset";
+import { uuidSchema } from "@/lib/validations/common";
+
+const listQuery = z.object({ site_id: uuidSchema.optional(), kind: z.enum(["tank", "bay", "point"]).optional() });
+
+export const GET = route(async (req) => {
+  const user = await requirePermission("dashboard:read");
+  return Response.json({ items: await listAssets(user.organisationId, parseQuery(req.url, listQuery)) });
+});
+
+export const POST = route(async (req) => {
+  const user = await requirePermission("asset:manage");
+  const input = await parseJsonBody(req, createAssetSchema);
+  return Response.json(await createAsset(actorOf(user), input), { status: 201 });
+});

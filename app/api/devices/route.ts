@@ -1,0 +1,21 @@
+import { z } from "zod";
+import { actorOf, requirePermission } from "@/lib/auth/session";
+import { createDevice, listDevices } from "@/lib/db/queries/devices";
+import { parseJsonBody, parseQuery } from "@/lib/http/errors";
+import { route } from "@/lib/http/route";
+import { uuidSchema } from "@/lib/validations/common";
+import { createDeviceSchema } from "@/lib/validations/device";
+
+const listQuery = z.object({ site_id: uuidSchema.optional() });
+
+export const GET = route(async (req) => {
+  const user = await requirePermission("dashboard:read");
+  return Response.json({ items: await listDevices(user.organisationId, parseQuery(req.url, listQuery)) });
+});
+
+export const POST = route(async (req) => {
+  const user = await requirePermission("device:manage");
+  const input = await parseJsonBody(req, createDeviceSchema);
+  const { device, api_key } = await createDevice(actorOf(user), input);
+  return Response.json({ ...device, api_key }, { status: 201, headers: { "Cache-Control": "no-store" } });
+});

@@ -1,0 +1,16 @@
+import { actorOf, requirePermission } from "@/lib/auth/session";
+import { createSite, listSites } from "@/lib/db/queries/sites";
+import { parseJsonBody } from "@/lib/http/errors";
+import { route } from "@/lib/http/route";
+import { createSiteSchema } from "@/lib/validations/site";
+
+export const GET = route(async () => {
+  const user = await requirePermission("dashboard:read");
+  return Response.json({ items: await listSites(user.organisationId) });
+});
+
+export const POST = route(async (req) => {
+  const user = await requirePermission("site:manage");
+  const input = await parseJsonBody(req, createSiteSchema);
+  return Response.json(await createSite(actorOf(user), input), { status: 201 });
+});
