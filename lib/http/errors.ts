@@ -20,16 +20,19 @@ export const conflict = (message: string) => new HttpError(409, "conflict", mess
 
 /** Turns zod issues into one readable sentence naming each field. */
 export function describeZodError(error: ZodError): string {
-  return error.issues
-    .map((issue) => (issue.path.length ? `${issue.path.join(".")}: ${issue.message}` : issue.message))
-    .join("; ");
+  return error.issues.map((issue) => (issue.path.length ? `${issue.path.join(".")}: ${issueMessage(issue)}` : issueMessage(issue))).join("; ");
+}
+
+function issueMessage(issue: ZodError["issues"][number]): string {
+  if (issue.code === "unrecognized_keys") return `unknown field${issue.keys.length > 1 ? "s" : ""} ${issue.keys.map((k) => JSON.stringify(k)).join(", ")}; remove ${issue.keys.length > 1 ? "them" : "it"}.`;
+  return issue.message;
 }
 
 export function fieldErrors(error: ZodError): Record<string, string> {
   const out: Record<string, string> = {};
   for (const issue of error.issues) {
     const key = issue.path.join(".") || "_";
-    out[key] ??= issue.message;
+    out[key] ??= issueMessage(issue);
   }
   return out;
 }

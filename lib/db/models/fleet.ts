@@ -83,21 +83,21 @@ export class DeviceKey extends Model<InferAttributes<DeviceKey>, InferCreationAt
   declare revoked_at: CreationOptional<Date | null>;
 }
 
-// Postgres double precision comes back as numbers; nothing to coerce.
-const num = { type: DataTypes.DOUBLE, allowNull: true };
+// A fresh definition object per attribute: Sequelize annotates the object it is given.
+const num = () => ({ type: DataTypes.DOUBLE, allowNull: true });
 
 export function initFleetModels(sequelize: Sequelize) {
-  const uuidPk = { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 };
+  const uuidPk = () => ({ type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 });
   Site.init(
     {
-      id: uuidPk,
+      id: uuidPk(),
       organisation_id: { type: DataTypes.UUID, allowNull: false },
       name: { type: DataTypes.TEXT, allowNull: false },
       time_zone: { type: DataTypes.TEXT, allowNull: false },
-      latitude: num,
-      longitude: num,
-      air_temp_c: num,
-      humidity_pct: num,
+      latitude: num(),
+      longitude: num(),
+      air_temp_c: num(),
+      humidity_pct: num(),
       temperature_channel_id: { type: DataTypes.UUID, allowNull: true },
       escalation_delay_min: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 15 },
       created_at: DataTypes.DATE,
@@ -107,17 +107,17 @@ export function initFleetModels(sequelize: Sequelize) {
   );
   Asset.init(
     {
-      id: uuidPk,
+      id: uuidPk(),
       organisation_id: { type: DataTypes.UUID, allowNull: false },
       site_id: { type: DataTypes.UUID, allowNull: false },
       kind: { type: DataTypes.ENUM("tank", "bay", "point"), allowNull: false },
       name: { type: DataTypes.TEXT, allowNull: false },
-      mount_height_m: num,
-      capacity_l: num,
-      safe_fill_pct: num,
-      reorder_pct: num,
-      floor_distance_m: num,
-      occupied_below_m: num,
+      mount_height_m: num(),
+      capacity_l: num(),
+      safe_fill_pct: num(),
+      reorder_pct: num(),
+      floor_distance_m: num(),
+      occupied_below_m: num(),
       geometry: { type: DataTypes.JSONB, allowNull: true },
       bay_row: { type: DataTypes.INTEGER, allowNull: true },
       bay_col: { type: DataTypes.INTEGER, allowNull: true },
@@ -129,24 +129,24 @@ export function initFleetModels(sequelize: Sequelize) {
   );
   Device.init(
     {
-      id: uuidPk,
+      id: uuidPk(),
       organisation_id: { type: DataTypes.UUID, allowNull: false },
       site_id: { type: DataTypes.UUID, allowNull: false },
       serial: { type: DataTypes.TEXT, allowNull: false },
       name: { type: DataTypes.TEXT, allowNull: false },
       profile: { type: DataTypes.ENUM("echo", "capture", "pulse_coded", "duty_coded"), allowNull: false },
-      clock_hz: num,
+      clock_hz: num(),
       prescaler: { type: DataTypes.INTEGER, allowNull: true },
       timer_bits: { type: DataTypes.INTEGER, allowNull: true },
-      us_per_mm: num,
-      zero_m: num,
-      span_m: num,
+      us_per_mm: num(),
+      zero_m: num(),
+      span_m: num(),
       expected_interval_s: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 60 },
       max_requests_per_min: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 120 },
       firmware: { type: DataTypes.TEXT, allowNull: true },
       last_seen_at: { type: DataTypes.DATE, allowNull: true },
-      battery_v: num,
-      rssi_dbm: num,
+      battery_v: num(),
+      rssi_dbm: num(),
       created_at: DataTypes.DATE,
       updated_at: DataTypes.DATE,
     },
@@ -154,7 +154,7 @@ export function initFleetModels(sequelize: Sequelize) {
   );
   Channel.init(
     {
-      id: uuidPk,
+      id: uuidPk(),
       device_id: { type: DataTypes.UUID, allowNull: false },
       index: { type: DataTypes.SMALLINT, allowNull: false },
       asset_id: { type: DataTypes.UUID, allowNull: true },
@@ -168,7 +168,7 @@ export function initFleetModels(sequelize: Sequelize) {
   );
   DeviceKey.init(
     {
-      id: uuidPk,
+      id: uuidPk(),
       device_id: { type: DataTypes.UUID, allowNull: false },
       prefix: { type: DataTypes.TEXT, allowNull: false },
       key_hash: { type: DataTypes.BLOB, allowNull: false },

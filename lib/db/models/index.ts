@@ -49,13 +49,13 @@ let initialised = false;
 export function initModels() {
   if (initialised) return;
   const sequelize = getSequelize();
-  const uuidPk = { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 };
+  const uuidPk = () => ({ type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 });
 
-  Organisation.init({ id: uuidPk, name: { type: DataTypes.TEXT, allowNull: false } }, { sequelize, tableName: "organisations" });
+  Organisation.init({ id: uuidPk(), name: { type: DataTypes.TEXT, allowNull: false } }, { sequelize, tableName: "organisations" });
 
   User.init(
     {
-      id: uuidPk,
+      id: uuidPk(),
       organisation_id: { type: DataTypes.UUID, allowNull: false },
       email: { type: DataTypes.TEXT, allowNull: false },
       name: { type: DataTypes.TEXT, allowNull: false, defaultValue: "" },
@@ -74,7 +74,7 @@ export function initModels() {
 
   Invite.init(
     {
-      id: uuidPk,
+      id: uuidPk(),
       user_id: { type: DataTypes.UUID, allowNull: false },
       invited_by: { type: DataTypes.UUID, allowNull: true },
       expires_at: { type: DataTypes.DATE, allowNull: false },
