@@ -3,7 +3,7 @@ import { NextResponse, type NextRequest } from "next/server";
 
 // Cheap first gate (no database): signed-out page requests go to sign-in. Route handlers and pages still
 // check the session and role themselves through requirePermission/requirePageUser.
-const PUBLIC_PREFIXES = ["/sign-in", "/invite/", "/api/", "/_next/", "/favicon", "/wordmark", "/docs"];
+const PUBLIC_PREFIXES = ["/sign-in", "/invite/", "/api/", "/_next/", "/favicon", "/wordmark"];
 
 export async function proxy(req: NextRequest) {
   const { pathname, search } = req.nextUrl;

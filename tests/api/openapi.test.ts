@@ -1,0 +1,62 @@
+import SwaggerParser from "@apidevtools/swagger-parser";
+import Ajv from "ajv";
+import { beforeAll, describe, expect, it } from "vitest";
+import { anonymous, signedIn } from "../support/session";
+import { createTankWithDevice } from "../support/fleet";
+
+// The OpenAPI document is checked by an independent validator (@apidevtools/swagger-parser), and its
+// Reading schema (ajv) must agree with what the route accepts and rejects.
+let doc: Record<string, any>; // eslint-disable-line @typescript-eslint/no-explicit-any -- a JSON document read field by field
+beforeAll(async () => {
+  doc = (await anonymous().get("/api/v1/openapi.json").expect(200)).body;
+});
+
+// OpenAPI 3.0 writes exclusive bounds as booleans beside minimum/maximum; JSON Schema draft 7 (ajv) as numbers.
+function openApi30ToJsonSchema(node: unknown): unknown {
+  if (Array.isArray(node)) return node.map(openApi30ToJsonSchema);
+  if (!node || typeof node !== "object") return node;
+  const out: Record<string, unknown> = {};
+  const src = node as Record<string, unknown>;
+  for (const [k, v] of Object.entries(src)) {
+    if (k === "exclusiveMinimum" && typeof v === "boolean") { if (v) out.exclusiveMinimum = src.minimum; continue; }
+    if (k === "exclusiveMaximum" && typeof v === "boolean") { if (v) out.exclusiveMaximum = src.maximum; continue; }
+    if (k === "nullable") continue;
+    out[k] = openApi30ToJsonSchema(v);
+  }
+  if (src.exclusiveMinimum === true) delete out.minimum;
+  if (src.exclusiveMaximum === true) delete out.maximum;
+  return out;
+}
+
+describe("GET /api/v1/openapi.json", () => {
+  it("is a valid OpenAPI 3 document", async () => {
+    await expect(SwaggerParser.validate(structuredClone(doc) as never)).resolves.toBeTruthy();
+    expect(doc.openapi).toMatch(/^3\./);
+  });
+
+  it("documents the route and every status code it answers", () => {
+    const op = doc.paths["/api/v1/readings"].post;
+    expect(Object.keys(op.responses).sort()).toEqual(["202", "400", "401", "413", "415", "429", "503"]);
+    expect(op.responses["429"].headers["Retry-After"]).toBeDefined();
+  });
+
+  it("has a Reading schema that agrees with the route", async () => {
+    const ajv = new Ajv({ strict: false });
+    ajv.addFormat("date-time", true);
+    const schema = openApi30ToJsonSchema(doc.components.schemas.Reading);
+    const validate = ajv.compile(schema);
+    const admin = await signedIn("admin@halftrip.test");
+    const { apiKey } = await createTankWithDevice(admin);
+    const samples = [
+      { seq: 1, channel: 0, echo_us: 5831.5, air_temp_c: 11.5 },
+      { seq: 2, channel: 0, samples_us: [5830, 5832] },
+      { seq: "3", channel: 0, echo_us: 5831 },
+      { seq: 4, channel: 0, echo_us: 5831, extra: true },
+      { seq: 5, channel: 9, echo_us: 5831 },
+      { seq: 6, channel: 0, echo_us: -1 },
+    ];
+    const res = await anonymous().post("/api/v1/readings").set("Authorization", `Bearer ${apiKey}`).set("Content-Type", "application/json").send({ readings: samples });
+    const rejected = new Set(res.body.rejected.map((r: { index: number }) => r.index));
+    samples.forEach((s, i) => expect(validate(s), `sample ${i}`).toBe(!rejected.has(i)));
+  });
+});
