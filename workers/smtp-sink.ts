@@ -8,6 +8,8 @@ import { simpleParser } from "mailparser";
 const SMTP_PORT = Number(process.env.SMTP_SINK_PORT ?? 2525);
 const HTTP_PORT = Number(process.env.SMTP_SINK_HTTP_PORT ?? 2580);
 const MAX_KEPT = 2000;
+// Loopback by default; a container deployment sets SMTP_SINK_HOST=0.0.0.0.
+const HOST = process.env.SMTP_SINK_HOST ?? "127.0.0.1";
 
 interface Kept {
   id: string;
@@ -75,9 +77,9 @@ const api = http.createServer((req, res) => {
   send(404, { error: "not_found" });
 });
 
-smtp.listen(SMTP_PORT, "127.0.0.1", () => {
-  api.listen(HTTP_PORT, "127.0.0.1", () => {
-    process.stdout.write(`[halftrip] mail sink: SMTP 127.0.0.1:${SMTP_PORT}, messages at http://127.0.0.1:${HTTP_PORT}/messages\n`);
+smtp.listen(SMTP_PORT, HOST, () => {
+  api.listen(HTTP_PORT, HOST, () => {
+    process.stdout.write(`[halftrip] mail sink: SMTP ${HOST}:${SMTP_PORT}, messages at http://${HOST}:${HTTP_PORT}/messages\n`);
   });
 });
 
