@@ -43,7 +43,7 @@ describe("GET /api/v1/openapi.json", () => {
   it("has a Reading schema that agrees with the route", async () => {
     const ajv = new Ajv({ strict: false });
     ajv.addFormat("date-time", true);
-    const schema = openApi30ToJsonSchema(doc.components.schemas.Reading);
+    const schema = openApi30ToJsonSchema(doc.components.schemas.Reading) as Record<string, unknown>;
     const validate = ajv.compile(schema);
     const admin = await signedIn("admin@halftrip.test");
     const { apiKey } = await createTankWithDevice(admin);
