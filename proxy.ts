@@ -3,7 +3,7 @@ import { NextResponse, type NextRequest } from "next/server";
 
 // Cheap first gate (no database): signed-out page requests go to sign-in. Route handlers and pages still
 // check the session and role themselves through requirePermission/requirePageUser.
-const PUBLIC_PREFIXES = ["/sign-in", "/invite/", "/api/", "/_next/", "/favicon", "/wordmark"];
+const PUBLIC_PREFIXES = ["/sign-in", "/invite/", "/ack/", "/_next/", "/favicon", "/wordmark"];
 
 export async function proxy(req: NextRequest) {
   const { pathname, search } = req.nextUrl;
@@ -16,4 +16,5 @@ export async function proxy(req: NextRequest) {
   return NextResponse.redirect(url);
 }
 
-export const config = { matcher: ["/((?!_next/static|_next/image|.*\\.svg$).*)"] };
+// Route handlers check their own session or device key; keeping them out of the proxy saves a hop on the ingest path.
+export const config = { matcher: ["/((?!api/|_next/static|_next/image|.*\\.svg$).*)"] };
