@@ -5,6 +5,8 @@ const nextConfig = {
   output: "standalone",
   serverExternalPackages: ["sequelize", "pg", "pg-hstore", "bcryptjs", "nodemailer", "smtp-server", "mailparser"],
   poweredByHeader: false,
+  // Tests and sandboxes address the dev server as 127.0.0.1.
+  allowedDevOrigins: ["127.0.0.1", "localhost"],
   // `npm run typecheck` (run first by `npm test`) checks the whole project; the build need not repeat it.
   typescript: { ignoreBuildErrors: true },
 };
