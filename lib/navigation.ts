@@ -9,6 +9,10 @@ export interface NavItem {
 
 export const NAV_ITEMS: NavItem[] = [
   { href: "/", label: "Overview", permission: "dashboard:read" },
+  { href: "/sites", label: "Sites", permission: "dashboard:read" },
+  { href: "/assets", label: "Assets", permission: "dashboard:read" },
+  { href: "/devices", label: "Devices", permission: "dashboard:read" },
+  { href: "/device-api", label: "Device API", permission: "dashboard:read" },
   { href: "/users", label: "Users", permission: "user:manage" },
   { href: "/mail", label: "Mail sink", permission: "mail:read" },
   { href: "/audit", label: "Audit log", permission: "audit:read" },

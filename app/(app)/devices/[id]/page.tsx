@@ -1,0 +1,34 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { requirePageUser } from "@/lib/auth/session";
+import { can } from "@/lib/auth/permissions";
+import { findDevice } from "@/lib/db/queries/devices";
+import { HttpError } from "@/lib/http/errors";
+import { isUuid } from "@/lib/validations/common";
+import { PageHeader } from "@/components/page-header";
+import { DeviceDetail } from "@/components/device-detail";
+
+export const metadata: Metadata = { title: "Device" };
+
+export default async function DevicePage({ params }: { params: Promise<{ id: string }> }) {
+  const user = await requirePageUser();
+  const { id } = await params;
+  if (!isUuid(id)) notFound();
+  const { device } = await findDevice(user.organisationId, id).catch((e) => {
+    if (e instanceof HttpError && e.status === 404) notFound();
+    throw e;
+  });
+  const canManage = can(user.role, "device:manage");
+  return (
+    <>
+      <PageHeader
+        title={device.name}
+        path={[{ href: "/devices", label: "Devices" }]}
+        facts={<>Serial <span className="figures">{device.serial}</span> · {device.profile}</>}
+        actions={canManage && <Link href={`/devices/${id}/edit`} className="btn-quiet">Edit device</Link>}
+      />
+      <DeviceDetail id={id} canManage={canManage} />
+    </>
+  );
+}
