@@ -170,6 +170,7 @@ async function test() {
     TEST_BASE_URL: `http://127.0.0.1:${port}`,
     PG_ADMIN_URL: `postgres://postgres@127.0.0.1:${PG_PORT}/postgres`,
     HALFTRIP_TEST: "1",
+    DEMO_KEYS_FILE: path.join(dataDir, "test-results", "demo-device-keys.json"),
   };
   const resultsDir = path.join(dataDir, "test-results");
   fs.rmSync(resultsDir, { recursive: true, force: true });
