@@ -126,10 +126,10 @@ export function formatDuration(seconds: number): string {
   return hours % 24 ? `${days} d ${hours % 24} h` : `${days} d`;
 }
 
-/** Days until the reorder level as the site screen says it. */
-export function formatDaysToReorder(days: number | null | undefined): string {
+/** Days until the reorder level (or another level: say what "now" means) as the screens say it. */
+export function formatDaysToReorder(days: number | null | undefined, nowText = "reorder now"): string {
   if (days == null || !Number.isFinite(days)) return "no fall in level";
-  if (days <= 0) return "reorder now";
+  if (days <= 0) return nowText;
   if (days < 1) return "within a day";
   const whole = Math.floor(days);
   return `in ${whole} ${whole === 1 ? "day" : "days"}`;

@@ -4,6 +4,7 @@ import { hashPassword } from "../lib/auth/passwords";
 import { writeAudit } from "../lib/db/audit";
 import { DEMO_ACCOUNTS, DEMO_ORGANISATION, DEMO_PASSWORD } from "./seeds/demo-accounts";
 import { seedDemoFleet } from "./seeds/demo-fleet";
+import { seedDemoAlarms } from "./seeds/demo-alarms";
 
 // Seeds the demo scenario into an empty database. Refuses in production unless explicitly asked.
 async function main() {
@@ -16,6 +17,8 @@ async function main() {
   if ((await Organisation.count()) > 0) {
     process.stdout.write("[halftrip] database already has data: seed skipped\n");
     await seedDemoFleet({ onlyKeys: true });
+    const demo = await Organisation.findOne({ where: { name: DEMO_ORGANISATION } });
+    if (demo) await seedDemoAlarms(demo.id);
     return;
   }
   const hash = await hashPassword(DEMO_PASSWORD);
@@ -28,6 +31,7 @@ async function main() {
     return o;
   });
   await seedDemoFleet({ organisationId: org.id });
+  await seedDemoAlarms(org.id);
   process.stdout.write(`[halftrip] demo scenario seeded (${DEMO_ACCOUNTS.length} accounts)\n`);
 }
 

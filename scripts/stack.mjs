@@ -187,7 +187,7 @@ async function test() {
     run(bin("vitest"), ["run", "--reporter=default", "--reporter=json", `--outputFile.json=${vitestJson}`], { env });
     const v = readJson(vitestJson);
     if (v) {
-      results.passed += v.numPassedTests; results.failed += v.numFailedTests + (v.numFailedTestSuites ?? 0) - countFailedSuitesWithFailedTests(v);
+      results.passed += v.numPassedTests; results.failed += v.numFailedTests + countFilesFailedWithoutTests(v);
       results.skipped += (v.numPendingTests ?? 0) + (v.numTodoTests ?? 0);
     } else {
       log("vitest wrote no results"); results.failed += 1;
@@ -217,9 +217,9 @@ async function test() {
   process.exit(exitCode);
 }
 
-// A suite that fails to load has no failed tests of its own; count it once so it cannot pass silently.
-function countFailedSuitesWithFailedTests(v) {
-  return (v.testResults ?? []).filter((s) => s.status === "failed" && (s.assertionResults ?? []).some((a) => a.status === "failed")).length;
+// A test file that fails to load has no failed tests of its own; count it once so it cannot pass silently.
+function countFilesFailedWithoutTests(v) {
+  return (v.testResults ?? []).filter((s) => s.status === "failed" && !(s.assertionResults ?? []).some((a) => a.status === "failed")).length;
 }
 
 if (mode === "test") await test();

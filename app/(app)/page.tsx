@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import { requirePageUser } from "@/lib/auth/session";
 import { PageHeader } from "@/components/page-header";
+import { FleetOverview } from "@/components/fleet-overview";
 import { fetchOrganisationName } from "@/lib/db/queries/organisations";
 
 export const metadata: Metadata = { title: "Overview" };
@@ -10,10 +11,8 @@ export default async function OverviewPage() {
   const organisation = await fetchOrganisationName(user.organisationId);
   return (
     <>
-      <PageHeader title="Overview" facts={organisation} />
-      <section className="card p-6">
-        <p>Signed in as {user.name || user.email} ({user.role}).</p>
-      </section>
+      <PageHeader title="Overview" facts={<>{organisation} · every site, live</>} />
+      <FleetOverview />
     </>
   );
 }

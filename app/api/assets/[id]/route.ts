@@ -1,5 +1,6 @@
 import { actorOf, requirePermission } from "@/lib/auth/session";
 import { findAsset, serialiseAsset, updateAsset } from "@/lib/db/queries/assets";
+import { requestRecompute } from "@/lib/db/queries/worker-recompute";
 import { parseJsonBody } from "@/lib/http/errors";
 import { idParam, type IdContext } from "@/lib/http/params";
 import { route } from "@/lib/http/route";
@@ -14,6 +15,8 @@ export const PATCH = route<IdContext>(async (req, ctx) => {
   const user = await requirePermission("asset:manage");
   const id = await idParam(ctx, "That asset");
   const patch = await parseJsonBody(req, updateAssetSchema);
-  const { asset } = await updateAsset(actorOf(user), id, patch);
+  const { asset, shapeChanged } = await updateAsset(actorOf(user), id, patch);
+  // The worker rebuilds the asset's measurements and rollups with the new shape in the background.
+  if (shapeChanged) await requestRecompute({ assetId: id, reason: "asset geometry or mounting changed" });
   return Response.json(asset);
 });

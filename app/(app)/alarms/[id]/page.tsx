@@ -1,0 +1,33 @@
+import type { Metadata } from "next";
+import { notFound } from "next/navigation";
+import { requirePageUser } from "@/lib/auth/session";
+import { findAlarm } from "@/lib/db/queries/alarms";
+import { HttpError } from "@/lib/http/errors";
+import { isUuid } from "@/lib/validations/common";
+import { PageHeader } from "@/components/page-header";
+import { AlarmCaution } from "@/components/alarm-caution";
+import { AlarmDetail } from "@/components/alarm-detail";
+
+export const metadata: Metadata = { title: "Alarm" };
+
+export default async function AlarmPage({ params }: { params: Promise<{ id: string }> }) {
+  const user = await requirePageUser();
+  const { id } = await params;
+  if (!isUuid(id)) notFound();
+  const alarm = await findAlarm(user.organisationId, id).catch((e) => {
+    if (e instanceof HttpError && e.status === 404) notFound();
+    throw e;
+  });
+  const where = alarm.asset?.name ?? (alarm.channel ? `${alarm.channel.device_name} channel ${alarm.channel.index}` : alarm.site.name);
+  return (
+    <>
+      <PageHeader
+        title={`${alarm.label} · ${where}`}
+        path={[{ href: "/alarms", label: "Alarms" }, { href: `/alarms?site_id=${alarm.site.id}`, label: alarm.site.name }]}
+        facts={`Site time zone ${alarm.site.time_zone}.`}
+      />
+      <AlarmCaution />
+      <AlarmDetail id={id} role={user.role} />
+    </>
+  );
+}

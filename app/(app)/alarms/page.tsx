@@ -1,0 +1,28 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { Suspense } from "react";
+import { requirePageUser } from "@/lib/auth/session";
+import { PageHeader } from "@/components/page-header";
+import { Loading } from "@/components/data-state";
+import { AlarmCaution } from "@/components/alarm-caution";
+import { AlarmTable } from "@/components/alarm-table";
+
+export const metadata: Metadata = { title: "Alarms" };
+
+export default async function AlarmsPage() {
+  const user = await requirePageUser();
+  return (
+    <>
+      <PageHeader
+        title="Alarms"
+        path={[{ href: "/", label: "Overview" }]}
+        facts="Level, leak and sensor alarms of every site, most urgent first."
+        actions={<Link href="/alarm-health" className="btn-quiet">Alarm health</Link>}
+      />
+      <AlarmCaution />
+      <Suspense fallback={<Loading />}>
+        <AlarmTable role={user.role} />
+      </Suspense>
+    </>
+  );
+}

@@ -1,0 +1,35 @@
+import type { Metadata } from "next";
+import { notFound } from "next/navigation";
+import { requirePageUser } from "@/lib/auth/session";
+import { can } from "@/lib/auth/permissions";
+import { findAsset } from "@/lib/db/queries/assets";
+import { HttpError } from "@/lib/http/errors";
+import { isUuid } from "@/lib/validations/common";
+import { PageHeader } from "@/components/page-header";
+import { AlarmCaution } from "@/components/alarm-caution";
+import { AlarmSetpointForm } from "@/components/alarm-setpoint-form";
+
+export const metadata: Metadata = { title: "Alarm setpoints" };
+
+export default async function SetpointsPage({ params }: { params: Promise<{ assetId: string }> }) {
+  const user = await requirePageUser();
+  const { assetId } = await params;
+  if (!isUuid(assetId)) notFound();
+  const asset = await findAsset(user.organisationId, assetId).catch((e) => {
+    if (e instanceof HttpError && e.status === 404) notFound();
+    throw e;
+  });
+  if (asset.kind !== "tank") notFound();
+  const editable = can(user.role, "setpoint:edit");
+  return (
+    <>
+      <PageHeader
+        title={`Setpoints · ${asset.name}`}
+        path={[{ href: "/alarms", label: "Alarms" }, { href: `/assets/${asset.id}`, label: asset.name }]}
+        facts={editable ? "HH, H, L and LL level alarms with deadband and on-delay, and a leak alarm." : "Read only: operators and admins edit setpoints."}
+      />
+      <AlarmCaution />
+      <AlarmSetpointForm assetId={asset.id} editable={editable} />
+    </>
+  );
+}

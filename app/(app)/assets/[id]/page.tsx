@@ -1,0 +1,41 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { Suspense } from "react";
+import { requirePageUser } from "@/lib/auth/session";
+import { can } from "@/lib/auth/permissions";
+import { findAsset } from "@/lib/db/queries/assets";
+import { findSite } from "@/lib/db/queries/sites";
+import { HttpError } from "@/lib/http/errors";
+import { isUuid } from "@/lib/validations/common";
+import { PageHeader } from "@/components/page-header";
+import { Loading } from "@/components/data-state";
+import { AssetLive } from "@/components/asset-live";
+
+export const metadata: Metadata = { title: "Asset" };
+
+const KIND_WORDS = { tank: "Tank", bay: "Parking bay", point: "Distance point" } as const;
+
+export default async function AssetPage({ params }: { params: Promise<{ id: string }> }) {
+  const user = await requirePageUser();
+  const { id } = await params;
+  if (!isUuid(id)) notFound();
+  const asset = await findAsset(user.organisationId, id).catch((e) => {
+    if (e instanceof HttpError && e.status === 404) notFound();
+    throw e;
+  });
+  const site = await findSite(user.organisationId, asset.site_id);
+  return (
+    <>
+      <PageHeader
+        title={asset.name}
+        path={[{ href: "/", label: "Overview" }, { href: `/sites/${site.id}`, label: site.name }]}
+        facts={<>{KIND_WORDS[asset.kind]} at {site.name}{asset.kind === "bay" && asset.bay_level ? ` · ${asset.bay_level}` : ""}</>}
+        actions={can(user.role, "asset:manage") && <Link href={`/assets/${id}/edit`} className="btn-quiet">Edit asset</Link>}
+      />
+      <Suspense fallback={<Loading />}>
+        <AssetLive assetId={id} canAcknowledge={can(user.role, "alarm:acknowledge")} />
+      </Suspense>
+    </>
+  );
+}

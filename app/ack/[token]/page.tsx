@@ -1,0 +1,66 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { currentUser } from "@/lib/auth/session";
+import { ackLinkProblemMessage, lookUpAckLink } from "@/lib/db/queries/alarms-notify";
+import { findAlarm } from "@/lib/db/queries/alarms";
+import { needsAcknowledgement } from "@/lib/alarms/engine";
+import type { AlarmPriority, AlarmState } from "@/lib/alarms/state-machine";
+import { formatSiteTime } from "@/lib/mail/alarm-mail";
+import { Wordmark } from "@/components/wordmark";
+import { AlarmCaution } from "@/components/alarm-caution";
+import { AlarmPriorityBadge, AlarmStateLabel, alarmFigure } from "@/components/alarm-badges";
+import { AlarmAckConfirm } from "@/components/alarm-ack-confirm";
+
+export const metadata: Metadata = { title: "Acknowledge an alarm", robots: { index: false, follow: false } };
+export const dynamic = "force-dynamic";
+
+// Opening the link only shows what it would acknowledge; the button below does it (a POST), so a mail
+// scanner that follows links acknowledges nothing.
+export default async function AckPage({ params }: { params: Promise<{ token: string }> }) {
+  const token = decodeURIComponent((await params).token);
+  const viewer = await currentUser();
+  const link = await lookUpAckLink(token, viewer?.organisationId ?? null);
+  const alarm = link.ok ? await findAlarm(link.organisationId, link.alarmId) : null;
+  return (
+    <main className="flex min-h-screen items-center justify-center px-4 py-8">
+      <div className="w-full max-w-md">
+        <Wordmark className="mb-8" />
+        {link.ok && alarm ? (
+          <>
+            <h1 className="mb-1 text-2xl font-bold">Acknowledge this alarm?</h1>
+            <p className="mb-4 text-sm text-muted">The acknowledgement is recorded as {link.recipient.name} ({link.recipient.email}). This link works once.</p>
+            <dl className="card mb-4 grid grid-cols-[auto,1fr] gap-x-4 gap-y-2 p-4 text-sm">
+              <dt className="font-bold">Alarm</dt>
+              <dd><AlarmPriorityBadge priority={alarm.priority as AlarmPriority} calm={alarm.state === "normal"} /> {alarm.label}</dd>
+              <dt className="font-bold">Site</dt>
+              <dd>{alarm.site.name}</dd>
+              <dt className="font-bold">Asset</dt>
+              <dd>{alarm.asset?.name ?? (alarm.channel ? `${alarm.channel.device_name}, channel ${alarm.channel.index}` : "—")}</dd>
+              <dt className="font-bold">Value / setpoint</dt>
+              <dd className="figures">{alarmFigure(alarm.value, alarm.unit)}{alarm.setpoint !== null && ` / ${alarmFigure(alarm.setpoint, alarm.unit)}`}</dd>
+              <dt className="font-bold">Since</dt>
+              <dd className="figures">{alarm.activated_at ? formatSiteTime(new Date(alarm.activated_at), alarm.site.time_zone) : "—"}</dd>
+              <dt className="font-bold">State</dt>
+              <dd><AlarmStateLabel state={alarm.state as AlarmState} /></dd>
+            </dl>
+            {needsAcknowledgement(alarm.state as AlarmState) ? (
+              <AlarmAckConfirm token={token} recipient={link.recipient.email} />
+            ) : (
+              <p role="status" className="border-l-4 border-rule bg-card px-3 py-2">
+                There is nothing to acknowledge: this alarm is {alarm.state.replaceAll("_", " ")}
+                {alarm.acknowledged_by ? `, acknowledged by ${alarm.acknowledged_by.email}` : ""}. Nothing was changed.
+              </p>
+            )}
+            <div className="mt-6"><AlarmCaution /></div>
+          </>
+        ) : (
+          <>
+            <h1 className="mb-2 text-2xl font-bold">This link cannot be used</h1>
+            <p role="alert" className="mb-6">{ackLinkProblemMessage(link.ok ? "unknown" : link.reason)}</p>
+            <Link href="/alarms" className="btn-quiet">Go to the alarms</Link>
+          </>
+        )}
+      </div>
+    </main>
+  );
+}

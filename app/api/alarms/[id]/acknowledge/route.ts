@@ -1,0 +1,13 @@
+import { actorOf, requirePermission } from "@/lib/auth/session";
+import { actOnAlarm } from "@/lib/db/queries/alarms";
+import { idParam, type IdContext } from "@/lib/http/params";
+import { route } from "@/lib/http/route";
+import { acknowledgeSchema } from "@/lib/validations/alarm";
+import { actionBody } from "../../action-body";
+
+export const POST = route<IdContext>(async (req, ctx) => {
+  const user = await requirePermission("alarm:acknowledge");
+  const id = await idParam(ctx, "That alarm");
+  const { comment } = await actionBody(req, acknowledgeSchema);
+  return Response.json(await actOnAlarm(actorOf(user), id, { type: "acknowledge", comment }));
+});

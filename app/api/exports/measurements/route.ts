@@ -1,0 +1,16 @@
+import { requirePermission } from "@/lib/auth/session";
+import { exportAssets, measurementBatches, MEASUREMENT_COLUMNS } from "@/lib/db/queries/exports";
+import { attachmentName, csvStream } from "@/lib/csv/write";
+import { parseQuery } from "@/lib/http/errors";
+import { route } from "@/lib/http/route";
+import { measurementsExportQuery } from "@/lib/validations/export";
+import { csvResponse } from "../csv-response";
+
+/** Measurements of the chosen assets in a range, as CSV streamed batch by batch. */
+export const GET = route(async (req) => {
+  const user = await requirePermission("export:read");
+  const query = parseQuery(req.url, measurementsExportQuery);
+  const assets = await exportAssets(user.organisationId, query.asset_ids);
+  const name = attachmentName(`measurements-${assets.length === 1 ? assets[0].name : `${assets.length}-assets`}-${query.from.toISOString().slice(0, 10)}-${query.to.toISOString().slice(0, 10)}`);
+  return csvResponse(csvStream(MEASUREMENT_COLUMNS, measurementBatches(assets, query)), name);
+});

@@ -1,0 +1,18 @@
+import { requirePermission } from "@/lib/auth/session";
+import { refillPlanBatches, REFILL_PLAN_COLUMNS } from "@/lib/db/queries/exports";
+import { attachmentName, csvStream } from "@/lib/csv/write";
+import { parseQuery } from "@/lib/http/errors";
+import { route } from "@/lib/http/route";
+import { uuidSchema } from "@/lib/validations/common";
+import { refillPlanQuery } from "@/lib/validations/export";
+import { csvResponse } from "../csv-response";
+
+const query = refillPlanQuery.extend({ site_id: uuidSchema.optional() });
+
+/** The refill plan for a horizon, as CSV (what a delivery partner plans from). */
+export const GET = route(async (req) => {
+  const user = await requirePermission("export:read");
+  const q = parseQuery(req.url, query);
+  const name = attachmentName(`refill-plan-${q.horizon_days}-days-${new Date().toISOString().slice(0, 10)}`);
+  return csvResponse(csvStream(REFILL_PLAN_COLUMNS, refillPlanBatches(user.organisationId, { horizonDays: q.horizon_days, siteId: q.site_id })), name);
+});

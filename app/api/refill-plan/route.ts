@@ -1,0 +1,15 @@
+import { requirePermission } from "@/lib/auth/session";
+import { refillPlan } from "@/lib/db/queries/refill-plan";
+import { parseQuery } from "@/lib/http/errors";
+import { route } from "@/lib/http/route";
+import { uuidSchema } from "@/lib/validations/common";
+import { refillPlanQuery } from "@/lib/validations/export";
+
+const query = refillPlanQuery.extend({ site_id: uuidSchema.optional() });
+
+/** Tanks that reach their reorder level within the horizon, soonest first, with the volume to deliver. */
+export const GET = route(async (req) => {
+  const user = await requirePermission("dashboard:read");
+  const q = parseQuery(req.url, query);
+  return Response.json(await refillPlan(user.organisationId, { horizonDays: q.horizon_days, siteId: q.site_id }));
+});

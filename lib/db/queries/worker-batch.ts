@@ -1,0 +1,241 @@
+// Batches of the worker: claim waiting readings, run the pipeline stages, write everything and delete
+// the claimed queue rows, all in one transaction per batch. A worker killed mid-batch rolls back and
+// the readings wait for the next; two workers never claim the same reading (FOR UPDATE SKIP LOCKED),
+// and measurements are unique per reading, so nothing is lost or written twice.
+//
+// Draining is pipelined: while one batch's transaction writes, the next batch is claimed and computed
+// from the channel states the first will leave. Before it writes, it locks those states and checks
+// their versions; if anyone else changed one meanwhile, it computes again from what is stored.
+
+import type { Transaction } from "sequelize";
+import { getSequelize } from "../sequelize";
+import { channelKey, processBatch, type ProcessedBatch } from "../../pipeline/batch";
+import type { ChannelState } from "../../pipeline/channel-state";
+import type { ChannelConfig, ReadingRow } from "../../pipeline/types";
+import {
+  loadChannelsOfDevices,
+  loadTemperatureChannelSites,
+  loadTemperatureSamples,
+  lockChannelStates,
+  fetchReadings,
+  sqlRows,
+  sqlRun,
+  writeProcessedBatch,
+  type LockedChannelState,
+} from "./worker-writes";
+
+/**
+ * A step that runs inside the batch's transaction after its measurements and flags are written:
+ * where alarm evaluation (and the notifications it queues) plugs in. A hook that throws rolls the
+ * whole batch back, so the readings are retried rather than measured without their alarms.
+ */
+export interface BatchHook {
+  name: string;
+  run(batch: ProcessedBatch, context: { transaction: Transaction; channels: ReadonlyMap<string, ChannelConfig> }): Promise<void>;
+}
+
+export interface BatchResult {
+  claimed: number;
+  /** Queue rows whose reading no longer exists (dropped with the queue row). */
+  missing: number;
+  measurements: number;
+  buckets: number;
+}
+
+// Session-level advisory lock held while a worker claims its batch and queues for its channels' state
+// rows, so batches are claimed in queue order and each channel's readings are processed in that order.
+const CLAIM_LOCK_KEY = 0x48545743;
+
+async function claimBatch(batchSize: number, transaction: Transaction): Promise<{ readings: ReadingRow[]; claimed: number }> {
+  // `= ANY(ARRAY(…))` keeps both steps on the primary keys; a join here plans as a scan of the whole queue.
+  // The bounds travel as text: a Date would cut them to milliseconds and miss readings at the edges.
+  const [claim] = await sqlRows<{ ids: string[] | null; lo: string | null; hi: string | null; n: number }>(
+    `WITH claimed AS (
+       DELETE FROM reading_queue
+       WHERE reading_id = ANY(ARRAY(SELECT reading_id FROM reading_queue ORDER BY reading_id LIMIT $1 FOR UPDATE SKIP LOCKED))
+       RETURNING reading_id, at
+     )
+     SELECT array_agg(reading_id) AS ids, min(at)::text AS lo, max(at)::text AS hi, count(*)::int AS n FROM claimed`,
+    [batchSize],
+    transaction,
+  );
+  if (!claim || claim.n === 0 || claim.ids === null) return { readings: [], claimed: 0 };
+  const readings = await fetchReadings(`readings r WHERE r.id = ANY($1::bigint[]) AND r.at BETWEEN $2::timestamptz AND $3::timestamptz`, [`{${claim.ids.join(",")}}`, claim.lo, claim.hi], transaction, "r.id");
+  return { readings, claimed: claim.n };
+}
+
+/** The channel states a batch in flight will commit, and the versions they will have. */
+type Expected = Map<string, { state: ChannelState; offlineSince: Date | null; version: number }>;
+
+interface Prepared {
+  transaction: Transaction;
+  claimed: number;
+  missing: number;
+  channels: Map<string, ChannelConfig>;
+  batch: ProcessedBatch;
+  /** Resolves when the state rows are locked and the batch is sure to be computed from them. */
+  ready: Promise<void>;
+  /** Versions of the state rows once this batch has written them. */
+  written: () => Expected;
+}
+
+function mergeStates(...parts: Map<string, LockedChannelState>[]): Map<string, LockedChannelState> {
+  const out = new Map<string, LockedChannelState>();
+  for (const part of parts) for (const [id, s] of part) out.set(id, s);
+  return out;
+}
+
+/**
+ * Claims a batch and computes it. Channels that the batch in flight (`expected`) is writing are
+ * computed from the states it will leave, and their rows are locked in the background; the batch
+ * is `ready` once those locks are held and the stored versions match (or it has been recomputed).
+ */
+async function prepareBatch(batchSize: number, expected: Expected | null, inFlight: Promise<unknown> | null): Promise<Prepared | null> {
+  const transaction = await getSequelize().transaction();
+  try {
+    // A crash of the database can lose only whole batches, which roll back with their queue deletions.
+    // JIT compilation would cost more than these short, wide statements take to run.
+    await sqlRun(`SET LOCAL synchronous_commit = off; SET LOCAL jit = off`, [], transaction);
+    await sqlRun(`SELECT pg_advisory_lock($1)`, [CLAIM_LOCK_KEY], transaction);
+    let unlocked = false;
+    const unlock = () => {
+      unlocked = true;
+      return sqlRun(`SELECT pg_advisory_unlock($1)`, [CLAIM_LOCK_KEY], transaction);
+    };
+    try {
+      const claim = await claimBatch(batchSize, transaction);
+      if (claim.claimed === 0) {
+        await unlock();
+        await transaction.rollback();
+        return null;
+      }
+      const readings = claim.readings;
+      const channelList = await loadChannelsOfDevices([...new Set(readings.map((r) => r.deviceId))], transaction);
+      const present = new Set(readings.map((r) => channelKey(r.deviceId, r.channel)));
+      const ids = channelList.filter((c) => present.has(channelKey(c.device.id, c.index))).map((c) => c.id);
+      const carried = ids.filter((id) => expected?.has(id));
+      const fresh = await lockChannelStates(ids.filter((id) => !expected?.has(id)), transaction);
+      let from = Infinity;
+      let to = -Infinity;
+      for (const r of readings) {
+        from = Math.min(from, r.at.getTime());
+        to = Math.max(to, r.at.getTime());
+      }
+      const channels = new Map(channelList.map((c) => [channelKey(c.device.id, c.index), c]));
+      const temperatureSamples = readings.length ? await loadTemperatureSamples([...new Set(channelList.map((c) => c.site.id))], new Date(from), new Date(to), transaction) : new Map();
+      const temperatureChannelSites = await loadTemperatureChannelSites(channelList.map((c) => c.id), transaction);
+      // Queued now, before the claim lock is released, so no later batch can take these rows first; the
+      // lock is granted when the batch in flight commits, and this connection waits for it meanwhile.
+      // The rows exist (the batch in flight has them), and one statement keeps the unlock behind it.
+      const carriedLocked = lockChannelStates(carried, transaction, { create: false });
+      const released = unlock();
+      carriedLocked.catch(() => undefined);
+      released.catch(() => undefined);
+
+      const assumed = mergeStates(fresh, new Map(carried.map((id) => [id, expected!.get(id)!])));
+      const input = { readings, channels, temperatureSamples, temperatureChannelSites };
+      let batch = processBatch({ ...input, states: assumed });
+      let states = assumed;
+
+      const ready = (async () => {
+        await inFlight;
+        let locked = await carriedLocked;
+        // Rows the batch in flight created were invisible to the lock until it committed: lock them now.
+        if (locked.size < carried.length) locked = await lockChannelStates(carried, transaction);
+        await released;
+        const changed = carried.some((id) => locked.get(id)?.version !== expected!.get(id)!.version);
+        if (changed) {
+          states = mergeStates(fresh, locked);
+          batch = processBatch({ ...input, states });
+        }
+      })();
+      // Awaited by commitBatch; until then a failure must not count as unhandled.
+      ready.catch(() => undefined);
+      return {
+        transaction,
+        claimed: claim.claimed,
+        missing: claim.claimed - readings.length,
+        channels: new Map(channelList.map((c) => [c.id, c])),
+        get batch() {
+          return batch;
+        },
+        ready,
+        written: () => {
+          const cleared = new Set(batch.offlineCleared.map((o) => o.channelId));
+          const out: Expected = new Map();
+          for (const [id, state] of batch.states) {
+            const before = states.get(id);
+            out.set(id, { state, offlineSince: cleared.has(id) ? null : (before?.offlineSince ?? null), version: (before?.version ?? 0) + 1 });
+          }
+          return out;
+        },
+      };
+    } finally {
+      if (!unlocked) await sqlRun(`SELECT pg_advisory_unlock($1)`, [CLAIM_LOCK_KEY], transaction).catch(() => undefined);
+    }
+  } catch (err) {
+    await transaction.rollback().catch(() => undefined);
+    throw err;
+  }
+}
+
+async function commitBatch(p: Prepared, hooks: readonly BatchHook[]): Promise<BatchResult> {
+  try {
+    await p.ready;
+    const written = await writeProcessedBatch(p.batch, p.transaction);
+    for (const hook of hooks) await hook.run(p.batch, { transaction: p.transaction, channels: p.channels });
+    await p.transaction.commit();
+    return { claimed: p.claimed, missing: p.missing, measurements: written.inserted, buckets: written.buckets };
+  } catch (err) {
+    await p.transaction.rollback().catch(() => undefined);
+    throw err;
+  }
+}
+
+export interface DrainResult {
+  batches: number;
+  readings: number;
+  measurements: number;
+  missing: number;
+  /** The queue was empty when draining stopped. */
+  drained: boolean;
+}
+
+/**
+ * Works through the queue, two batches in flight at a time, until it is empty or `maxMs` has passed.
+ * `afterBatch` runs after each commit (the worker uses it to keep its memory in check).
+ */
+export async function drainQueue(batchSize: number, hooks: readonly BatchHook[] = [], maxMs = Infinity, afterBatch: () => void = () => undefined): Promise<DrainResult> {
+  const started = Date.now();
+  const result: DrainResult = { batches: 0, readings: 0, measurements: 0, missing: 0, drained: false };
+  const add = (r: BatchResult) => {
+    result.batches += 1;
+    result.readings += r.claimed;
+    result.measurements += r.measurements;
+    result.missing += r.missing;
+    afterBatch();
+  };
+  let inFlight: { prepared: Prepared; commit: Promise<BatchResult> } | null = null;
+  let next: Prepared | null = null;
+  try {
+    for (;;) {
+      next = await prepareBatch(batchSize, inFlight ? inFlight.prepared.written() : null, inFlight?.commit ?? null);
+      if (inFlight) add(await inFlight.commit);
+      inFlight = null;
+      if (next === null) {
+        result.drained = true;
+        break;
+      }
+      inFlight = { prepared: next, commit: commitBatch(next, hooks) };
+      next = null;
+      if (Date.now() - started > maxMs) break;
+    }
+    if (inFlight) add(await inFlight.commit);
+  } catch (err) {
+    // A failed batch takes the one prepared after it down too: its states were computed from it.
+    if (next) await next.transaction.rollback().catch(() => undefined);
+    if (inFlight) await inFlight.commit.catch(() => undefined);
+    throw err;
+  }
+  return result;
+}

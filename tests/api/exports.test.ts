@@ -1,0 +1,110 @@
+import { beforeAll, describe, expect, it } from "vitest";
+import { anonymous, signedIn, signInAgent, type Agent } from "../support/session";
+import { createTankWithDevice } from "../support/fleet";
+import { createOtherOrganisation, sql } from "../support/db";
+import { EXPORT_BATCH_ROWS } from "@/lib/db/queries/exports";
+import { runWorkerOnce, sendEchoReadings } from "./calibration-readings";
+
+// Issue 6 item 8 and "Bad input": streamed CSV exports and their range rules.
+let viewer: Agent;
+let fleet: Awaited<ReturnType<typeof createTankWithDevice>>;
+const MOUNT = 3;
+// More readings than one export batch holds, so the keyset paging is crossed.
+const N = EXPORT_BATCH_ROWS + 7;
+const first = Date.now() - 20 * 3_600_000;
+
+beforeAll(async () => {
+  const admin = await signedIn("admin@halftrip.test");
+  viewer = await signedIn("viewer@halftrip.test");
+  fleet = await createTankWithDevice(admin);
+  // A steady 1.25 m level, a reading every 10 s.
+  await sendEchoReadings(fleet.apiKey, Array.from({ length: N }, (_, i) => ({ at: new Date(first + i * 10_000), distanceM: MOUNT - 1.25 })));
+  await runWorkerOnce();
+}, 300_000);
+
+const text = (req: ReturnType<Agent["get"]>) =>
+  req.buffer(true).parse((r, done) => {
+    let body = "";
+    r.on("data", (c: Buffer) => (body += c.toString("utf8")));
+    r.on("end", () => done(null, body));
+  });
+
+describe("measurements", () => {
+  it("streams every measurement of the range once, in time order, to a viewer", async () => {
+    const from = new Date(first - 60_000).toISOString();
+    const to = new Date().toISOString();
+    const res = await text(viewer.get(`/api/exports/measurements?asset_ids=${fleet.tank.id}&from=${from}&to=${to}`));
+    expect(res.status).toBe(200);
+    expect(res.headers["content-type"]).toMatch(/^text\/csv/);
+    const lines = (res.body as string).trim().split("\r\n");
+    const header = lines[0].split(",");
+    expect(header).toEqual(expect.arrayContaining(["site", "asset", "at", "status", "distance_m", "level_m", "volume_l", "uncertainty_m"]));
+    const rows = lines.slice(1).map((l) => l.split(","));
+    expect(rows).toHaveLength(N);
+    const at = header.indexOf("at");
+    const times = rows.map((r) => r[at]);
+    expect(new Set(times).size).toBe(N);
+    expect([...times].sort()).toEqual(times);
+    const level = header.indexOf("level_m");
+    const status = header.indexOf("status");
+    const ok = rows.filter((r) => r[status] === "ok");
+    expect(ok.length).toBeGreaterThan(N - 20);
+    // The level the readings encode, back through c·t/2 (echo times rounded to 0.1 µs: ±0.02 mm).
+    for (const r of ok.slice(0, 50)) expect(Number(r[level])).toBeCloseTo(1.25, 3);
+  });
+
+  it("exports only the range asked for", async () => {
+    const from = new Date(first + 100_000).toISOString();
+    const to = new Date(first + 200_000).toISOString();
+    const res = await text(viewer.get(`/api/exports/measurements?asset_ids=${fleet.tank.id}&from=${from}&to=${to}`));
+    // [first + 100 s, first + 200 s) holds the readings 10 … 19.
+    expect((res.body as string).trim().split("\r\n")).toHaveLength(11);
+  });
+
+  it("refuses a range that ends before it starts or spans more than 366 days", async () => {
+    const url = (from: string, to: string) => `/api/exports/measurements?asset_ids=${fleet.tank.id}&from=${from}&to=${to}`;
+    const backwards = await viewer.get(url("2026-03-10", "2026-03-01"));
+    expect(backwards.status).toBe(422);
+    expect(backwards.body.message).toMatch(/ends before it starts/);
+    const long = await viewer.get(url("2024-01-01", "2025-06-30"));
+    expect(long.status).toBe(422);
+    expect(long.body.message).toMatch(/at most 366 days/);
+    // A year of dates, both included: 2025-01-01 … 2025-12-31 is 365 days.
+    expect((await viewer.get(url("2025-01-01", "2025-12-31"))).status).toBe(200);
+    expect((await viewer.get(url("yesterday", "2025-12-31"))).status).toBe(422);
+    expect((await viewer.get(`/api/exports/measurements?from=2025-01-01&to=2025-01-02`)).status).toBe(422);
+    const alarms = await viewer.get("/api/exports/alarms?from=2026-03-10&to=2026-03-01");
+    expect(alarms.status).toBe(422);
+  });
+
+  it("answers 404 for another organisation's asset and 401 without a session", async () => {
+    const other = await createOtherOrganisation();
+    const { agent } = await signInAgent(other.adminEmail, other.password);
+    expect((await agent.get(`/api/exports/measurements?asset_ids=${fleet.tank.id}&from=2026-01-01&to=2026-01-02`)).status).toBe(404);
+    expect((await anonymous().get(`/api/exports/measurements?asset_ids=${fleet.tank.id}&from=2026-01-01&to=2026-01-02`)).status).toBe(401);
+  });
+});
+
+describe("alarms", () => {
+  it("streams the alarm events of the range as CSV", async () => {
+    // An alarm and one event written as the alarm stage would (its tables from db/migrations/0004-alarms.ts).
+    const [org] = await sql<{ organisation_id: string }>(`SELECT organisation_id FROM sites WHERE id = $1`, [fleet.site.id]);
+    const [alarm] = await sql<{ id: string }>(
+      `INSERT INTO alarms (organisation_id, site_id, asset_id, kind, priority, state, condition_active, value, setpoint, unit)
+       VALUES ($1, $2, $3, 'l', 'medium', 'unacknowledged', true, 0.61, 0.7, 'm') RETURNING id`,
+      [org.organisation_id, fleet.site.id, fleet.tank.id],
+    );
+    const at = new Date(Date.now() - 3_600_000);
+    await sql(
+      `INSERT INTO alarm_events (alarm_id, organisation_id, at, kind, from_state, to_state, cause, value, setpoint, priority, comment)
+       VALUES ($1, $2, $3, 'activated', 'normal', 'unacknowledged', 'condition', 0.61, 0.7, 'medium', 'level, low "L"')`,
+      [alarm.id, org.organisation_id, at],
+    );
+    const res = await text(viewer.get(`/api/exports/alarms?from=${new Date(Date.now() - 30 * 86_400_000).toISOString()}&to=${new Date().toISOString()}`));
+    expect(res.status).toBe(200);
+    const lines = (res.body as string).trim().split("\r\n");
+    expect(lines[0]).toBe("at,site,asset,alarm_kind,priority,event,from_state,to_state,cause,value,setpoint,unit,by,comment,alarm_id");
+    // RFC 4180 §2.6–2.7: a field with a comma or a quote is quoted, its quotes doubled.
+    expect(lines).toContain(`${at.toISOString()},${fleet.site.name},${fleet.tank.name},l,medium,activated,normal,unacknowledged,condition,0.61,0.7,m,,"level, low ""L""",${alarm.id}`);
+  });
+});

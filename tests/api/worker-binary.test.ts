@@ -1,0 +1,27 @@
+import { describe, expect, it } from "vitest";
+import { sql } from "../support/db";
+import { binaryArray } from "@/lib/db/queries/worker-writes";
+
+// The worker sends its measurement columns as binary arrays; PostgreSQL's own array_send is the
+// reference for the format (and the database reads them back to the same values).
+describe("binary array parameters", () => {
+  const cases: [string, Parameters<typeof binaryArray>[1], unknown[], string][] = [
+    ["float8 with a NULL", "float8", [1.5, null, -0.000123456789, 343.215], "ARRAY[1.5, NULL, -0.000123456789, 343.215]::float8[]"],
+    ["int8", "int8", [1, 4294967296, 9007199254740991], "ARRAY[1, 4294967296, 9007199254740991]::int8[]"],
+    ["int2", "int2", [0, 7, -3], "ARRAY[0, 7, -3]::int2[]"],
+    ["bool", "bool", [true, false, null], "ARRAY[true, false, NULL]::boolean[]"],
+    ["uuid", "uuid", ["6f1c0e1e-1234-4abc-8def-0123456789ab", null], "ARRAY['6f1c0e1e-1234-4abc-8def-0123456789ab', NULL]::uuid[]"],
+    // 2026-03-14T06:30:00.123456Z in microseconds since 1970.
+    ["timestamptz", "timestamptz", [1773469800123456, 0], "ARRAY['2026-03-14T06:30:00.123456Z', '1970-01-01T00:00:00Z']::timestamptz[]"],
+    ["empty float8", "float8", [], "ARRAY[]::float8[]"],
+  ];
+  it.each(cases)("%s matches array_send", async (_label, type, values, literal) => {
+    const [row] = await sql<{ bytes: Buffer }>(`SELECT array_send(${literal}) AS bytes`);
+    expect(binaryArray(values, type).equals(row.bytes)).toBe(true);
+  });
+
+  it("is read back by PostgreSQL as the same values", async () => {
+    const [row] = await sql<{ v: number[] }>(`SELECT $1::float8[] AS v`, [binaryArray([0.1, 2.5e-9, 1e300], "float8")]);
+    expect(row.v).toEqual([0.1, 2.5e-9, 1e300]);
+  });
+});

@@ -1,0 +1,47 @@
+import { readFile } from "node:fs/promises";
+import { expect, test } from "@playwright/test";
+import { signedIn } from "../support/session";
+import { signInAs } from "./calibration-support";
+import { createTankWithDevice } from "../support/fleet";
+import { fallingLevel, runWorkerOnce, sendEchoReadings } from "../api/calibration-readings";
+
+// Issue 6, browser test: a viewer (a delivery partner) sees the refill plan and exports it, and is
+// offered no action.
+
+test("a viewer sees the refill plan and downloads it, with no action offered", async ({ page }) => {
+  test.setTimeout(120_000);
+  const admin = await signedIn("admin@halftrip.test");
+  const fleet = await createTankWithDevice(admin);
+  // 0.5 m in the 3 m² tank of tests/support/fleet.ts: 1 500 L of 8 400 L, below its 25 % reorder level;
+  // 90 % safe fill is 7 560 L, so 6 060 L to deliver (by hand).
+  await sendEchoReadings(fleet.apiKey, fallingLevel(3, 6, 0.5, 0.5));
+  await runWorkerOnce();
+
+  await signInAs(page, "viewer@halftrip.test");
+  const nav = page.getByRole("navigation", { name: "Main" });
+  await expect(nav.getByRole("link", { name: "Imports" })).toHaveCount(0);
+  await expect(nav.getByRole("link", { name: "Calibration" })).toHaveCount(0);
+  await nav.getByRole("link", { name: "Refill plan" }).click();
+  await expect(page.getByRole("heading", { name: "Refill plan", exact: true })).toBeVisible();
+
+  const plan = page.getByRole("region", { name: "Refill plan" });
+  const row = plan.getByRole("row").filter({ hasText: fleet.tank.name });
+  await expect(row).toContainText("now: below the reorder level");
+  await expect(row).toContainText("6\u202f060\u00a0L");
+  await expect(row).toContainText("18\u00a0%");
+
+  await page.getByLabel("Horizon").selectOption("30");
+  await expect(page).toHaveURL(/horizon_days=30/);
+  await expect(row).toBeVisible();
+
+  // Nothing to do here but read and download: no buttons in the page itself, no forms.
+  const main = page.getByRole("main");
+  await expect(main.getByRole("button")).toHaveCount(0);
+  await expect(main.locator("form")).toHaveCount(0);
+
+  const [download] = await Promise.all([page.waitForEvent("download"), main.getByRole("link", { name: "Download CSV" }).click()]);
+  expect(download.suggestedFilename()).toMatch(/^refill-plan-30-days-\d{4}-\d{2}-\d{2}\.csv$/);
+  const text = await readFile((await download.path())!, "utf8");
+  expect(text.split("\r\n")[0]).toBe("due_at,site,tank,reason,days_to_reorder,days_to_empty,current_volume_l,fill_pct,capacity_l,safe_fill_pct,deliver_l,measured_at,asset_id");
+  expect(text).toContain(`${fleet.site.name},${fleet.tank.name},below_reorder,0,`);
+});

@@ -1,0 +1,48 @@
+import { describe, it, expect } from "vitest";
+import { buildTemperatureSeries, interpolateTemperature, resolveAirTemperature } from "@/lib/pipeline/air-temperature";
+import { PIPELINE_SETTINGS } from "@/lib/pipeline/settings";
+
+const MIN = 60_000;
+const series = buildTemperatureSeries([
+  { atMs: 30 * MIN, airTempC: 14 },
+  { atMs: 0, airTempC: 10 },
+  { atMs: 60 * MIN, airTempC: Number.NaN },
+  { atMs: 600 * MIN, airTempC: 30 },
+]);
+
+describe("site temperature samples", () => {
+  it("sorts the samples and drops the ones that are not numbers", () => {
+    expect(Array.from(series.temps)).toEqual([10, 14, 30]);
+  });
+
+  it("interpolates linearly between neighbours and returns a sample's own time exactly", () => {
+    expect(interpolateTemperature(series, 15 * MIN)).toBe(12);
+    expect(interpolateTemperature(series, 30 * MIN)).toBe(14);
+  });
+
+  it("takes the nearest sample across a gap too wide to interpolate, within an hour of it", () => {
+    // 30 → 600 min is 9.5 h, over the 6 h limit.
+    expect(PIPELINE_SETTINGS.tempInterpolationMaxGapS).toBe(6 * 3600);
+    expect(interpolateTemperature(series, 80 * MIN)).toBe(14);
+    expect(interpolateTemperature(series, 560 * MIN)).toBe(30);
+    expect(interpolateTemperature(series, 300 * MIN)).toBeNull();
+    expect(interpolateTemperature(series, -90 * MIN)).toBeNull();
+    expect(interpolateTemperature(buildTemperatureSeries([]), 0)).toBeNull();
+  });
+});
+
+describe("air temperature precedence (PRODUCT.md)", () => {
+  const u = PIPELINE_SETTINGS.tempUncertaintyK;
+  it("reading, then samples, then the site's fixed value, then 20 °C, each with its uncertainty", () => {
+    expect(resolveAirTemperature({ readingTempC: 7, atMs: 15 * MIN, siteSeries: series, siteFixedC: 3 })).toMatchObject({ tempC: 7, source: "reading", uncertaintyK: u.reading });
+    expect(resolveAirTemperature({ readingTempC: null, atMs: 15 * MIN, siteSeries: series, siteFixedC: 3 })).toMatchObject({ tempC: 12, source: "site_samples", uncertaintyK: u.site_samples });
+    expect(resolveAirTemperature({ readingTempC: null, atMs: 300 * MIN, siteSeries: series, siteFixedC: 3 })).toMatchObject({ tempC: 3, source: "site_fixed", uncertaintyK: u.site_fixed });
+    expect(resolveAirTemperature({ readingTempC: null, atMs: 0, siteSeries: null, siteFixedC: null })).toMatchObject({ tempC: 20, source: "default", uncertaintyK: u.default });
+  });
+
+  it("passes over a reading's impossible temperature and notes it", () => {
+    const t = resolveAirTemperature({ readingTempC: 400, atMs: 0, siteSeries: null, siteFixedC: 8 });
+    expect(t).toMatchObject({ tempC: 8, source: "site_fixed" });
+    expect(t.note).toMatch(/400/);
+  });
+});

@@ -1,0 +1,114 @@
+// The measurement worker. `tsx workers/worker.ts` runs a cycle every WORKER_INTERVAL_S seconds (10 by
+// default; WORKER_CRON overrides with a 6-field cron expression); `--once` processes everything
+// waiting, including recompute requests, and exits. Several may run at once.
+import v8 from "node:v8";
+import vm from "node:vm";
+import cron from "node-cron";
+import { getSequelize } from "../lib/db/sequelize";
+import type { BatchHook } from "../lib/db/queries/worker-batch";
+import { runCycle, type CycleHook, type CycleResult } from "../lib/db/queries/worker-cycle";
+import { ensurePartitions } from "../lib/db/queries/worker-maintenance";
+import { alarmBatchHook, alarmCycleHook, notifyCycleHook } from "../lib/db/queries/alarms-worker";
+
+// Alarm evaluation and notification plug in here: batch hooks run inside each batch's transaction,
+// cycle hooks once per cycle after the queue is drained.
+const batchHooks: BatchHook[] = [alarmBatchHook];
+const cycleHooks: CycleHook[] = [alarmCycleHook, notifyCycleHook];
+
+const once = process.argv.includes("--once");
+const batchSize = Number(process.env.WORKER_BATCH_SIZE ?? 25_000);
+const intervalS = Number(process.env.WORKER_INTERVAL_S ?? 10);
+const schedule = process.env.WORKER_CRON ?? `*/${intervalS} * * * * *`;
+const quiet = process.env.WORKER_QUIET === "1";
+const PARTITION_EVERY_MS = 24 * 3600 * 1000;
+
+let lastPartitionCheck = 0;
+
+// V8 lets the heap grow far past what a batch needs before it collects; a full collection when a
+// batch leaves more than this behind keeps the worker's resident memory near its working set.
+const HEAP_COLLECT_ABOVE_BYTES = Number(process.env.WORKER_HEAP_MB ?? 96) * 2 ** 20;
+v8.setFlagsFromString("--expose-gc");
+const collectGarbage = vm.runInNewContext("gc") as () => void;
+
+function keepMemoryInCheck() {
+  if (process.memoryUsage().heapUsed > HEAP_COLLECT_ABOVE_BYTES) collectGarbage();
+}
+
+function log(message: string) {
+  if (!quiet) process.stdout.write(`[worker ${process.pid}] ${message}\n`);
+}
+
+function describe(r: CycleResult): string {
+  const parts = [`${r.readings} readings → ${r.measurements} measurements in ${r.batches} batches`];
+  if (r.missing) parts.push(`${r.missing} queue rows without a reading`);
+  if (r.recomputed.requests) parts.push(`recomputed ${r.recomputed.channels} channels (${r.recomputed.measurements} measurements)`);
+  if (r.offlineFlagged) parts.push(`${r.offlineFlagged} channels offline`);
+  if (r.dipsEvaluated) parts.push(`${r.dipsEvaluated} dips compared`);
+  if (r.forecasts) parts.push(`${r.forecasts} forecasts`);
+  const t = r.timings;
+  return `${parts.join(", ")} (${r.ms} ms: drain ${t.drain}, recompute ${t.recompute}, offline ${t.offline}, dips ${t.dips}, forecasts ${t.forecasts}, hooks ${t.hooks})`;
+}
+
+async function ensurePartitionsDaily() {
+  if (Date.now() - lastPartitionCheck < PARTITION_EVERY_MS) return;
+  lastPartitionCheck = Date.now();
+  try {
+    await ensurePartitions();
+  } catch (err) {
+    // A default partition holding rows of the new month blocks creating it; the data stays readable.
+    console.error("[worker] could not create partitions:", err instanceof Error ? err.message : err);
+  }
+}
+
+async function cycle(): Promise<CycleResult> {
+  await ensurePartitionsDaily();
+  const result = await runCycle({ batchSize, batchHooks, cycleHooks, maxDrainMs: once ? Infinity : 60_000, afterBatch: keepMemoryInCheck });
+  if (result.readings || result.recomputed.requests || result.offlineFlagged || result.dipsEvaluated || result.forecasts) log(describe(result));
+  return result;
+}
+
+async function runOnce() {
+  // A recompute or a late reading can leave work for another pass; stop when a pass finds nothing.
+  for (let pass = 0; pass < 10; pass++) {
+    const r = await cycle();
+    if (r.drained && r.readings === 0 && r.recomputed.requests === 0) break;
+  }
+}
+
+async function main() {
+  if (once) {
+    await runOnce();
+    await getSequelize().close();
+    return;
+  }
+  if (!cron.validate(schedule)) throw new Error(`WORKER_CRON "${schedule}" is not a valid cron expression`);
+  log(`running every cycle of "${schedule}", batches of ${batchSize}`);
+  // A cycle that outlasts the interval makes the next tick a no-op rather than a second cycle.
+  let running: Promise<void> | null = null;
+  const tick = () => {
+    if (running) return;
+    running = cycle()
+      .then(() => undefined, (err) => console.error("[worker] cycle failed:", err))
+      .finally(() => {
+        running = null;
+      });
+  };
+  const task = cron.schedule(schedule, tick, { name: "measurement-worker" });
+  const stop = async () => {
+    log("stopping");
+    await task.stop();
+    // Let a cycle in progress finish; a kill instead rolls its batch back, which is safe too.
+    if (running) await running;
+    await getSequelize().close();
+    process.exit(0);
+  };
+  process.on("SIGINT", stop);
+  process.on("SIGTERM", stop);
+  tick();
+}
+
+main().catch(async (err) => {
+  console.error("[worker] failed:", err);
+  await getSequelize().close().catch(() => undefined);
+  process.exit(1);
+});
