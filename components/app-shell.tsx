@@ -6,15 +6,13 @@ import { NavLinks } from "./nav-links";
 import { SignOutButton } from "./sign-out-button";
 
 export function AppShell({ user, children }: { user: SessionUser; children: React.ReactNode }) {
-  const items = navFor(user.role).map(({ href, label }) => ({ href, label }));
   return (
     <div className="min-h-screen">
       <header className="border-b border-rule bg-card">
-        <div className="mx-auto flex max-w-7xl items-center gap-6 px-4 py-2">
+        <div className="mx-auto flex max-w-screen-2xl items-center gap-6 px-4 py-2">
           <Link href="/" aria-label="Halftrip home" className="shrink-0">
             <Wordmark />
           </Link>
-          <NavLinks items={items} />
           <div className="ml-auto flex items-center gap-3 text-sm">
             <span className="hidden text-muted sm:inline" data-testid="signed-in-as">
               {user.email} · <span className="capitalize">{user.role}</span>
@@ -23,7 +21,10 @@ export function AppShell({ user, children }: { user: SessionUser; children: Reac
           </div>
         </div>
       </header>
-      <main className="mx-auto max-w-7xl px-4 py-6">{children}</main>
+      <div className="mx-auto flex max-w-screen-2xl flex-col gap-6 px-4 py-4 md:flex-row md:py-6">
+        <NavLinks sections={navFor(user.role)} />
+        <main className="min-w-0 flex-1">{children}</main>
+      </div>
     </div>
   );
 }
