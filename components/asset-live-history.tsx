@@ -1,4 +1,5 @@
 import type { AssetOverviewJson } from "@/lib/db/queries/overview-asset";
+import { isAlarmKind, isLevelAlarmKind } from "@/lib/alarms/engine";
 import { formatDuration, formatMetres } from "./fleet-figures";
 import { ALARM_STATE_LABELS, FlagTag, PriorityMark } from "./fleet-status";
 import { STACKED_TABLE } from "./site-provisioning-kit";
@@ -7,6 +8,8 @@ import { STACKED_TABLE } from "./site-provisioning-kit";
 // calibration changes. Dense tables that become stacked cards at phone width.
 
 const when = (iso: string) => new Date(iso).toLocaleString();
+// Only level alarms carry a value in metres; health alarms carry counts or seconds.
+const isLevel = (kind: string) => isAlarmKind(kind) && isLevelAlarmKind(kind);
 
 export function AlarmHistory({ events }: { events: AssetOverviewJson["alarm_history"] }) {
   if (!events.length) return <p className="px-3 py-4 text-sm text-muted">No alarm has changed state on this asset yet.</p>;
@@ -32,7 +35,10 @@ export function AlarmHistory({ events }: { events: AssetOverviewJson["alarm_hist
                 : e.kind.replace(/_/g, " ")}
               {e.comment && <span className="block text-xs text-muted">“{e.comment}”</span>}
             </td>
-            <td data-label="Value" className="figures">{e.value != null ? formatMetres(e.value) : "—"}{e.setpoint != null && <span className="text-muted"> / {formatMetres(e.setpoint)}</span>}</td>
+            <td data-label="Value" className="figures">
+              {e.value != null && isLevel(e.alarm_kind) ? formatMetres(e.value) : "—"}
+              {e.setpoint != null && isLevel(e.alarm_kind) && <span className="text-muted"> / {formatMetres(e.setpoint)}</span>}
+            </td>
             <td data-label="By">{e.actor_label ?? <span className="text-muted">{e.cause}</span>}</td>
           </tr>
         ))}

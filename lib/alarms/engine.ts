@@ -350,7 +350,12 @@ export interface FlagInterval {
  * later than `evaluatedUntilMs`, in time order. Overlapping rows are merged by the reducer (a second
  * opening while active changes nothing).
  */
-export function healthFlagChanges(flag: HealthFlagKind, intervals: readonly FlagInterval[], evaluatedUntilMs: number | null): ConditionChange[] {
+export function healthFlagChanges(
+  flag: HealthFlagKind,
+  intervals: readonly FlagInterval[],
+  evaluatedUntilMs: number | null,
+  conditionActive = false,
+): ConditionChange[] {
   const label = alarmKindLabel(flag).toLowerCase();
   const changes: ConditionChange[] = [];
   const ordered = [...intervals].sort((a, b) => instantToMs(a.since) - instantToMs(b.since));
@@ -361,7 +366,9 @@ export function healthFlagChanges(flag: HealthFlagKind, intervals: readonly Flag
     }
     if (i.clearedAt !== null) {
       const clearedMs = instantToMs(i.clearedAt);
-      if (evaluatedUntilMs === null || clearedMs > evaluatedUntilMs) {
+      // A flag the worker withdraws (late readings showed no outage) clears at the instant it opened, which
+      // is where the alarm's evaluation stopped: an alarm still active must take that clear too.
+      if (evaluatedUntilMs === null || clearedMs > evaluatedUntilMs || (conditionActive && clearedMs === evaluatedUntilMs)) {
         changes.push({ at: clearedMs, active: false, value: i.magnitude, setpoint: null, cause: `${label} flag cleared by the worker` });
       }
     }

@@ -185,6 +185,17 @@ describe("health-flag alarms", () => {
     expect(r.events[0].cause).toBe("sensor stuck flag raised by the worker");
   });
 
+  it("clears an active alarm whose flag was withdrawn at the instant it opened", () => {
+    const opened = applyConditionChanges(newAlarmRecord("medium"), healthFlagChanges("offline", [{ since: at(5), clearedAt: null, magnitude: null }], null));
+    expect(opened.record.snapshot.conditionActive).toBe(true);
+    const withdrawn = [{ since: at(5), clearedAt: at(5), magnitude: null }];
+    expect(healthFlagChanges("offline", withdrawn, at(5), false)).toEqual([]);
+    const changes = healthFlagChanges("offline", withdrawn, at(5), true);
+    expect(changes.map((c) => c.active)).toEqual([false]);
+    const r = applyConditionChanges(opened.record, changes);
+    expect(r.record.snapshot.state).toBe("returned_unacknowledged");
+  });
+
   it("keeps an interval that opens and clears at one instant in that order", () => {
     const changes = healthFlagChanges("offline", [{ since: at(5), clearedAt: at(5), magnitude: null }], null);
     expect(changes.map((c) => c.active)).toEqual([true, false]);

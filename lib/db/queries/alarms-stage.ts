@@ -264,7 +264,7 @@ async function applyFlagRows(flags: readonly FlagDbRow[], extraAlarmIds: readonl
   for (const row of alarms) {
     const intervals = (flagsOf.get(`${row.channel_id}:${row.kind}`) ?? []).map((f) => ({ since: f.since, clearedAt: f.cleared_at, magnitude: f.magnitude }));
     const untilMs = row.evaluated_until === null ? null : new Date(row.evaluated_until).getTime();
-    const changes = healthFlagChanges(row.kind as HealthFlagKind, intervals, untilMs);
+    const changes = healthFlagChanges(row.kind as HealthFlagKind, intervals, untilMs, row.condition_active);
     if (changes.length === 0) continue;
     const r = applyConditionChanges(toRecord(row), changes);
     const latest = Math.max(untilMs ?? -Infinity, ...changes.map((c) => new Date(c.at).getTime()));
