@@ -142,6 +142,7 @@ async function main() {
   const url = dbUrl(dbName);
   try {
     const env: NodeJS.ProcessEnv = { ...process.env, DATABASE_URL: url, NODE_ENV: "production", WORKER_QUIET: "0" };
+    log(`load average before: ${os.loadavg().map((l) => l.toFixed(2)).join(", ")} on ${os.cpus().length} cores`);
     execFileSync(path.join(root, "node_modules/.bin/tsx"), ["db/migrate.ts", "up"], { cwd: root, env, stdio: "inherit" });
     const seedStart = Date.now();
     await withClient(url, (c) => c.query(seedSql(perChannel)));
@@ -150,7 +151,12 @@ async function main() {
 
     const peak: Peak = { rssKb: 0 };
     const started = process.hrtime.bigint();
-    const child = spawn(process.execPath, ["--import", "tsx", "workers/worker.ts", "--once"], { cwd: root, env, stdio: ["ignore", "inherit", "inherit"] });
+    const child = spawn(process.execPath, ["--import", "tsx", "workers/worker.ts", "--once"], { cwd: root, env, stdio: ["ignore", "pipe", "inherit"] });
+    let output = "";
+    child.stdout.on("data", (chunk: Buffer) => {
+      output += chunk.toString();
+      process.stdout.write(chunk);
+    });
     const timer = watchPeakRss(child.pid as number, peak);
     const code: number = await new Promise((resolve) => child.on("exit", (c) => resolve(c ?? 1)));
     clearInterval(timer);
@@ -167,6 +173,10 @@ async function main() {
     });
     const rate = queued / seconds;
     log(`worker drained ${queued} readings in ${seconds.toFixed(1)} s → ${Math.round(rate).toLocaleString("en-GB")} readings/s (process start included)`);
+    // The worker's own account of its first cycle: time spent draining the queue alone.
+    const drainMs = Number(/drain (\d+)/.exec(output)?.[1] ?? 0);
+    if (drainMs > 0) log(`queue drain alone ${(drainMs / 1000).toFixed(1)} s → ${Math.round(queued / (drainMs / 1000)).toLocaleString("en-GB")} readings/s`);
+    log(`load average at the end: ${os.loadavg().map((l) => l.toFixed(2)).join(", ")} on ${os.cpus().length} cores`);
     log(`peak RSS ${(peak.rssKb / 1024).toFixed(0)} MB`);
     log(`check: queue ${check.queue}, measurements ${check.measurements} (${check.distinct_readings} distinct readings), rolled up ${check.rolled}, flags ${check.flags}`);
     log(`statuses: ${check.statuses}`);

@@ -96,9 +96,3 @@ export function pushInto(window: number[], value: number, size: number): void {
   window.push(value);
   while (window.length > size) window.shift();
 }
-
-/** Appends values and keeps only the newest `size`. */
-export function pushWindow(window: readonly number[], values: readonly number[], size: number): number[] {
-  const combined = window.concat(values);
-  return combined.length > size ? combined.slice(combined.length - size) : combined;
-}

@@ -305,24 +305,26 @@ export interface DevicePings {
   channelIds: Record<number, string>;
 }
 
-/** Crosstalk risk for one device: flags on both channels of each pair pinged too close together. */
+/** Crosstalk risk for one device: each channel of a pair pinged too close together is flagged with its closest gap. */
 export function assessCrosstalk({ pings, channelIds }: DevicePings, trackers: ReadonlyMap<string, FlagTracker>): void {
-  const pairs = detectCrosstalk(pings, PIPELINE_SETTINGS.crosstalkGapMs);
-  const flagged = new Set<number>();
-  for (const p of pairs) {
+  const closest = new Map<number, { gapMs: number; other: number }>();
+  for (const p of detectCrosstalk(pings, PIPELINE_SETTINGS.crosstalkGapMs)) {
     for (const [self, other] of [[p.channelA, p.channelB], [p.channelB, p.channelA]] as const) {
-      flagged.add(self);
-      const tracker = trackers.get(channelIds[self]);
-      const times = pings[self] ?? [];
-      if (tracker && times.length) {
-        tracker.raise("crosstalk_risk", Math.min(...times), p.minGapMs, { with_channel_index: other, with_channel_id: channelIds[other] ?? null, min_gap_ms: p.minGapMs });
-      }
+      const seen = closest.get(self);
+      if (!seen || p.minGapMs < seen.gapMs) closest.set(self, { gapMs: p.minGapMs, other });
+    }
+  }
+  for (const [self, { gapMs, other }] of closest) {
+    const tracker = trackers.get(channelIds[self]);
+    const times = pings[self] ?? [];
+    if (tracker && times.length) {
+      tracker.raise("crosstalk_risk", Math.min(...times), gapMs, { with_channel_index: other, with_channel_id: channelIds[other] ?? null, min_gap_ms: gapMs });
     }
   }
   const active = Object.keys(pings).map(Number).filter((i) => (pings[i] ?? []).length > 0);
   if (active.length < 2) return;
   for (const index of active) {
-    if (flagged.has(index)) continue;
+    if (closest.has(index)) continue;
     const tracker = trackers.get(channelIds[index]);
     if (tracker?.isOpen("crosstalk_risk")) tracker.clear("crosstalk_risk", Math.max(...pings[index]));
   }

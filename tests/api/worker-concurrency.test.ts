@@ -1,4 +1,4 @@
-import { execFile } from "node:child_process";
+import { execFile, spawn } from "node:child_process";
 import { promisify } from "node:util";
 import { beforeAll, describe, expect, it } from "vitest";
 import { signedIn, type Agent } from "../support/session";
@@ -88,5 +88,29 @@ describe("two workers on one backlog", () => {
         expect(Math.abs(r[key] - streamed.rollups[i][key])).toBeLessThanOrEqual(1e-9 * Math.abs(r[key]));
       }
     });
+  }, 240_000);
+
+  it("lose and duplicate nothing when one is killed mid-batch", async () => {
+    const other = await createTankWithDevice(admin, { device: { expected_interval_s: 3600 } });
+    const start = Date.now() - 2000 * 5_000;
+    await sendReadings(
+      other.apiKey,
+      Array.from({ length: 2000 }, (_, k) => ({ seq: k + 1, at: new Date(start + k * 5_000).toISOString(), channel: 0, echo_us: 5831 + (k % 7), air_temp_c: 20 })),
+    );
+    // Small batches and a kill (no chance to clean up) as soon as it has committed some of them.
+    const child = spawn("npx", ["tsx", "workers/worker.ts", "--once"], { env: { ...process.env, WORKER_BATCH_SIZE: "20" }, detached: true, stdio: "ignore" });
+    const measured = async () => Number((await sql<{ n: string }>(`SELECT count(*) AS n FROM measurements WHERE device_id = $1`, [other.device.id]))[0].n);
+    const deadline = Date.now() + 60_000;
+    while ((await measured()) === 0 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 50));
+    process.kill(-(child.pid as number), "SIGKILL");
+    const partial = await measured();
+    expect(partial).toBeGreaterThan(0);
+    expect(partial).toBeLessThan(2000);
+    await runWorkerOnce({ WORKER_QUIET: "1" });
+    const [after] = await sql<{ n: string; distinct_readings: string }>(
+      `SELECT count(*) AS n, count(DISTINCT reading_id) AS distinct_readings FROM measurements WHERE device_id = $1`,
+      [other.device.id],
+    );
+    expect(after).toEqual({ n: "2000", distinct_readings: "2000" });
   }, 240_000);
 });

@@ -134,6 +134,10 @@ describe("crosstalk risk", () => {
       ["c0", "crosstalk_risk", 20, 1],
       ["c1", "crosstalk_risk", 20, 0],
     ]);
+    // Three channels 20 ms apart in turn: each is flagged with its closest neighbour.
+    const three = new Map(["c0", "c1", "c2"].map((id) => [id, new FlagTracker(id, {})]));
+    assessCrosstalk({ pings: { 0: [T0], 1: [T0 + 20], 2: [T0 + 40] }, channelIds: { 0: "c0", 1: "c1", 2: "c2" } }, three);
+    expect([...three.values()].map((t) => t.finish().changes.opens[0].magnitude)).toEqual([20, 20, 20]);
     const apart = new Map([["c0", new FlagTracker("c0", { crosstalk_risk: { sinceMs: T0 - 1 } })], ["c1", new FlagTracker("c1", {})]]);
     assessCrosstalk({ pings: { 0: [T0], 1: [T0 + 80] }, channelIds: { 0: "c0", 1: "c1" } }, apart);
     expect(apart.get("c0")!.finish().changes.clears).toEqual([{ channelId: "c0", flag: "crosstalk_risk", at: new Date(T0) }]);

@@ -10,7 +10,7 @@
 import type { Transaction } from "sequelize";
 import { getSequelize } from "../sequelize";
 import { channelKey, processBatch, type ProcessedBatch } from "../../pipeline/batch";
-import type { ChannelState } from "../../pipeline/channel-state";
+import { parseChannelState, type ChannelState } from "../../pipeline/channel-state";
 import type { ChannelConfig, ReadingRow } from "../../pipeline/types";
 import {
   loadChannelsOfDevices,
@@ -43,7 +43,7 @@ export interface BatchResult {
 }
 
 // Session-level advisory lock held while a worker claims its batch and queues for its channels' state
-// rows, so batches are claimed in queue order and each channel's readings are processed in that order.
+// rows, so batches are claimed in time order and each channel's readings are processed in that order.
 const CLAIM_LOCK_KEY = 0x48545743;
 
 async function claimBatch(batchSize: number, transaction: Transaction): Promise<{ readings: ReadingRow[]; claimed: number }> {
@@ -52,7 +52,7 @@ async function claimBatch(batchSize: number, transaction: Transaction): Promise<
   const [claim] = await sqlRows<{ ids: string[] | null; lo: string | null; hi: string | null; n: number }>(
     `WITH claimed AS (
        DELETE FROM reading_queue
-       WHERE reading_id = ANY(ARRAY(SELECT reading_id FROM reading_queue ORDER BY reading_id LIMIT $1 FOR UPDATE SKIP LOCKED))
+       WHERE reading_id = ANY(ARRAY(SELECT reading_id FROM reading_queue ORDER BY at, reading_id LIMIT $1 FOR UPDATE SKIP LOCKED))
        RETURNING reading_id, at
      )
      SELECT array_agg(reading_id) AS ids, min(at)::text AS lo, max(at)::text AS hi, count(*)::int AS n FROM claimed`,
@@ -60,8 +60,26 @@ async function claimBatch(batchSize: number, transaction: Transaction): Promise<
     transaction,
   );
   if (!claim || claim.n === 0 || claim.ids === null) return { readings: [], claimed: 0 };
-  const readings = await fetchReadings(`readings r WHERE r.id = ANY($1::bigint[]) AND r.at BETWEEN $2::timestamptz AND $3::timestamptz`, [`{${claim.ids.join(",")}}`, claim.lo, claim.hi], transaction, "r.id");
+  const readings = await fetchReadings(`readings r WHERE r.id = ANY($1::bigint[]) AND r.at BETWEEN $2::timestamptz AND $3::timestamptz`, [`{${claim.ids.join(",")}}`, claim.lo, claim.hi], transaction, "r.at, r.id");
   return { readings, claimed: claim.n };
+}
+
+/**
+ * Locks state rows the batch in flight holds and releases the claim lock in one statement: the unlock
+ * is computed only after the locking subquery has its rows, so no other worker can claim in between.
+ */
+async function lockCarriedAndRelease(channelIds: string[], transaction: Transaction): Promise<Map<string, LockedChannelState>> {
+  const [row] = await sqlRows<{ rows: { channel_id: string; state: unknown; offline_since: string | null; version: number }[] | null }>(
+    `SELECT json_agg(x ORDER BY x.channel_id) AS rows, pg_advisory_unlock($2) AS released
+     FROM (SELECT channel_id, state, offline_since, version FROM channel_state WHERE channel_id = ANY($1::uuid[]) ORDER BY channel_id FOR UPDATE) x`,
+    [[...channelIds].sort(), CLAIM_LOCK_KEY],
+    transaction,
+  );
+  const map = new Map<string, LockedChannelState>();
+  for (const r of row?.rows ?? []) {
+    map.set(r.channel_id, { state: parseChannelState(r.state), offlineSince: r.offline_since === null ? null : new Date(r.offline_since), version: Number(r.version) });
+  }
+  return map;
 }
 
 /** The channel states a batch in flight will commit, and the versions they will have. */
@@ -98,14 +116,11 @@ async function prepareBatch(batchSize: number, expected: Expected | null, inFlig
     await sqlRun(`SET LOCAL synchronous_commit = off; SET LOCAL jit = off`, [], transaction);
     await sqlRun(`SELECT pg_advisory_lock($1)`, [CLAIM_LOCK_KEY], transaction);
     let unlocked = false;
-    const unlock = () => {
-      unlocked = true;
-      return sqlRun(`SELECT pg_advisory_unlock($1)`, [CLAIM_LOCK_KEY], transaction);
-    };
     try {
       const claim = await claimBatch(batchSize, transaction);
       if (claim.claimed === 0) {
-        await unlock();
+        unlocked = true;
+        await sqlRun(`SELECT pg_advisory_unlock($1)`, [CLAIM_LOCK_KEY], transaction);
         await transaction.rollback();
         return null;
       }
@@ -124,13 +139,11 @@ async function prepareBatch(batchSize: number, expected: Expected | null, inFlig
       const channels = new Map(channelList.map((c) => [channelKey(c.device.id, c.index), c]));
       const temperatureSamples = readings.length ? await loadTemperatureSamples([...new Set(channelList.map((c) => c.site.id))], new Date(from), new Date(to), transaction) : new Map();
       const temperatureChannelSites = await loadTemperatureChannelSites(channelList.map((c) => c.id), transaction);
-      // Queued now, before the claim lock is released, so no later batch can take these rows first; the
-      // lock is granted when the batch in flight commits, and this connection waits for it meanwhile.
-      // The rows exist (the batch in flight has them), and one statement keeps the unlock behind it.
-      const carriedLocked = lockChannelStates(carried, transaction, { create: false });
-      const released = unlock();
+      // Queued before the claim lock is released, so no later batch can take these rows first; the lock
+      // is granted when the batch in flight commits, and this connection waits for it meanwhile.
+      unlocked = true;
+      const carriedLocked = lockCarriedAndRelease(carried, transaction);
       carriedLocked.catch(() => undefined);
-      released.catch(() => undefined);
 
       const assumed = mergeStates(fresh, new Map(carried.map((id) => [id, expected!.get(id)!])));
       const input = { readings, channels, temperatureSamples, temperatureChannelSites };
@@ -142,7 +155,6 @@ async function prepareBatch(batchSize: number, expected: Expected | null, inFlig
         let locked = await carriedLocked;
         // Rows the batch in flight created were invisible to the lock until it committed: lock them now.
         if (locked.size < carried.length) locked = await lockChannelStates(carried, transaction);
-        await released;
         const changed = carried.some((id) => locked.get(id)?.version !== expected!.get(id)!.version);
         if (changed) {
           states = mergeStates(fresh, locked);

@@ -194,11 +194,11 @@ export interface LockedChannelState extends StoredChannelState {
  * Locks the channels' state rows (creating missing ones) in channel-id order, so two workers that
  * share channels wait for each other instead of deadlocking or interleaving a channel's history.
  */
-export async function lockChannelStates(channelIds: string[], transaction: Transaction, { create = true } = {}): Promise<Map<string, LockedChannelState>> {
+export async function lockChannelStates(channelIds: string[], transaction: Transaction): Promise<Map<string, LockedChannelState>> {
   const map = new Map<string, LockedChannelState>();
   if (channelIds.length === 0) return map;
   const sorted = [...new Set(channelIds)].sort();
-  if (create) await sqlRun(`INSERT INTO channel_state (channel_id) SELECT unnest($1::uuid[]) ON CONFLICT DO NOTHING`, [sorted], transaction);
+  await sqlRun(`INSERT INTO channel_state (channel_id) SELECT unnest($1::uuid[]) ON CONFLICT DO NOTHING`, [sorted], transaction);
   const rows = await sqlRows<{ channel_id: string; state: unknown; offline_since: Date | null; version: string }>(
     `SELECT channel_id, state, offline_since, version FROM channel_state WHERE channel_id = ANY($1::uuid[]) ORDER BY channel_id FOR UPDATE`,
     [sorted],
