@@ -55,7 +55,8 @@ export function errorResponse(err: unknown): Response {
 
 export function isDatabaseUnavailable(err: unknown): boolean {
   const name = (err as { name?: string })?.name ?? "";
-  const code = (err as { parent?: { code?: string }; original?: { code?: string } })?.parent?.code;
+  const e = err as { code?: string; parent?: { code?: string } } | null;
+  const code = e?.parent?.code ?? e?.code;
   return (
     name === "SequelizeConnectionError" ||
     name === "SequelizeConnectionRefusedError" ||
