@@ -35,9 +35,32 @@ export function AlarmStateLabel({ state, awaitingReset = false }: { state: Alarm
 }
 
 /** "2.612 m" or "—", with the unit the alarm carries. */
-export function alarmFigure(v: number | null, unit: string | null): string {
+export function alarmFigure(v: number | null, unit: string | null, kind?: string): string {
   if (v === null) return "—";
-  return unit === "m" ? `${v.toFixed(3)} m` : `${Number(v.toFixed(3))}${unit ? ` ${unit}` : ""}`;
+  if (unit === "m") return `${v.toFixed(3)} m`;
+  if (!unit && kind) return healthFigure(kind, v);
+  return `${Number(v.toFixed(3))}${unit ? ` ${unit}` : ""}`;
+}
+
+/** What a health flag's magnitude measures, in words: a gap, a run of readings, a shift or a spacing. */
+function healthFigure(kind: string, v: number): string {
+  switch (kind) {
+    case "offline": {
+      const min = Math.round(v / 60);
+      return min >= 60 ? `${Math.floor(min / 60)} h ${min % 60} min silent` : `${min} min silent`;
+    }
+    case "stuck":
+    case "out_of_range":
+    case "no_echo":
+      return `${Math.round(v)} readings`;
+    case "drift":
+    case "noisy":
+      return `${(v * 1000).toFixed(1)} mm`;
+    case "crosstalk_risk":
+      return `${Math.round(v)} ms apart`;
+    default:
+      return String(Number(v.toFixed(3)));
+  }
 }
 
 /** Where the alarm is: its asset, else its device and channel, else its site. */

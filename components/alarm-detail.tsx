@@ -73,7 +73,7 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
       <section className="card grid gap-4 p-4 sm:grid-cols-4" aria-label="Now">
         <div><p className="label">Priority</p><AlarmPriorityBadge priority={data.priority as AlarmPriority} calm={state === "normal"} /></div>
         <div><p className="label">State</p><AlarmStateLabel state={state} awaitingReset={data.awaiting_reset} />{data.shelved_until && <p className="text-sm text-muted">until {stamp(data.shelved_until)} — {data.shelve_reason}</p>}</div>
-        <div><p className="label">Value / setpoint</p><p className="figures">{alarmFigure(data.value, data.unit)}{data.setpoint !== null && <span className="text-muted"> / {alarmFigure(data.setpoint, data.unit)}</span>}</p></div>
+        <div><p className="label">Value / setpoint</p><p className="figures">{alarmFigure(data.value, data.unit, data.kind)}{data.setpoint !== null && <span className="text-muted"> / {alarmFigure(data.setpoint, data.unit, data.kind)}</span>}</p></div>
         <div><p className="label">Condition</p><p>{data.condition_active ? "Active" : "Clear"}</p></div>
         <div><p className="label">Began</p><p className="figures">{stamp(data.activated_at)}</p></div>
         <div><p className="label">Cleared</p><p className="figures">{stamp(data.cleared_at)}</p></div>
@@ -108,8 +108,8 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
                 <td data-label="Event">{e.kind.replaceAll("_", " ")}</td>
                 <td data-label="State" className="whitespace-nowrap">{e.from_state && e.to_state ? `${STATE_WORDS[e.from_state]} → ${STATE_WORDS[e.to_state]}` : "—"}</td>
                 <td data-label="Cause">{e.cause}</td>
-                <td data-label="Value" className="figures whitespace-nowrap">{alarmFigure(e.value, data.unit)}</td>
-                <td data-label="Setpoint" className="figures whitespace-nowrap">{alarmFigure(e.setpoint, data.unit)}</td>
+                <td data-label="Value" className="figures whitespace-nowrap">{alarmFigure(e.value, data.unit, data.kind)}</td>
+                <td data-label="Setpoint" className="figures whitespace-nowrap">{alarmFigure(e.setpoint, data.unit, data.kind)}</td>
                 <td data-label="Who">{e.actor_label ?? "—"}</td>
                 <td data-label="Comment">{e.comment ?? ""}</td>
               </tr>

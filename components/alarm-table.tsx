@@ -157,8 +157,8 @@ export function AlarmTable({ role }: { role: Role }) {
         enableSorting: false,
         cell: ({ row }) => (
           <span className="figures whitespace-nowrap">
-            {alarmFigure(row.original.value, row.original.unit)}
-            {row.original.setpoint !== null && <span className="text-muted"> / {alarmFigure(row.original.setpoint, row.original.unit)}</span>}
+            {alarmFigure(row.original.value, row.original.unit, row.original.kind)}
+            {row.original.setpoint !== null && <span className="text-muted"> / {alarmFigure(row.original.setpoint, row.original.unit, row.original.kind)}</span>}
           </span>
         ),
       },

@@ -37,7 +37,7 @@ export default async function AckPage({ params }: { params: Promise<{ token: str
               <dt className="font-bold">Asset</dt>
               <dd>{alarm.asset?.name ?? (alarm.channel ? `${alarm.channel.device_name}, channel ${alarm.channel.index}` : "—")}</dd>
               <dt className="font-bold">Value / setpoint</dt>
-              <dd className="figures">{alarmFigure(alarm.value, alarm.unit)}{alarm.setpoint !== null && ` / ${alarmFigure(alarm.setpoint, alarm.unit)}`}</dd>
+              <dd className="figures">{alarmFigure(alarm.value, alarm.unit, alarm.kind)}{alarm.setpoint !== null && ` / ${alarmFigure(alarm.setpoint, alarm.unit, alarm.kind)}`}</dd>
               <dt className="font-bold">Since</dt>
               <dd className="figures">{alarm.activated_at ? formatSiteTime(new Date(alarm.activated_at), alarm.site.time_zone) : "—"}</dd>
               <dt className="font-bold">State</dt>
