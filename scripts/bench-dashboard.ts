@@ -14,8 +14,8 @@ import { createRequire } from "node:module";
 import os from "node:os";
 import path from "node:path";
 import bcrypt from "bcryptjs";
-import pg from "pg";
 import { quantileSorted } from "simple-statistics";
+import { adminUrl, dbUrl, withClient } from "./bench/pg";
 
 // autocannon ships no types; the little of it used here, typed.
 interface AutocannonInstance extends PromiseLike<{ requests: { average: number }; non2xx: number; errors: number }> {
@@ -24,7 +24,6 @@ interface AutocannonInstance extends PromiseLike<{ requests: { average: number }
 const autocannon = createRequire(__filename)("autocannon") as (opts: { url: string; connections: number; duration: number; headers: Record<string, string> }) => AutocannonInstance;
 
 const root = path.resolve(__dirname, "..");
-const adminUrl = process.env.PG_ADMIN_URL ?? "postgres://postgres@127.0.0.1:54329/postgres";
 const CHANNELS = Number(process.env.BENCH_CHANNELS ?? 2000);
 const PER_CHANNEL = Number(process.env.BENCH_PER_CHANNEL ?? 5000);
 const DAYS = 30;
@@ -40,22 +39,6 @@ const PASSWORD = randomBytes(12).toString("hex");
 
 function log(message: string) {
   process.stdout.write(`[bench:dashboard] ${message}\n`);
-}
-
-function dbUrl(name: string): string {
-  const url = new URL(adminUrl);
-  url.pathname = `/${name}`;
-  return url.toString();
-}
-
-async function withClient<T>(url: string, fn: (c: pg.Client) => Promise<T>): Promise<T> {
-  const client = new pg.Client({ connectionString: url });
-  await client.connect();
-  try {
-    return await fn(client);
-  } finally {
-    await client.end();
-  }
 }
 
 // Invented bench fleet: 20 sites, 8-channel devices reporting about every 8.6 min (30 days / 5 000),

@@ -9,31 +9,14 @@ import { randomUUID } from "node:crypto";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import pg from "pg";
 import { execFileSync } from "node:child_process";
+import { adminUrl, dbUrl, withClient } from "./bench/pg";
 
-const adminUrl = process.env.PG_ADMIN_URL ?? "postgres://postgres@127.0.0.1:54329/postgres";
 const readingsWanted = Number(process.env.BENCH_READINGS ?? 1_000_000);
 const channels = Number(process.env.BENCH_CHANNELS ?? 2000);
 const keep = process.argv.includes("--keep");
 const dbName = `halftrip_bench_worker_${randomUUID().slice(0, 8)}`;
 const root = path.resolve(__dirname, "..");
-
-function dbUrl(name: string): string {
-  const url = new URL(adminUrl);
-  url.pathname = `/${name}`;
-  return url.toString();
-}
-
-async function withClient<T>(url: string, fn: (c: pg.Client) => Promise<T>): Promise<T> {
-  const client = new pg.Client({ connectionString: url });
-  await client.connect();
-  try {
-    return await fn(client);
-  } finally {
-    await client.end();
-  }
-}
 
 function log(message: string) {
   process.stdout.write(`[bench:worker] ${message}\n`);

@@ -2,6 +2,7 @@ import http from "node:http";
 import { randomUUID } from "node:crypto";
 import { SMTPServer } from "smtp-server";
 import { simpleParser } from "mailparser";
+import type { CaughtMessage } from "../lib/mail/sink-client";
 
 // A local stand-in for the hosted mail service: accepts every message on 127.0.0.1, keeps the last
 // MAX_KEPT in memory and serves them as JSON to the admin page and to the tests.
@@ -11,17 +12,7 @@ const MAX_KEPT = 2000;
 // Loopback by default; a container deployment sets SMTP_SINK_HOST=0.0.0.0.
 const HOST = process.env.SMTP_SINK_HOST ?? "127.0.0.1";
 
-interface Kept {
-  id: string;
-  received_at: string;
-  from: string;
-  to: string[];
-  subject: string;
-  text: string;
-  html: string | null;
-}
-
-const messages: Kept[] = [];
+const messages: CaughtMessage[] = [];
 
 function addresses(value: unknown): string[] {
   const list = Array.isArray(value) ? value : value ? [value] : [];

@@ -1,6 +1,7 @@
 import { execFile } from "node:child_process";
 import { promisify } from "node:util";
-import { expect, test, type Page } from "@playwright/test";
+import { expect, test } from "@playwright/test";
+import { signInAs } from "../support/browser";
 import { anonymous, signedIn, type Agent } from "../support/session";
 import { createTankWithDevice } from "../support/fleet";
 import { sql } from "../support/db";
@@ -49,13 +50,6 @@ async function alarmOf(agent: Agent, tankId: string, kind: string) {
   return (await agent.get(`/api/alarms/${list.body.items[0].id}`).expect(200)).body;
 }
 
-async function signIn(page: Page, email: string) {
-  await page.goto("/sign-in");
-  await page.getByLabel("E-mail").fill(email);
-  await page.getByLabel("Password").fill("halftrip-demo");
-  await page.getByRole("button", { name: "Sign in" }).click();
-  await expect(page.getByRole("heading", { name: "Overview" })).toBeVisible();
-}
 
 const repeat = (level: number, n: number) => Array.from({ length: n }, () => level);
 
@@ -107,7 +101,7 @@ test("an operator acknowledges two alarms at once with a comment and shelves one
   await t.send([...repeat(1.5, 6), ...repeat(2.7, 12)]);
   await runWorkerOnce();
 
-  await signIn(page, "operator@halftrip.test");
+  await signInAs(page, "operator@halftrip.test");
   await page.goto(`/alarms?site_id=${t.site.id}`);
   await expect(page.getByRole("note")).toContainText("API 2350 / IEC 61511");
   const rows = page.locator("tbody tr");
@@ -141,7 +135,7 @@ test("an operator acknowledges two alarms at once with a comment and shelves one
 });
 
 test("a viewer sees the alarms but no acknowledge or shelve buttons", async ({ page }) => {
-  await signIn(page, "viewer@halftrip.test");
+  await signInAs(page, "viewer@halftrip.test");
   await page.goto("/alarms?state=all");
   await expect(page.getByRole("heading", { name: "Alarms" })).toBeVisible();
   await expect(page.locator("tbody tr").first()).toBeVisible();

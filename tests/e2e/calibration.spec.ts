@@ -1,6 +1,6 @@
 import { expect, test } from "@playwright/test";
 import { signedIn } from "../support/session";
-import { signInAs } from "./calibration-support";
+import { signInAs } from "../support/browser";
 import { createTankWithDevice } from "../support/fleet";
 import { runWorkerOnce, sendEchoReadings, type SentReading } from "../api/calibration-readings";
 

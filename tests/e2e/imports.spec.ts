@@ -1,6 +1,6 @@
 import { expect, test, type Page } from "@playwright/test";
 import { signedIn } from "../support/session";
-import { signInAs } from "./calibration-support";
+import { signInAs } from "../support/browser";
 import { createTankWithDevice } from "../support/fleet";
 
 // Issue 6, browser test: an admin imports a strapping table, then a bad CSV: the errors are listed by

@@ -1,6 +1,7 @@
 import { execFileSync } from "node:child_process";
 import path from "node:path";
-import { expect, test, type Page } from "@playwright/test";
+import { expect, test } from "@playwright/test";
+import { signInAs } from "../support/browser";
 import { signedIn } from "../support/session";
 import { createTankWithDevice } from "../support/fleet";
 
@@ -8,19 +9,11 @@ import { createTankWithDevice } from "../support/fleet";
 // tank's trend with a chosen period. Data is provisioned through the management API, readings go
 // through the device API and the worker runs once, as in production.
 
-const PASSWORD = "halftrip-demo";
 // Playwright runs from the repository root (playwright.config.ts).
 const ROOT = process.cwd();
 
 let fleet: Awaited<ReturnType<typeof createTankWithDevice>>;
 
-async function signIn(page: Page, role: "operator" | "viewer") {
-  await page.goto("/sign-in");
-  await page.getByLabel("E-mail").fill(`${role}@halftrip.test`);
-  await page.getByLabel("Password").fill(PASSWORD);
-  await page.getByRole("button", { name: "Sign in" }).click();
-  await expect(page.getByRole("heading", { name: "Overview" })).toBeVisible();
-}
 
 test.beforeAll(async ({ request }) => {
   const admin = await signedIn("admin@halftrip.test");
@@ -40,7 +33,7 @@ test.beforeAll(async ({ request }) => {
 });
 
 test("an operator opens the overview, a site and a tank's trend", async ({ page }) => {
-  await signIn(page, "operator");
+  await signInAs(page, "operator@halftrip.test");
   const card = page.getByRole("region", { name: fleet.site.name });
   await expect(card).toBeVisible();
   const row = card.getByRole("row", { name: new RegExp(fleet.tank.name) });
@@ -93,7 +86,7 @@ test("an operator opens the overview, a site and a tank's trend", async ({ page 
 
 test("at phone width the site stacks its cards and the menu folds", async ({ page }) => {
   await page.setViewportSize({ width: 390, height: 844 });
-  await signIn(page, "viewer");
+  await signInAs(page, "viewer@halftrip.test");
   await page.goto(`/sites/${fleet.site.id}`);
   await expect(page.getByRole("button", { name: "Menu" })).toBeVisible();
   const tank = page.getByRole("article", { name: fleet.tank.name });

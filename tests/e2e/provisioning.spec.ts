@@ -1,23 +1,16 @@
-import { expect, test, type Page } from "@playwright/test";
+import { expect, test } from "@playwright/test";
+import { signInAs } from "../support/browser";
 
-const PASSWORD = "halftrip-demo";
 
 test.use({ permissions: ["clipboard-read", "clipboard-write"] });
 
-async function signIn(page: Page, role: "admin" | "viewer") {
-  await page.goto("/sign-in");
-  await page.getByLabel("E-mail").fill(`${role}@halftrip.test`);
-  await page.getByLabel("Password").fill(PASSWORD);
-  await page.getByRole("button", { name: "Sign in" }).click();
-  await expect(page.getByRole("heading", { name: "Overview" })).toBeVisible();
-}
 
 test("an admin provisions a site, a tank and a device, and the device's key sends a reading", async ({ page }) => {
   const stamp = Date.now();
   const siteName = `E2E site ${stamp}`;
   const tankName = `E2E tank ${stamp}`;
   const deviceName = `E2E unit ${stamp}`;
-  await signIn(page, "admin");
+  await signInAs(page, "admin@halftrip.test");
 
   await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Sites" }).click();
   await page.getByRole("link", { name: "Add a site" }).click();
@@ -92,7 +85,7 @@ test("an admin provisions a site, a tank and a device, and the device's key send
 });
 
 test("a viewer sees the lists but no create or edit controls", async ({ page }) => {
-  await signIn(page, "viewer");
+  await signInAs(page, "viewer@halftrip.test");
   for (const [path, title, add] of [
     ["/sites", "Sites", "Add a site"],
     ["/assets", "Assets", "Add an asset"],

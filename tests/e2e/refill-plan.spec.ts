@@ -1,7 +1,7 @@
 import { readFile } from "node:fs/promises";
 import { expect, test } from "@playwright/test";
 import { signedIn } from "../support/session";
-import { signInAs } from "./calibration-support";
+import { signInAs } from "../support/browser";
 import { createTankWithDevice } from "../support/fleet";
 import { fallingLevel, runWorkerOnce, sendEchoReadings } from "../api/calibration-readings";
 

@@ -1,0 +1,20 @@
+import pg from "pg";
+
+// Database helpers shared by the TypeScript benchmarks: each creates and drops a database of its own.
+export const adminUrl = process.env.PG_ADMIN_URL ?? "postgres://postgres@127.0.0.1:54329/postgres";
+
+export function dbUrl(name: string): string {
+  const url = new URL(adminUrl);
+  url.pathname = `/${name}`;
+  return url.toString();
+}
+
+export async function withClient<T>(url: string, fn: (c: pg.Client) => Promise<T>): Promise<T> {
+  const client = new pg.Client({ connectionString: url });
+  await client.connect();
+  try {
+    return await fn(client);
+  } finally {
+    await client.end();
+  }
+}
