@@ -11,6 +11,7 @@ import os from "node:os";
 import path from "node:path";
 import { execFileSync } from "node:child_process";
 import { adminUrl, dbUrl, withClient } from "./bench/pg";
+import { QUEUE_INSERTED, RETURNING_QUEUED_COLUMNS } from "../lib/db/queries/reading-queue";
 
 const readingsWanted = Number(process.env.BENCH_READINGS ?? 1_000_000);
 const channels = Number(process.env.BENCH_CHANNELS ?? 2000);
@@ -68,7 +69,7 @@ function seedSql(perChannel: number): string {
       FROM bench_channels bc, generate_series(0, ${perChannel - 1}) k
     ), t AS (
       SELECT g.*, 2e6 * distance_m / (331.3 * sqrt(1 + temp_c / 273.15)) AS tof_us FROM g
-    ), ins AS (
+    ), inserted AS (
       INSERT INTO readings (device_id, channel, seq, at, echo_us, ticks, overflows, samples_us, air_temp_c)
       SELECT device_id, index, k, at,
              CASE WHEN profile = 'echo' AND j % 7 <> 0 THEN round(tof_us::numeric, 1)::float8 END,
@@ -77,9 +78,9 @@ function seedSql(perChannel: number): string {
              CASE WHEN j % 7 = 0 THEN ARRAY[tof_us + 2 * (random() - 0.5), tof_us + 2 * (random() - 0.5), tof_us + 2 * (random() - 0.5), tof_us + 2 * (random() - 0.5), tof_us + 2 * (random() - 0.5)] END,
              CASE WHEN k % 3 = 0 THEN temp_c END
       FROM t
-      RETURNING id, at
-    )
-    INSERT INTO reading_queue (reading_id, at) SELECT id, at FROM ins;
+      ${RETURNING_QUEUED_COLUMNS}
+    ), ${QUEUE_INSERTED}
+    SELECT count(*) FROM queued;
     ANALYZE;
   `;
 }

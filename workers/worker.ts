@@ -40,7 +40,6 @@ function log(message: string) {
 
 function describe(r: CycleResult): string {
   const parts = [`${r.readings} readings → ${r.measurements} measurements in ${r.batches} batches`];
-  if (r.missing) parts.push(`${r.missing} queue rows without a reading`);
   if (r.recomputed.requests) parts.push(`recomputed ${r.recomputed.channels} channels (${r.recomputed.measurements} measurements)`);
   if (r.offlineFlagged) parts.push(`${r.offlineFlagged} channels offline`);
   if (r.dipsEvaluated) parts.push(`${r.dipsEvaluated} dips compared`);

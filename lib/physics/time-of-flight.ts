@@ -25,8 +25,8 @@ function fail<T>(reason: TofErrorReason, detail: string): TofResult<T> {
 }
 
 function firstNonFinite(values: Record<string, number>): string | null {
-  for (const [name, value] of Object.entries(values)) {
-    if (!Number.isFinite(value)) return name;
+  for (const name in values) {
+    if (!Number.isFinite(values[name])) return name;
   }
   return null;
 }

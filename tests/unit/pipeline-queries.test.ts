@@ -1,6 +1,5 @@
 import { describe, it, expect } from "vitest";
 import { measurementsQuerySchema, resolvePeriod, seriesQuerySchema } from "@/lib/validations/measurement";
-import { arrayLiteral } from "@/lib/db/queries/worker-writes";
 
 describe("measurement and series queries", () => {
   it("takes defaults and coerces numbers", () => {
@@ -28,17 +27,5 @@ describe("measurement and series queries", () => {
     expect(resolvePeriod({}, 7, now)).toEqual({ from: new Date("2026-03-07T06:30:00Z"), to: now });
     const from = new Date("2026-03-14T00:00:00Z");
     expect(resolvePeriod({ from }, 7, now)).toEqual({ from, to: now });
-  });
-});
-
-describe("array literals for set-based writes", () => {
-  // PostgreSQL documentation, §8.15.6 "Array Input and Output Syntax": elements in braces separated by
-  // commas, NULL unquoted, double quotes and backslashes inside a quoted element escaped by a backslash.
-  it("writes numbers, booleans, uuids and NULLs bare, and quotes text", () => {
-    expect(arrayLiteral([1, 2.5, null, 1e-7, Number.NaN], "number")).toBe("{1,2.5,NULL,1e-7,NULL}");
-    expect(arrayLiteral([true, false, null], "boolean")).toBe("{t,f,NULL}");
-    expect(arrayLiteral(["6f1c0e1e-0000-4000-8000-000000000001", null], "uuid")).toBe("{6f1c0e1e-0000-4000-8000-000000000001,NULL}");
-    expect(arrayLiteral(['say "hi"', "a\\b", "x,y", "NULL", null], "text")).toBe('{"say \\"hi\\"","a\\\\b","x,y","NULL",NULL}');
-    expect(arrayLiteral([], "number")).toBe("{}");
   });
 });

@@ -4,6 +4,7 @@
 // back and nothing is imported; in good-rows mode the good rows are kept and the bad ones listed.
 
 import type { Transaction } from "sequelize";
+import { QUEUE_INSERTED, RETURNING_QUEUED_COLUMNS } from "./reading-queue";
 import { writeAudit, type Actor } from "../audit";
 import { getSequelize } from "../sequelize";
 import { describeZodError, HttpError, notFound } from "../../http/errors";
@@ -151,9 +152,9 @@ function readingSink(deviceId: string, transaction: Transaction): ImportSink<Bac
            INSERT INTO readings (device_id, channel, seq, at, received_at, echo_us, ticks, overflows, pulse_us, high_us, period_us, air_temp_c, battery_v, rssi_dbm)
            SELECT $1, i.channel, i.seq, i.at, now(), i.echo_us, i.ticks, i.overflows, i.pulse_us, i.high_us, i.period_us, i.air_temp_c, i.battery_v, i.rssi_dbm
              FROM input i JOIN fresh f ON f.channel = i.channel AND f.seq = i.seq
-           RETURNING id, at
+           ${RETURNING_QUEUED_COLUMNS}
          ),
-         queued AS (INSERT INTO reading_queue (reading_id, at) SELECT id, at FROM inserted RETURNING 1)
+         ${QUEUE_INSERTED}
          SELECT i.line, i.channel, i.seq FROM input i
           WHERE NOT EXISTS (SELECT 1 FROM fresh f WHERE f.channel = i.channel AND f.seq = i.seq)
           ORDER BY i.line`,

@@ -1,4 +1,5 @@
 import type { ClientBase } from "pg";
+import { QUEUE_INSERTED, RETURNING_QUEUED_COLUMNS } from "./reading-queue";
 import { getSequelize } from "../sequelize";
 
 /**
@@ -100,9 +101,9 @@ export async function storeReadings(deviceId: string, readings: ReadingInput[], 
        INSERT INTO readings (device_id, channel, seq, at, received_at, echo_us, ticks, overflows, samples_us, pulse_us, high_us, period_us, air_temp_c, battery_v, rssi_dbm)
        SELECT $1, i.channel, i.seq, i.at, $3, i.echo_us, i.ticks, i.overflows, i.samples_us, i.pulse_us, i.high_us, i.period_us, i.air_temp_c, i.battery_v, i.rssi_dbm
          FROM input i JOIN fresh f ON f.channel = i.channel AND f.seq = i.seq
-       RETURNING id, at
+       ${RETURNING_QUEUED_COLUMNS}
      ),
-     queued AS (INSERT INTO reading_queue (reading_id, at) SELECT id, at FROM inserted RETURNING 1)
+     ${QUEUE_INSERTED}
      SELECT rl.rate_count, rl.max_requests_per_min, rl.window_left_s, (SELECT count(*) FROM queued) AS accepted FROM rl`,
     [deviceId, JSON.stringify(rows), serverTime.toISOString(), battery, rssi],
   );

@@ -9,6 +9,7 @@
 
 import type { Transaction } from "sequelize";
 import { getSequelize } from "../sequelize";
+import { QUEUED_READING_COLUMNS } from "./reading-queue";
 import { channelKey, processBatch, type ProcessedBatch } from "../../pipeline/batch";
 import { parseChannelState, type ChannelState } from "../../pipeline/channel-state";
 import type { ChannelConfig, ReadingRow } from "../../pipeline/types";
@@ -18,11 +19,12 @@ import {
   loadTemperatureSamples,
   lockChannelStates,
   fetchReadings,
+  readingsAsArrays,
   sqlRows,
   sqlRun,
-  writeProcessedBatch,
   type LockedChannelState,
 } from "./worker-writes";
+import { encodeBatch, writeEncodedBatch, type EncodedBatch } from "./worker-measurements";
 
 /**
  * A step that runs inside the batch's transaction after its measurements and flags are written:
@@ -36,8 +38,6 @@ export interface BatchHook {
 
 export interface BatchResult {
   claimed: number;
-  /** Queue rows whose reading no longer exists (dropped with the queue row). */
-  missing: number;
   measurements: number;
   buckets: number;
 }
@@ -46,22 +46,18 @@ export interface BatchResult {
 // rows, so batches are claimed in time order and each channel's readings are processed in that order.
 const CLAIM_LOCK_KEY = 0x48545743;
 
-async function claimBatch(batchSize: number, transaction: Transaction): Promise<{ readings: ReadingRow[]; claimed: number }> {
-  // `= ANY(ARRAY(…))` keeps both steps on the primary keys; a join here plans as a scan of the whole queue.
-  // The bounds travel as text: a Date would cut them to milliseconds and miss readings at the edges.
-  const [claim] = await sqlRows<{ ids: string[] | null; lo: string | null; hi: string | null; n: number }>(
+async function claimBatch(batchSize: number, transaction: Transaction): Promise<ReadingRow[]> {
+  // `= ANY(ARRAY(…))` keeps the delete on the primary key; a join here plans as a scan of the whole queue.
+  return fetchReadings(
     `WITH claimed AS (
        DELETE FROM reading_queue
        WHERE reading_id = ANY(ARRAY(SELECT reading_id FROM reading_queue ORDER BY at, reading_id LIMIT $1 FOR UPDATE SKIP LOCKED))
-       RETURNING reading_id, at
+       RETURNING reading_id AS id, at, ${QUEUED_READING_COLUMNS.join(", ")}
      )
-     SELECT array_agg(reading_id) AS ids, min(at)::text AS lo, max(at)::text AS hi, count(*)::int AS n FROM claimed`,
+     ${readingsAsArrays("claimed r ORDER BY r.at, r.id")}`,
     [batchSize],
     transaction,
   );
-  if (!claim || claim.n === 0 || claim.ids === null) return { readings: [], claimed: 0 };
-  const readings = await fetchReadings(`readings r WHERE r.id = ANY($1::bigint[]) AND r.at BETWEEN $2::timestamptz AND $3::timestamptz`, [`{${claim.ids.join(",")}}`, claim.lo, claim.hi], transaction, "r.at, r.id");
-  return { readings, claimed: claim.n };
 }
 
 /**
@@ -88,9 +84,10 @@ type Expected = Map<string, { state: ChannelState; offlineSince: Date | null; ve
 interface Prepared {
   transaction: Transaction;
   claimed: number;
-  missing: number;
   channels: Map<string, ChannelConfig>;
   batch: ProcessedBatch;
+  /** The batch's big writes, encoded while the batch before it is still being written. */
+  encoded: EncodedBatch;
   /** Resolves when the state rows are locked and the batch is sure to be computed from them. */
   ready: Promise<void>;
   /** Versions of the state rows once this batch has written them. */
@@ -117,14 +114,13 @@ async function prepareBatch(batchSize: number, expected: Expected | null, inFlig
     await sqlRun(`SELECT pg_advisory_lock($1)`, [CLAIM_LOCK_KEY], transaction);
     let unlocked = false;
     try {
-      const claim = await claimBatch(batchSize, transaction);
-      if (claim.claimed === 0) {
+      const readings = await claimBatch(batchSize, transaction);
+      if (readings.length === 0) {
         unlocked = true;
         await sqlRun(`SELECT pg_advisory_unlock($1)`, [CLAIM_LOCK_KEY], transaction);
         await transaction.rollback();
         return null;
       }
-      const readings = claim.readings;
       const channelList = await loadChannelsOfDevices([...new Set(readings.map((r) => r.deviceId))], transaction);
       const present = new Set(readings.map((r) => channelKey(r.deviceId, r.channel)));
       const ids = channelList.filter((c) => present.has(channelKey(c.device.id, c.index))).map((c) => c.id);
@@ -148,6 +144,7 @@ async function prepareBatch(batchSize: number, expected: Expected | null, inFlig
       const assumed = mergeStates(fresh, new Map(carried.map((id) => [id, expected!.get(id)!])));
       const input = { readings, channels, temperatureSamples, temperatureChannelSites };
       let batch = processBatch({ ...input, states: assumed });
+      let encoded = encodeBatch(batch);
       let states = assumed;
 
       const ready = (async () => {
@@ -159,17 +156,20 @@ async function prepareBatch(batchSize: number, expected: Expected | null, inFlig
         if (changed) {
           states = mergeStates(fresh, locked);
           batch = processBatch({ ...input, states });
+          encoded = encodeBatch(batch);
         }
       })();
       // Awaited by commitBatch; until then a failure must not count as unhandled.
       ready.catch(() => undefined);
       return {
         transaction,
-        claimed: claim.claimed,
-        missing: claim.claimed - readings.length,
+        claimed: readings.length,
         channels: new Map(channelList.map((c) => [c.id, c])),
         get batch() {
           return batch;
+        },
+        get encoded() {
+          return encoded;
         },
         ready,
         written: () => {
@@ -194,10 +194,10 @@ async function prepareBatch(batchSize: number, expected: Expected | null, inFlig
 async function commitBatch(p: Prepared, hooks: readonly BatchHook[]): Promise<BatchResult> {
   try {
     await p.ready;
-    const written = await writeProcessedBatch(p.batch, p.transaction);
+    const written = await writeEncodedBatch(p.encoded, p.transaction);
     for (const hook of hooks) await hook.run(p.batch, { transaction: p.transaction, channels: p.channels });
     await p.transaction.commit();
-    return { claimed: p.claimed, missing: p.missing, measurements: written.inserted, buckets: written.buckets };
+    return { claimed: p.claimed, measurements: written.inserted, buckets: written.buckets };
   } catch (err) {
     await p.transaction.rollback().catch(() => undefined);
     throw err;
@@ -208,7 +208,6 @@ export interface DrainResult {
   batches: number;
   readings: number;
   measurements: number;
-  missing: number;
   /** The queue was empty when draining stopped. */
   drained: boolean;
 }
@@ -219,12 +218,11 @@ export interface DrainResult {
  */
 export async function drainQueue(batchSize: number, hooks: readonly BatchHook[] = [], maxMs = Infinity, afterBatch: () => void = () => undefined): Promise<DrainResult> {
   const started = Date.now();
-  const result: DrainResult = { batches: 0, readings: 0, measurements: 0, missing: 0, drained: false };
+  const result: DrainResult = { batches: 0, readings: 0, measurements: 0, drained: false };
   const add = (r: BatchResult) => {
     result.batches += 1;
     result.readings += r.claimed;
     result.measurements += r.measurements;
-    result.missing += r.missing;
     afterBatch();
   };
   let inFlight: { prepared: Prepared; commit: Promise<BatchResult> } | null = null;

@@ -25,7 +25,6 @@ export interface CycleResult {
   batches: number;
   readings: number;
   measurements: number;
-  missing: number;
   /** The queue was empty when the cycle stopped claiming. */
   drained: boolean;
   recomputed: { requests: number; channels: number; measurements: number };
@@ -43,7 +42,6 @@ export async function runCycle({ batchSize, maxDrainMs = 60_000, batchHooks = []
     batches: 0,
     readings: 0,
     measurements: 0,
-    missing: 0,
     drained: false,
     recomputed: { requests: 0, channels: 0, measurements: 0 },
     offlineFlagged: 0,
@@ -62,7 +60,6 @@ export async function runCycle({ batchSize, maxDrainMs = 60_000, batchHooks = []
   result.batches = drained.batches;
   result.readings = drained.readings;
   result.measurements = drained.measurements;
-  result.missing = drained.missing;
   result.drained = drained.drained;
   lap("drain");
   result.recomputed = await drainRecomputeRequests();

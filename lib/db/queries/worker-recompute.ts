@@ -14,10 +14,11 @@ import {
   lockChannelStates,
   fetchReadings,
   MICROS_TO_TIMESTAMPTZ,
+  readingsAsArrays,
   sqlRows,
   sqlRun,
-  writeProcessedBatch,
 } from "./worker-writes";
+import { writeProcessedBatch } from "./worker-measurements";
 
 export interface RecomputeRequestInput {
   channelId?: string | null;
@@ -77,11 +78,11 @@ export async function recomputeChannel(channelId: string): Promise<number> {
     for (;;) {
       // Readings still queued are left to the queue, which measures them after this.
       const readings = await fetchReadings(
-        `(SELECT * FROM readings x
+        readingsAsArrays(`(SELECT * FROM readings x
            WHERE x.device_id = $1 AND x.channel = $2 AND (x.at, x.id) > (${MICROS_TO_TIMESTAMPTZ("$3")}, $4::bigint)
              AND NOT EXISTS (SELECT 1 FROM measurements m WHERE m.reading_id = x.id AND m.at = x.at)
              AND NOT EXISTS (SELECT 1 FROM reading_queue q WHERE q.reading_id = x.id)
-           ORDER BY x.at, x.id LIMIT $5) r`,
+           ORDER BY x.at, x.id LIMIT $5) r`),
         [d, channel.index, after.micros, after.id, REPLAY_CHUNK],
         transaction,
       );

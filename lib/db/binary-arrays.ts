@@ -1,0 +1,297 @@
+// One-dimensional PostgreSQL arrays in their binary form (array_send/array_recv), both ways. The worker
+// moves whole columns of a batch this way: PostgreSQL turning 25 000 floats, uuids and times into text
+// and back cost more than the statements that use them.
+
+import { QueryTypes, type Transaction } from "sequelize";
+import { getSequelize } from "./sequelize";
+
+export type BinaryType = "float8" | "int8" | "int4" | "int2" | "bool" | "uuid" | "timestamptz" | "text";
+
+const ELEMENT_OID: Record<BinaryType, number> = { float8: 701, int8: 20, int4: 23, int2: 21, bool: 16, uuid: 2950, timestamptz: 1184, text: 25 };
+const ELEMENT_SIZE: Record<Exclude<BinaryType, "text">, number> = { float8: 8, int8: 8, int4: 4, int2: 2, bool: 1, uuid: 16, timestamptz: 8 };
+// Binary timestamps count microseconds from 2000-01-01 00:00 UTC.
+const PG_EPOCH_MICROS = 946_684_800_000_000;
+const TWO_32 = 4_294_967_296;
+
+function isNullFor(value: unknown, type: BinaryType): boolean {
+  return value === null || value === undefined || (type === "float8" && !Number.isFinite(value as number));
+}
+
+function writeInt64(buf: Buffer, value: number, offset: number): void {
+  if (Number.isSafeInteger(value) && value >= 0) {
+    buf.writeUInt32BE(Math.floor(value / TWO_32), offset);
+    buf.writeUInt32BE(value % TWO_32, offset + 4);
+  } else {
+    buf.writeBigInt64BE(BigInt(Math.trunc(value)), offset);
+  }
+}
+
+function readInt64(buf: Buffer, offset: number): number {
+  const hi = buf.readInt32BE(offset);
+  const lo = buf.readUInt32BE(offset + 4);
+  return hi * TWO_32 + lo;
+}
+
+/** The binary array of the values; timestamptz values are microseconds since 1970. Non-finite floats are NULL. */
+export function binaryArray(values: readonly unknown[], type: BinaryType): Buffer {
+  return binaryColumn(values, (v) => v, type);
+}
+
+/**
+ * The binary array of one column of the rows, read with `value` (called twice a row: once to size the
+ * buffer, once to fill it), without an intermediate array of the values.
+ */
+export function binaryColumn<R>(rows: readonly R[], value: (row: R) => unknown, type: BinaryType): Buffer {
+  // Text columns repeat a handful of values (statuses, sources): each is encoded once.
+  const encoded = type === "text" ? new Map<unknown, Buffer>() : null;
+  const textBytes = (v: unknown): Buffer => {
+    let bytes = encoded!.get(v);
+    if (!bytes) {
+      bytes = Buffer.from(String(v), "utf8");
+      encoded!.set(v, bytes);
+    }
+    return bytes;
+  };
+  const fixed = type === "text" ? 0 : ELEMENT_SIZE[type];
+  let payload = 0;
+  let present = 0;
+  for (let i = 0; i < rows.length; i++) {
+    const v = value(rows[i]);
+    if (isNullFor(v, type)) continue;
+    present++;
+    payload += encoded ? textBytes(v).length : fixed;
+  }
+  const header = rows.length ? 20 : 12;
+  const buf = Buffer.allocUnsafe(header + rows.length * 4 + payload);
+  buf.writeInt32BE(rows.length ? 1 : 0, 0);
+  buf.writeInt32BE(present < rows.length ? 1 : 0, 4);
+  buf.writeInt32BE(ELEMENT_OID[type], 8);
+  if (rows.length) {
+    buf.writeInt32BE(rows.length, 12);
+    buf.writeInt32BE(1, 16);
+  }
+  let o = header;
+  // A batch names few devices, channels and assets, many times each: decode each uuid once.
+  const uuids = type === "uuid" ? new Map<string, Buffer>() : null;
+  for (let i = 0; i < rows.length; i++) {
+    const v = value(rows[i]);
+    if (isNullFor(v, type)) {
+      buf.writeInt32BE(-1, o);
+      o += 4;
+      continue;
+    }
+    const bytes = encoded ? textBytes(v) : null;
+    const size = bytes ? bytes.length : fixed;
+    buf.writeInt32BE(size, o);
+    o += 4;
+    switch (type) {
+      case "float8":
+        buf.writeDoubleBE(v as number, o);
+        break;
+      case "int8":
+        writeInt64(buf, v as number, o);
+        break;
+      case "timestamptz":
+        writeInt64(buf, (v as number) - PG_EPOCH_MICROS, o);
+        break;
+      case "int4":
+        buf.writeInt32BE(v as number, o);
+        break;
+      case "int2":
+        buf.writeInt16BE(v as number, o);
+        break;
+      case "bool":
+        buf.writeUInt8(v ? 1 : 0, o);
+        break;
+      case "text":
+        bytes!.copy(buf, o);
+        break;
+      case "uuid": {
+        let raw = uuids!.get(v as string);
+        if (!raw) {
+          raw = Buffer.from((v as string).replace(/-/g, ""), "hex");
+          uuids!.set(v as string, raw);
+        }
+        raw.copy(buf, o);
+        break;
+      }
+    }
+    o += size;
+  }
+  return buf;
+}
+
+/**
+ * Writes one fixed-width column of a known number of rows element by element, for hot loops that
+ * fill several columns in one pass over the rows (a getter per column and element costs more).
+ */
+export class ColumnWriter {
+  private readonly buf: Buffer;
+  private o = 20;
+  private count = 0;
+  private nulls = false;
+  private readonly uuids: Map<string, Buffer> | null;
+
+  constructor(
+    private readonly type: Exclude<BinaryType, "text">,
+    capacity: number,
+  ) {
+    this.buf = Buffer.allocUnsafe(20 + capacity * (4 + ELEMENT_SIZE[type]));
+    this.uuids = type === "uuid" ? new Map() : null;
+  }
+
+  private element(): number {
+    const size = ELEMENT_SIZE[this.type];
+    this.buf.writeInt32BE(size, this.o);
+    const at = this.o + 4;
+    this.o = at + size;
+    this.count++;
+    return at;
+  }
+
+  null(): void {
+    this.buf.writeInt32BE(-1, this.o);
+    this.o += 4;
+    this.count++;
+    this.nulls = true;
+  }
+
+  /** float8 (non-finite as NULL), int2, int4, int8; timestamptz in microseconds since 1970. */
+  number(v: number | null): void {
+    if (v === null || (this.type === "float8" && !Number.isFinite(v))) return this.null();
+    const at = this.element();
+    switch (this.type) {
+      case "float8":
+        this.buf.writeDoubleBE(v, at);
+        break;
+      case "int8":
+        writeInt64(this.buf, v, at);
+        break;
+      case "timestamptz":
+        writeInt64(this.buf, v - PG_EPOCH_MICROS, at);
+        break;
+      case "int4":
+        this.buf.writeInt32BE(v, at);
+        break;
+      case "int2":
+        this.buf.writeInt16BE(v, at);
+        break;
+      default:
+        throw new Error(`a number is not a ${this.type}`);
+    }
+  }
+
+  bool(v: boolean | null): void {
+    if (v === null) return this.null();
+    this.buf.writeUInt8(v ? 1 : 0, this.element());
+  }
+
+  uuid(v: string | null): void {
+    if (v === null) return this.null();
+    let raw = this.uuids!.get(v);
+    if (!raw) {
+      raw = Buffer.from(v.replace(/-/g, ""), "hex");
+      this.uuids!.set(v, raw);
+    }
+    raw.copy(this.buf, this.element());
+  }
+
+  /** The array of everything written. */
+  finish(): Buffer {
+    if (this.count === 0) {
+      const empty = Buffer.alloc(12);
+      empty.writeInt32BE(ELEMENT_OID[this.type], 8);
+      return empty;
+    }
+    this.buf.writeInt32BE(1, 0);
+    this.buf.writeInt32BE(this.nulls ? 1 : 0, 4);
+    this.buf.writeInt32BE(ELEMENT_OID[this.type], 8);
+    this.buf.writeInt32BE(this.count, 12);
+    this.buf.writeInt32BE(1, 16);
+    return this.buf.subarray(0, this.o);
+  }
+}
+
+function formatUuid(hex: string): string {
+  return `${hex.slice(0, 8)}-${hex.slice(8, 12)}-${hex.slice(12, 16)}-${hex.slice(16, 20)}-${hex.slice(20)}`;
+}
+
+type Decoded<T extends BinaryType> = T extends "uuid" | "text" ? string : T extends "bool" ? boolean : number;
+
+/**
+ * The elements of a one-dimensional binary array (NULL elements as null); timestamptz as microseconds
+ * since 1970, int8 as a number (exact below 2^53). A NULL array reads as empty.
+ */
+export function decodeBinaryArray<T extends BinaryType>(buf: Buffer | null, type: T): (Decoded<T> | null)[] {
+  if (buf === null || buf.length < 12) return [];
+  const ndim = buf.readInt32BE(0);
+  if (ndim === 0) return [];
+  if (ndim !== 1) throw new Error(`expected a one-dimensional array, got ${ndim} dimensions`);
+  const oid = buf.readInt32BE(8);
+  if (oid !== ELEMENT_OID[type]) throw new Error(`expected ${type} elements (oid ${ELEMENT_OID[type]}), got oid ${oid}`);
+  const n = buf.readInt32BE(12);
+  const out = new Array<Decoded<T> | null>(n);
+  const uuids = type === "uuid" ? new Map<string, string>() : null;
+  let o = 20;
+  for (let i = 0; i < n; i++) {
+    const len = buf.readInt32BE(o);
+    o += 4;
+    if (len === -1) {
+      out[i] = null;
+      continue;
+    }
+    let value: unknown;
+    switch (type) {
+      case "float8":
+        value = buf.readDoubleBE(o);
+        break;
+      case "int8":
+        value = readInt64(buf, o);
+        break;
+      case "timestamptz":
+        value = readInt64(buf, o) + PG_EPOCH_MICROS;
+        break;
+      case "int4":
+        value = buf.readInt32BE(o);
+        break;
+      case "int2":
+        value = buf.readInt16BE(o);
+        break;
+      case "bool":
+        value = buf[o] !== 0;
+        break;
+      case "text":
+        value = buf.toString("utf8", o, o + len);
+        break;
+      case "uuid": {
+        const hex = buf.toString("hex", o, o + 16);
+        let text = uuids!.get(hex);
+        if (text === undefined) {
+          text = formatUuid(hex);
+          uuids!.set(hex, text);
+        }
+        value = text;
+        break;
+      }
+    }
+    out[i] = value as Decoded<T>;
+    o += len;
+  }
+  return out;
+}
+
+/**
+ * SQL for an array expression's binary form, base64-encoded: the driver reads every result value as
+ * UTF-8 text, which would mangle raw bytes, and base64 costs PostgreSQL far less than formatting the
+ * elements as text.
+ */
+export const sendArray = (expression: string) => `encode(array_send(${expression}), 'base64')`;
+
+/** The one row of a statement whose columns are all `sendArray(…)`, as binary arrays (null stays null). */
+export async function queryArrayRow(transaction: Transaction, text: string, bind: unknown[]): Promise<Record<string, Buffer | null> | null> {
+  const [row] = await getSequelize().query<Record<string, string | null>>(text, { bind, type: QueryTypes.SELECT, transaction });
+  if (!row) return null;
+  const out: Record<string, Buffer | null> = {};
+  for (const [key, value] of Object.entries(row)) out[key] = value === null ? null : Buffer.from(value, "base64");
+  return out;
+}
