@@ -1,5 +1,5 @@
 // Worker benchmark (`npm run bench:worker`): a fresh database with 2,000 channels and a backlog of
-// 1,000,000 queued readings generated in SQL, then ONE worker (`workers/worker.ts --once`, a child
+// 1,000,000 queued readings generated in SQL, then ONE worker (`workers/worker.ts --once`, bundled as production runs it, a child
 // process) drains it. Prints readings/s and the worker's peak RSS, and checks that every reading got
 // exactly one measurement. Target (issue 4): ≥ 50,000 readings/s and ≤ 300 MB RSS.
 //
@@ -133,9 +133,12 @@ async function main() {
     const queued = await withClient(url, async (c) => Number((await c.query(`SELECT count(*) AS n FROM reading_queue`)).rows[0].n));
     log(`seeded ${queued} queued readings in ${((Date.now() - seedStart) / 1000).toFixed(1)} s`);
 
+    // The worker as production runs it: bundled by scripts/build-worker.mjs, plain Node.
+    execFileSync(process.execPath, ["scripts/build-worker.mjs"], { cwd: root, stdio: "inherit" });
+    const workerBundle = path.join(root, ".worker", "worker.cjs");
     const peak: Peak = { rssKb: 0 };
     const started = process.hrtime.bigint();
-    const child = spawn(process.execPath, ["--import", "tsx", "workers/worker.ts", "--once"], { cwd: root, env, stdio: ["ignore", "pipe", "inherit"] });
+    const child = spawn(process.execPath, [workerBundle, "--once"], { cwd: root, env, stdio: ["ignore", "pipe", "inherit"] });
     let output = "";
     child.stdout.on("data", (chunk: Buffer) => {
       output += chunk.toString();

@@ -86,9 +86,9 @@ function startSink(env) {
   return waitForUrl(`${env.MAIL_SINK_URL}/health`, 30000);
 }
 
-function startBackground(env) {
+function startBackground(env, dev) {
   if (fs.existsSync(path.join(root, "workers", "stack-services.mjs"))) {
-    return import("../workers/stack-services.mjs").then((m) => m.startBackgroundServices({ env, startService, bin }));
+    return import("../workers/stack-services.mjs").then((m) => m.startBackgroundServices({ env, startService, bin, dev }));
   }
 }
 
@@ -114,7 +114,7 @@ async function serve(dev) {
   await startSink(env);
   startService("web", bin("next"), dev ? ["dev", "-p", String(port)] : ["start", "-p", String(port)], { env: { ...env, NODE_ENV: dev ? "development" : "production" } });
   await waitForUrl(`http://127.0.0.1:${port}/api/health`, 120000);
-  await startBackground(env);
+  await startBackground(env, dev);
   log(`Halftrip is running at http://127.0.0.1:${port}`);
   log("demo accounts (password halftrip-demo): admin@halftrip.test, operator@halftrip.test, technician@halftrip.test, viewer@halftrip.test");
   log(`mail sink: ${env.MAIL_SINK_URL}/messages (also the Mail sink page for admins) · Ctrl-C stops everything`);

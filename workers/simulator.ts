@@ -59,7 +59,8 @@ function loadKeys(): boolean {
   const file = parseKeysFile(fs.readFileSync(KEYS_FILE, "utf8"));
   if (!file) return false;
   keysMtimeMs = mtime;
-  devices = file.devices;
+  // Units that carry a site's temperature channel send first, so their samples are stored before the worker measures the site's other channels.
+  devices = [...file.devices].sort((a, b) => Number(b.channels.some((c) => c.temperature_source)) - Number(a.channels.some((c) => c.temperature_source)));
   say(`keys: ${devices.length} devices from ${path.relative(ROOT, KEYS_FILE)}`);
   return true;
 }

@@ -16,7 +16,7 @@ const batchHooks: BatchHook[] = [alarmBatchHook];
 const cycleHooks: CycleHook[] = [alarmCycleHook, notifyCycleHook];
 
 const once = process.argv.includes("--once");
-const batchSize = Number(process.env.WORKER_BATCH_SIZE ?? 25_000);
+const batchSize = Number(process.env.WORKER_BATCH_SIZE ?? 40_000);
 const intervalS = Number(process.env.WORKER_INTERVAL_S ?? 10);
 const schedule = process.env.WORKER_CRON ?? `*/${intervalS} * * * * *`;
 const quiet = process.env.WORKER_QUIET === "1";
@@ -26,12 +26,18 @@ let lastPartitionCheck = 0;
 
 // V8 lets the heap grow far past what a batch needs before it collects; a full collection when a
 // batch leaves more than this behind keeps the worker's resident memory near its working set.
-const HEAP_COLLECT_ABOVE_BYTES = Number(process.env.WORKER_HEAP_MB ?? 96) * 2 ** 20;
+const HEAP_COLLECT_ABOVE_BYTES = Number(process.env.WORKER_HEAP_MB ?? 64) * 2 ** 20;
 v8.setFlagsFromString("--expose-gc");
-const collectGarbage = vm.runInNewContext("gc") as () => void;
+const collectGarbage = vm.runInNewContext("gc") as (options: { type: "major"; execution: "async" }) => Promise<void>;
+let collecting = false;
 
+// Asynchronous: V8 marks the heap incrementally and on a helper thread while the next batch goes on.
 function keepMemoryInCheck() {
-  if (process.memoryUsage().heapUsed > HEAP_COLLECT_ABOVE_BYTES) collectGarbage();
+  if (collecting || process.memoryUsage().heapUsed <= HEAP_COLLECT_ABOVE_BYTES) return;
+  collecting = true;
+  collectGarbage({ type: "major", execution: "async" }).finally(() => {
+    collecting = false;
+  });
 }
 
 function log(message: string) {
@@ -40,12 +46,13 @@ function log(message: string) {
 
 function describe(r: CycleResult): string {
   const parts = [`${r.readings} readings → ${r.measurements} measurements in ${r.batches} batches`];
+  if (r.lateTemperature) parts.push(`${r.lateTemperature} channels to recompute with temperature samples that came late`);
   if (r.recomputed.requests) parts.push(`recomputed ${r.recomputed.channels} channels (${r.recomputed.measurements} measurements)`);
   if (r.offlineFlagged) parts.push(`${r.offlineFlagged} channels offline`);
   if (r.dipsEvaluated) parts.push(`${r.dipsEvaluated} dips compared`);
   if (r.forecasts) parts.push(`${r.forecasts} forecasts`);
   const t = r.timings;
-  return `${parts.join(", ")} (${r.ms} ms: drain ${t.drain}, recompute ${t.recompute}, offline ${t.offline}, dips ${t.dips}, forecasts ${t.forecasts}, hooks ${t.hooks})`;
+  return `${parts.join(", ")} (${r.ms} ms: drain ${t.drain}, late temperature ${t.lateTemperature}, recompute ${t.recompute}, offline ${t.offline}, dips ${t.dips}, forecasts ${t.forecasts}, hooks ${t.hooks})`;
 }
 
 async function ensurePartitionsDaily() {
@@ -62,7 +69,7 @@ async function ensurePartitionsDaily() {
 async function cycle(): Promise<CycleResult> {
   await ensurePartitionsDaily();
   const result = await runCycle({ batchSize, batchHooks, cycleHooks, maxDrainMs: once ? Infinity : 60_000, afterBatch: keepMemoryInCheck });
-  if (result.readings || result.recomputed.requests || result.offlineFlagged || result.dipsEvaluated || result.forecasts) log(describe(result));
+  if (result.readings || result.lateTemperature || result.recomputed.requests || result.offlineFlagged || result.dipsEvaluated || result.forecasts) log(describe(result));
   return result;
 }
 
@@ -70,7 +77,7 @@ async function runOnce() {
   // A recompute or a late reading can leave work for another pass; stop when a pass finds nothing.
   for (let pass = 0; pass < 10; pass++) {
     const r = await cycle();
-    if (r.drained && r.readings === 0 && r.recomputed.requests === 0) break;
+    if (r.drained && r.readings === 0 && r.recomputed.requests === 0 && r.lateTemperature === 0) break;
   }
 }
 

@@ -5,10 +5,11 @@
 import { QueryTypes, type Transaction } from "sequelize";
 import { getSequelize } from "./sequelize";
 
-export type BinaryType = "float8" | "int8" | "int4" | "int2" | "bool" | "uuid" | "timestamptz" | "text";
+export type BinaryType = "float8" | "int8" | "int4" | "int2" | "bool" | "uuid" | "timestamptz" | "text" | "bytea";
 
-const ELEMENT_OID: Record<BinaryType, number> = { float8: 701, int8: 20, int4: 23, int2: 21, bool: 16, uuid: 2950, timestamptz: 1184, text: 25 };
-const ELEMENT_SIZE: Record<Exclude<BinaryType, "text">, number> = { float8: 8, int8: 8, int4: 4, int2: 2, bool: 1, uuid: 16, timestamptz: 8 };
+const ELEMENT_OID: Record<BinaryType, number> = { float8: 701, int8: 20, int4: 23, int2: 21, bool: 16, uuid: 2950, timestamptz: 1184, text: 25, bytea: 17 };
+type Variable = "text" | "bytea";
+const ELEMENT_SIZE: Record<Exclude<BinaryType, Variable>, number> = { float8: 8, int8: 8, int4: 4, int2: 2, bool: 1, uuid: 16, timestamptz: 8 };
 // Binary timestamps count microseconds from 2000-01-01 00:00 UTC.
 const PG_EPOCH_MICROS = 946_684_800_000_000;
 const TWO_32 = 4_294_967_296;
@@ -43,8 +44,9 @@ export function binaryArray(values: readonly unknown[], type: BinaryType): Buffe
  */
 export function binaryColumn<R>(rows: readonly R[], value: (row: R) => unknown, type: BinaryType): Buffer {
   // Text columns repeat a handful of values (statuses, sources): each is encoded once.
-  const encoded = type === "text" ? new Map<unknown, Buffer>() : null;
+  const encoded = type === "text" || type === "bytea" ? new Map<unknown, Buffer>() : null;
   const textBytes = (v: unknown): Buffer => {
+    if (Buffer.isBuffer(v)) return v;
     let bytes = encoded!.get(v);
     if (!bytes) {
       bytes = Buffer.from(String(v), "utf8");
@@ -52,7 +54,7 @@ export function binaryColumn<R>(rows: readonly R[], value: (row: R) => unknown, 
     }
     return bytes;
   };
-  const fixed = type === "text" ? 0 : ELEMENT_SIZE[type];
+  const fixed = type === "text" || type === "bytea" ? 0 : ELEMENT_SIZE[type];
   let payload = 0;
   let present = 0;
   for (let i = 0; i < rows.length; i++) {
@@ -104,6 +106,7 @@ export function binaryColumn<R>(rows: readonly R[], value: (row: R) => unknown, 
         buf.writeUInt8(v ? 1 : 0, o);
         break;
       case "text":
+      case "bytea":
         bytes!.copy(buf, o);
         break;
       case "uuid": {
@@ -133,15 +136,14 @@ export class ColumnWriter {
   private readonly uuids: Map<string, Buffer> | null;
 
   constructor(
-    private readonly type: Exclude<BinaryType, "text">,
+    private readonly type: Exclude<BinaryType, Variable>,
     capacity: number,
   ) {
     this.buf = Buffer.allocUnsafe(20 + capacity * (4 + ELEMENT_SIZE[type]));
     this.uuids = type === "uuid" ? new Map() : null;
   }
 
-  private element(): number {
-    const size = ELEMENT_SIZE[this.type];
+  private element(size: number): number {
     this.buf.writeInt32BE(size, this.o);
     const at = this.o + 4;
     this.o = at + size;
@@ -156,34 +158,38 @@ export class ColumnWriter {
     this.nulls = true;
   }
 
-  /** float8 (non-finite as NULL), int2, int4, int8; timestamptz in microseconds since 1970. */
-  number(v: number | null): void {
-    if (v === null || (this.type === "float8" && !Number.isFinite(v))) return this.null();
-    const at = this.element();
-    switch (this.type) {
-      case "float8":
-        this.buf.writeDoubleBE(v, at);
-        break;
-      case "int8":
-        writeInt64(this.buf, v, at);
-        break;
-      case "timestamptz":
-        writeInt64(this.buf, v - PG_EPOCH_MICROS, at);
-        break;
-      case "int4":
-        this.buf.writeInt32BE(v, at);
-        break;
-      case "int2":
-        this.buf.writeInt16BE(v, at);
-        break;
-      default:
-        throw new Error(`a number is not a ${this.type}`);
-    }
+  // One method per element type: the caller knows the column's type, and a switch per element costs.
+
+  /** A float8 element; null and non-finite values are NULL. */
+  float8(v: number | null): void {
+    if (v === null || !Number.isFinite(v)) return this.null();
+    this.buf.writeDoubleBE(v, this.element(8));
+  }
+
+  int8(v: number | null): void {
+    if (v === null) return this.null();
+    writeInt64(this.buf, v, this.element(8));
+  }
+
+  /** A timestamptz element from microseconds since 1970. */
+  timestamptz(micros: number | null): void {
+    if (micros === null) return this.null();
+    writeInt64(this.buf, micros - PG_EPOCH_MICROS, this.element(8));
+  }
+
+  int4(v: number | null): void {
+    if (v === null) return this.null();
+    this.buf.writeInt32BE(v, this.element(4));
+  }
+
+  int2(v: number | null): void {
+    if (v === null) return this.null();
+    this.buf.writeInt16BE(v, this.element(2));
   }
 
   bool(v: boolean | null): void {
     if (v === null) return this.null();
-    this.buf.writeUInt8(v ? 1 : 0, this.element());
+    this.buf[this.element(1)] = v ? 1 : 0;
   }
 
   uuid(v: string | null): void {
@@ -193,7 +199,9 @@ export class ColumnWriter {
       raw = Buffer.from(v.replace(/-/g, ""), "hex");
       this.uuids!.set(v, raw);
     }
-    raw.copy(this.buf, this.element());
+    const at = this.element(16);
+    // Sixteen bytes are copied faster by hand than by Buffer.copy.
+    for (let i = 0; i < 16; i++) this.buf[at + i] = raw[i];
   }
 
   /** The array of everything written. */
@@ -216,7 +224,7 @@ function formatUuid(hex: string): string {
   return `${hex.slice(0, 8)}-${hex.slice(8, 12)}-${hex.slice(12, 16)}-${hex.slice(16, 20)}-${hex.slice(20)}`;
 }
 
-type Decoded<T extends BinaryType> = T extends "uuid" | "text" ? string : T extends "bool" ? boolean : number;
+type Decoded<T extends BinaryType> = T extends "uuid" | "text" ? string : T extends "bytea" ? Buffer : T extends "bool" ? boolean : number;
 
 /**
  * The elements of a one-dimensional binary array (NULL elements as null); timestamptz as microseconds
@@ -262,6 +270,9 @@ export function decodeBinaryArray<T extends BinaryType>(buf: Buffer | null, type
         break;
       case "text":
         value = buf.toString("utf8", o, o + len);
+        break;
+      case "bytea":
+        value = buf.subarray(o, o + len);
         break;
       case "uuid": {
         const hex = buf.toString("hex", o, o + 16);

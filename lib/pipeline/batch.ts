@@ -176,6 +176,7 @@ export interface ProcessedBatch {
   offlineCleared: HealthBatch["offlineCleared"];
 }
 
+/** The three stages in order; the measurements come channel by channel, each channel's in time order. */
 export function processBatch(input: BatchInput): ProcessedBatch {
   const converted = convertStage(input);
   const derived = deriveStage(converted, input);

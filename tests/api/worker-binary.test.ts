@@ -13,6 +13,7 @@ describe("binary arrays", () => {
     ["bool", "bool", [true, false, null], "ARRAY[true, false, NULL]::boolean[]"],
     ["uuid", "uuid", ["6f1c0e1e-1234-4abc-8def-0123456789ab", null], "ARRAY['6f1c0e1e-1234-4abc-8def-0123456789ab', NULL]::uuid[]"],
     ["text with quotes, commas and non-ASCII", "text", ['say "hi"', "x,y", null, "°C"], `ARRAY['say "hi"', 'x,y', NULL, '°C']::text[]`],
+    ["bytea", "bytea", [Buffer.from([1, 2, 255]), null, Buffer.alloc(0)], `ARRAY['\\x0102ff'::bytea, NULL, ''::bytea]`],
     // 2026-03-14T06:30:00.123456Z in microseconds since 1970.
     ["timestamptz", "timestamptz", [1773469800123456, 0], "ARRAY['2026-03-14T06:30:00.123456Z', '1970-01-01T00:00:00Z']::timestamptz[]"],
     ["empty float8", "float8", [], "ARRAY[]::float8[]"],

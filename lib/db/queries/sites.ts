@@ -4,6 +4,7 @@ import { initModels, Site } from "../models";
 import { getSequelize } from "../sequelize";
 import { HttpError, notFound } from "../../http/errors";
 import type { SiteInput } from "../../validations/site";
+import { requestSiteRecompute } from "./worker-recompute";
 
 export function serialiseSite(s: Site) {
   return {
@@ -54,12 +55,20 @@ export async function createSite(actor: Actor, input: SiteInput) {
   });
 }
 
+// The fields the worker's air temperature (and so every distance measured at the site) depends on.
+const TEMPERATURE_FIELDS = ["air_temp_c", "humidity_pct", "temperature_channel_id"] as const;
+
 export async function updateSite(actor: Actor, id: string, patch: Partial<SiteInput>) {
   const site = await findSite(actor.organisationId, id);
   await assertTemperatureChannel(actor.organisationId, patch.temperature_channel_id);
+  const before = Object.fromEntries(TEMPERATURE_FIELDS.map((f) => [f, site[f] ?? null]));
   return getSequelize().transaction(async (transaction) => {
     await site.update(patch, { transaction });
-    await writeAudit(actor, "site.update", { type: "site", id }, { ...patch }, transaction);
+    const changed = TEMPERATURE_FIELDS.filter((f) => f in patch && (site[f] ?? null) !== before[f]);
+    const recompute = changed.length
+      ? await requestSiteRecompute(id, { reason: `site ${changed.join(", ")} changed`, temperatureChannelId: changed.includes("temperature_channel_id") ? (site.temperature_channel_id ?? null) : null }, transaction)
+      : [];
+    await writeAudit(actor, "site.update", { type: "site", id }, { ...patch, ...(recompute.length ? { recompute_request_ids: recompute } : {}) }, transaction);
     return serialiseSite(site);
   });
 }

@@ -11,7 +11,7 @@ import type { Transaction } from "sequelize";
 import { getSequelize } from "../sequelize";
 import { QUEUED_READING_COLUMNS } from "./reading-queue";
 import { channelKey, processBatch, type ProcessedBatch } from "../../pipeline/batch";
-import { parseChannelState, type ChannelState } from "../../pipeline/channel-state";
+import type { ChannelState } from "../../pipeline/channel-state";
 import type { ChannelConfig, ReadingRow } from "../../pipeline/types";
 import {
   loadChannelsOfDevices,
@@ -47,14 +47,15 @@ export interface BatchResult {
 const CLAIM_LOCK_KEY = 0x48545743;
 
 async function claimBatch(batchSize: number, transaction: Transaction): Promise<ReadingRow[]> {
-  // `= ANY(ARRAY(…))` keeps the delete on the primary key; a join here plans as a scan of the whole queue.
+  // The rows are deleted by the row addresses the locking subquery returns (they cannot move while
+  // locked): cheaper than looking each up again by primary key. fetchReadings puts them in time order.
   return fetchReadings(
     `WITH claimed AS (
        DELETE FROM reading_queue
-       WHERE reading_id = ANY(ARRAY(SELECT reading_id FROM reading_queue ORDER BY at, reading_id LIMIT $1 FOR UPDATE SKIP LOCKED))
+       WHERE ctid = ANY(ARRAY(SELECT ctid FROM reading_queue ORDER BY at, reading_id LIMIT $1 FOR UPDATE SKIP LOCKED))
        RETURNING reading_id AS id, at, ${QUEUED_READING_COLUMNS.join(", ")}
      )
-     ${readingsAsArrays("claimed r ORDER BY r.at, r.id")}`,
+     ${readingsAsArrays("claimed r")}`,
     [batchSize],
     transaction,
   );
@@ -63,19 +64,16 @@ async function claimBatch(batchSize: number, transaction: Transaction): Promise<
 /**
  * Locks state rows the batch in flight holds and releases the claim lock in one statement: the unlock
  * is computed only after the locking subquery has its rows, so no other worker can claim in between.
+ * Answers the rows' versions only: the states themselves are needed when a version is not the expected one.
  */
-async function lockCarriedAndRelease(channelIds: string[], transaction: Transaction): Promise<Map<string, LockedChannelState>> {
-  const [row] = await sqlRows<{ rows: { channel_id: string; state: unknown; offline_since: string | null; version: number }[] | null }>(
+async function lockCarriedAndRelease(channelIds: string[], transaction: Transaction): Promise<Map<string, number>> {
+  const [row] = await sqlRows<{ rows: { channel_id: string; version: number }[] | null }>(
     `SELECT json_agg(x ORDER BY x.channel_id) AS rows, pg_advisory_unlock($2) AS released
-     FROM (SELECT channel_id, state, offline_since, version FROM channel_state WHERE channel_id = ANY($1::uuid[]) ORDER BY channel_id FOR UPDATE) x`,
+     FROM (SELECT channel_id, version FROM channel_state WHERE channel_id = ANY($1::uuid[]) ORDER BY channel_id FOR UPDATE) x`,
     [[...channelIds].sort(), CLAIM_LOCK_KEY],
     transaction,
   );
-  const map = new Map<string, LockedChannelState>();
-  for (const r of row?.rows ?? []) {
-    map.set(r.channel_id, { state: parseChannelState(r.state), offlineSince: r.offline_since === null ? null : new Date(r.offline_since), version: Number(r.version) });
-  }
-  return map;
+  return new Map((row?.rows ?? []).map((r) => [r.channel_id, Number(r.version)]));
 }
 
 /** The channel states a batch in flight will commit, and the versions they will have. */
@@ -149,14 +147,17 @@ async function prepareBatch(batchSize: number, expected: Expected | null, inFlig
 
       const ready = (async () => {
         await inFlight;
-        let locked = await carriedLocked;
-        // Rows the batch in flight created were invisible to the lock until it committed: lock them now.
-        if (locked.size < carried.length) locked = await lockChannelStates(carried, transaction);
-        const changed = carried.some((id) => locked.get(id)?.version !== expected!.get(id)!.version);
+        const versions = await carriedLocked;
+        // Rows the batch in flight created were invisible to the lock until it committed: they are locked
+        // (and read) now, as are all of them when anyone else changed one meanwhile.
+        const changed = versions.size < carried.length || carried.some((id) => versions.get(id) !== expected!.get(id)!.version);
         if (changed) {
-          states = mergeStates(fresh, locked);
-          batch = processBatch({ ...input, states });
-          encoded = encodeBatch(batch);
+          const locked = await lockChannelStates(carried, transaction);
+          if (carried.some((id) => locked.get(id)?.version !== expected!.get(id)!.version)) {
+            states = mergeStates(fresh, locked);
+            batch = processBatch({ ...input, states });
+            encoded = encodeBatch(batch);
+          }
         }
       })();
       // Awaited by commitBatch; until then a failure must not count as unhandled.

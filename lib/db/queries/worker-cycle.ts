@@ -1,7 +1,9 @@
-// One worker cycle: drain the reading queue batch by batch, then the recompute requests, then the
-// chores that look at the fleet as a whole (offline, manual dips, forecasts), then any cycle hooks.
+// One worker cycle: drain the reading queue batch by batch, file recomputes for measurements that
+// missed late temperature samples, then drain the recompute requests, then the chores that look at
+// the fleet as a whole (offline, manual dips, forecasts), then any cycle hooks.
 
 import { drainQueue, type BatchHook } from "./worker-batch";
+import { fileLateTemperatureRecomputes } from "./worker-late-temperature";
 import { evaluateManualDips, markOfflineChannels, refreshForecasts } from "./worker-maintenance";
 import { drainRecomputeRequests } from "./worker-recompute";
 
@@ -27,13 +29,15 @@ export interface CycleResult {
   measurements: number;
   /** The queue was empty when the cycle stopped claiming. */
   drained: boolean;
+  /** Recompute requests filed for channels measured before their site's temperature samples arrived. */
+  lateTemperature: number;
   recomputed: { requests: number; channels: number; measurements: number };
   offlineFlagged: number;
   dipsEvaluated: number;
   forecasts: number;
   ms: number;
   /** Milliseconds spent per step. */
-  timings: { drain: number; recompute: number; offline: number; dips: number; forecasts: number; hooks: number };
+  timings: { drain: number; lateTemperature: number; recompute: number; offline: number; dips: number; forecasts: number; hooks: number };
 }
 
 export async function runCycle({ batchSize, maxDrainMs = 60_000, batchHooks = [], cycleHooks = [], afterBatch }: CycleOptions): Promise<CycleResult> {
@@ -43,12 +47,13 @@ export async function runCycle({ batchSize, maxDrainMs = 60_000, batchHooks = []
     readings: 0,
     measurements: 0,
     drained: false,
+    lateTemperature: 0,
     recomputed: { requests: 0, channels: 0, measurements: 0 },
     offlineFlagged: 0,
     dipsEvaluated: 0,
     forecasts: 0,
     ms: 0,
-    timings: { drain: 0, recompute: 0, offline: 0, dips: 0, forecasts: 0, hooks: 0 },
+    timings: { drain: 0, lateTemperature: 0, recompute: 0, offline: 0, dips: 0, forecasts: 0, hooks: 0 },
   };
   let mark = started;
   const lap = (step: keyof CycleResult["timings"]) => {
@@ -62,6 +67,8 @@ export async function runCycle({ batchSize, maxDrainMs = 60_000, batchHooks = []
   result.measurements = drained.measurements;
   result.drained = drained.drained;
   lap("drain");
+  result.lateTemperature = await fileLateTemperatureRecomputes();
+  lap("lateTemperature");
   result.recomputed = await drainRecomputeRequests();
   lap("recompute");
   if (result.drained) result.offlineFlagged = await markOfflineChannels();

@@ -37,6 +37,29 @@ export async function requestRecompute({ channelId = null, assetId = null, reaso
   return { id: Number(row.id) };
 }
 
+/**
+ * Files a recompute for each channel with an asset on the site's devices (their air temperature comes
+ * from the site). A new temperature channel goes first: rebuilding it stores its readings as the site's
+ * samples before the other channels are rebuilt with them. Returns the requests' ids.
+ */
+export async function requestSiteRecompute(
+  siteId: string,
+  { reason, temperatureChannelId = null }: { reason: string; temperatureChannelId?: string | null },
+  transaction?: Transaction,
+): Promise<number[]> {
+  const ids = temperatureChannelId ? [(await requestRecompute({ channelId: temperatureChannelId, reason }, transaction)).id] : [];
+  const rows = await sqlRows<{ id: string }>(
+    `INSERT INTO recompute_requests (channel_id, reason)
+     SELECT c.id, $2 FROM channels c JOIN devices d ON d.id = c.device_id
+     WHERE d.site_id = $1 AND c.asset_id IS NOT NULL AND c.id IS DISTINCT FROM $3::uuid
+     ORDER BY c.id
+     RETURNING id`,
+    [siteId, reason, temperatureChannelId],
+    transaction,
+  );
+  return [...ids, ...rows.map((r) => Number(r.id))];
+}
+
 const REPLAY_CHUNK = 5000;
 
 /** Rebuilds one channel's derived rows from its readings; returns the measurements written. */

@@ -26,11 +26,9 @@ export async function sqlRun(sql: string, bind: unknown[], transaction?: Transac
 // Readings come back as one row of binary arrays, a column each: formatting 25 000 rows' floats and
 // times as text (or JSON) cost PostgreSQL more than finding them.
 const READING_COLUMNS = ["id", "device_id", "channel", "at", "echo_us", "ticks", "overflows", "samples_us", "pulse_us", "high_us", "period_us", "air_temp_c"];
-const READING_ARRAYS = READING_COLUMNS.map((c) => `${sendArray(`array_agg(r.${c}${c === "samples_us" ? "::text" : ""})`)} AS ${c}`).join(", ");
+// A burst's samples travel as their own binary array inside a bytea element.
+const READING_ARRAYS = READING_COLUMNS.map((c) => `${sendArray(`array_agg(${c === "samples_us" ? "array_send(r.samples_us)" : `r.${c}`})`)} AS ${c}`).join(", ");
 
-function parseSamples(text: string | null): number[] | null {
-  return text === null ? null : text.slice(1, -1).split(",").map(Number);
-}
 
 function readingsFromColumns(row: Record<string, Buffer | null>): ReadingRow[] {
   const id = decodeBinaryArray(row.id, "int8");
@@ -40,7 +38,7 @@ function readingsFromColumns(row: Record<string, Buffer | null>): ReadingRow[] {
   const echoUs = decodeBinaryArray(row.echo_us, "float8");
   const ticks = decodeBinaryArray(row.ticks, "int8");
   const overflows = decodeBinaryArray(row.overflows, "int4");
-  const samplesUs = decodeBinaryArray(row.samples_us, "text");
+  const samplesUs = decodeBinaryArray(row.samples_us, "bytea");
   const pulseUs = decodeBinaryArray(row.pulse_us, "float8");
   const highUs = decodeBinaryArray(row.high_us, "float8");
   const periodUs = decodeBinaryArray(row.period_us, "float8");
@@ -56,7 +54,7 @@ function readingsFromColumns(row: Record<string, Buffer | null>): ReadingRow[] {
       echoUs: echoUs[i],
       ticks: ticks[i],
       overflows: overflows[i],
-      samplesUs: parseSamples(samplesUs[i]),
+      samplesUs: samplesUs[i] === null ? null : (decodeBinaryArray(samplesUs[i], "float8") as number[]),
       pulseUs: pulseUs[i],
       highUs: highUs[i],
       periodUs: periodUs[i],
