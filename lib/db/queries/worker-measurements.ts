@@ -7,19 +7,20 @@ import type { Transaction } from "sequelize";
 import { binaryArray, binaryColumn, ColumnWriter, decodeBinaryArray, queryArrayRow, sendArray, type BinaryType } from "../binary-arrays";
 import type { ChannelState } from "../../pipeline/channel-state";
 import type { ProcessedBatch } from "../../pipeline/batch";
-import type { Measurement } from "../../pipeline/types";
+import type { ChannelConfig, Measurement } from "../../pipeline/types";
 import { applyFlagChanges, insertTemperatureSamples, sqlRun, upsertSessions } from "./worker-writes";
 
 // ── Measurements and rollups ────────────────────────────────────────────────────────────────────
 
-// The measurement columns in the order encodeMeasurements writes them.
-const MEASUREMENT_COLUMNS: [name: string, type: BinaryType][] = [
+// The measurement columns as sent, in the order encodeMeasurements writes them. Device, channel and
+// asset ids repeat thousands of times a batch: they go once each in three dictionaries that follow
+// these columns, and the rows name them by position (1-based, as PostgreSQL subscripts count).
+const SENT_COLUMNS: [name: string, type: BinaryType][] = [
   ["reading_id", "int8"],
   ["at", "timestamptz"],
-  ["device_id", "uuid"],
+  ["device_n", "int4"],
   ["channel_index", "int2"],
-  ["channel_id", "uuid"],
-  ["asset_id", "uuid"],
+  ["channel_n", "int4"],
   ["status", "text"],
   ["status_detail", "text"],
   ["tof_us", "float8"],
@@ -38,20 +39,17 @@ const MEASUREMENT_COLUMNS: [name: string, type: BinaryType][] = [
   ["occupied", "bool"],
   ["uncertainty_m", "float8"],
 ];
+const DICTIONARIES = 3;
 
-/**
- * The measurement columns as binary arrays, in MEASUREMENT_COLUMNS order, in one pass over the
- * records (a getter per column and record cost about ten times as much).
- */
+/** The measurement columns as binary arrays (SENT_COLUMNS, then the device, channel and asset dictionaries), in one pass over the records. */
 export function encodeMeasurements(ms: readonly Measurement[]): Buffer[] {
   const n = ms.length;
   const float = () => new ColumnWriter("float8", n);
   const readingId = new ColumnWriter("int8", n);
   const at = new ColumnWriter("timestamptz", n);
-  const deviceId = new ColumnWriter("uuid", n);
+  const deviceN = new ColumnWriter("int4", n);
   const channelIndex = new ColumnWriter("int2", n);
-  const channelId = new ColumnWriter("uuid", n);
-  const assetId = new ColumnWriter("uuid", n);
+  const channelN = new ColumnWriter("int4", n);
   const burstN = new ColumnWriter("int2", n);
   const occupied = new ColumnWriter("bool", n);
   const [tof, spread, airTemp, speed, rawDistance, distance, level, volume, fill, ullage, uncertainty] = Array.from({ length: 11 }, float);
@@ -59,15 +57,22 @@ export function encodeMeasurements(ms: readonly Measurement[]): Buffer[] {
   const statusDetail = new Array<string | null>(n);
   const tempSource = new Array<string | null>(n);
   const soundModel = new Array<string | null>(n);
+  const deviceNumber = new Map<string, number>();
+  const channelNumber = new Map<ChannelConfig, number>();
   for (let i = 0; i < n; i++) {
     const m = ms[i];
     const r = m.reading;
     readingId.int8(r.id);
     at.timestamptz(r.atMicros ?? r.at.getTime() * 1000);
-    deviceId.uuid(r.deviceId);
+    let d = deviceNumber.get(r.deviceId);
+    if (d === undefined) deviceNumber.set(r.deviceId, (d = deviceNumber.size + 1));
+    deviceN.int4(d);
     channelIndex.int2(r.channel);
-    channelId.uuid(m.channel?.id ?? null);
-    assetId.uuid(m.channel?.asset?.id ?? null);
+    if (m.channel) {
+      let c = channelNumber.get(m.channel);
+      if (c === undefined) channelNumber.set(m.channel, (c = channelNumber.size + 1));
+      channelN.int4(c);
+    } else channelN.null();
     status[i] = m.status;
     statusDetail[i] = m.statusDetail;
     tof.float8(m.tofUs);
@@ -86,13 +91,13 @@ export function encodeMeasurements(ms: readonly Measurement[]): Buffer[] {
     occupied.bool(m.occupied);
     uncertainty.float8(m.uncertaintyM);
   }
+  const channels = [...channelNumber.keys()];
   return [
     readingId.finish(),
     at.finish(),
-    deviceId.finish(),
+    deviceN.finish(),
     channelIndex.finish(),
-    channelId.finish(),
-    assetId.finish(),
+    channelN.finish(),
     binaryArray(status, "text"),
     binaryArray(statusDetail, "text"),
     tof.finish(),
@@ -110,6 +115,9 @@ export function encodeMeasurements(ms: readonly Measurement[]): Buffer[] {
     ullage.finish(),
     occupied.finish(),
     uncertainty.finish(),
+    binaryArray([...deviceNumber.keys()], "uuid"),
+    binaryArray(channels.map((c) => c.id), "uuid"),
+    binaryArray(channels.map((c) => c.asset?.id ?? null), "uuid"),
   ];
 }
 
@@ -265,7 +273,15 @@ const upsertRollupsSql = (first: number) => `
     ${addNullable("uncertainty_sum")},
     occupied_n = r.occupied_n + excluded.occupied_n`;
 
-const INSERT_MEASUREMENTS = `INSERT INTO measurements (${MEASUREMENT_COLUMNS.map(([n]) => n).join(", ")}) SELECT * FROM unnest(${unnestColumns(MEASUREMENT_COLUMNS)})`;
+const MEASUREMENT_PARAMS = SENT_COLUMNS.length + DICTIONARIES;
+const dictionary = (k: number) => `$${SENT_COLUMNS.length + k}::uuid[]`;
+// Each sent column as the measurement columns it fills, and what fills them.
+const storedAs = (n: string) => (n === "device_n" ? ["device_id"] : n === "channel_n" ? ["channel_id", "asset_id"] : [n]);
+const filledBy = (n: string) => (n === "device_n" ? [`(${dictionary(1)})[u.device_n]`] : n === "channel_n" ? [`(${dictionary(2)})[u.channel_n]`, `(${dictionary(3)})[u.channel_n]`] : [`u.${n}`]);
+const INSERT_MEASUREMENTS = `
+  INSERT INTO measurements (${SENT_COLUMNS.flatMap(([n]) => storedAs(n)).join(", ")})
+  SELECT ${SENT_COLUMNS.flatMap(([n]) => filledBy(n)).join(", ")}
+  FROM unnest(${unnestColumns(SENT_COLUMNS)}) AS u(${SENT_COLUMNS.map(([n]) => n).join(", ")})`;
 const INSERT_NEW_MEASUREMENTS = `WITH ins AS (${INSERT_MEASUREMENTS} ON CONFLICT (reading_id, at) DO NOTHING RETURNING reading_id) SELECT ${sendArray("array_agg(reading_id)")} AS ids FROM ins`;
 
 // The states as columns of binary arrays, each state a JSON text cast to jsonb: json_to_recordset
@@ -284,7 +300,7 @@ const updateStatesSql = (first: number) => `
   FROM unnest(${unnestColumns(STATE_COLUMNS, first)}) AS v(${STATE_COLUMNS.map(([n]) => n).join(", ")})
   WHERE s.channel_id = v.channel_id`;
 
-const ROLLUPS_FIRST = MEASUREMENT_COLUMNS.length + 1;
+const ROLLUPS_FIRST = MEASUREMENT_PARAMS + 1;
 const STATES_FIRST = ROLLUPS_FIRST + ROLLUP_COLUMNS.length;
 const UPSERT_ROLLUPS = upsertRollupsSql(1);
 const UPDATE_STATES = updateStatesSql(1);

@@ -1,0 +1,67 @@
+import { describe, expect, it } from "vitest";
+import { decodeBinaryArray } from "@/lib/db/binary-arrays";
+import { encodeMeasurements, rollUp } from "@/lib/db/queries/worker-measurements";
+import { blankMeasurement } from "@/lib/pipeline/convert";
+import type { Measurement } from "@/lib/pipeline/types";
+import { bay, channel, reading, T0 } from "./pipeline-fixtures";
+
+// The worker's write path encodes a batch column by column; decoding the arrays again must give back
+// each record's own fields, in order (the database's reading of the same format is checked against
+// array_send in tests/api/worker-binary.test.ts, and the rollups against PostgreSQL's own sums in
+// tests/api/worker-concurrency.test.ts).
+const D1 = "6f1c0e1e-0000-4000-8000-0000000000d1";
+const D2 = "6f1c0e1e-0000-4000-8000-0000000000d2";
+const bayA = channel({ id: "6f1c0e1e-0000-4000-8000-0000000000c1", asset: { ...bay(), id: "6f1c0e1e-0000-4000-8000-0000000000a1" } });
+const loose = channel({ id: "6f1c0e1e-0000-4000-8000-0000000000c2", index: 1 });
+
+function record(deviceId: string, ch: typeof bayA | null, minute: number, fields: Partial<Measurement>): Measurement {
+  const r = reading({ deviceId, channel: ch?.index ?? 7, at: new Date(T0 + minute * 60_000) });
+  r.atMicros = (T0 + minute * 60_000) * 1000 + 123;
+  return Object.assign(blankMeasurement(r, ch), fields);
+}
+
+describe("encoding a batch's measurements", () => {
+  const batch = [
+    record(D1, bayA, 0, { distanceM: 2.5, occupied: false, tofUs: 14_600.5, airTempC: 12, tempSource: "reading" }),
+    record(D1, bayA, 1, { distanceM: 1.2, occupied: true, tofUs: Number.NaN }),
+    record(D1, loose, 1, { distanceM: 0.8, status: "noisy", statusDetail: 'spread "wide"' }),
+    record(D2, null, 2, { status: "invalid_config", statusDetail: "no channel 7" }),
+  ];
+  const columns = encodeMeasurements(batch);
+
+  it("keeps every field of every record in its column", () => {
+    expect(columns).toHaveLength(25);
+    expect(decodeBinaryArray(columns[0], "int8")).toEqual(batch.map((m) => m.reading.id));
+    expect(decodeBinaryArray(columns[1], "timestamptz")).toEqual(batch.map((m) => m.reading.atMicros));
+    expect(decodeBinaryArray(columns[3], "int2")).toEqual([0, 0, 1, 7]);
+    expect(decodeBinaryArray(columns[5], "text")).toEqual(["ok", "ok", "noisy", "invalid_config"]);
+    expect(decodeBinaryArray(columns[6], "text")).toEqual([null, null, 'spread "wide"', "no channel 7"]);
+    // A value that is not a finite number is stored as NULL.
+    expect(decodeBinaryArray(columns[7], "float8")).toEqual([14_600.5, null, null, null]);
+    expect(decodeBinaryArray(columns[10], "float8")).toEqual([12, null, null, null]);
+    expect(decodeBinaryArray(columns[11], "text")).toEqual(["reading", null, null, null]);
+    expect(decodeBinaryArray(columns[15], "float8")).toEqual([2.5, 1.2, 0.8, null]);
+    expect(decodeBinaryArray(columns[20], "bool")).toEqual([false, true, null, null]);
+  });
+
+  it("names devices, channels and assets by their place in the dictionaries that follow", () => {
+    const devices = decodeBinaryArray(columns[22], "uuid");
+    const channels = decodeBinaryArray(columns[23], "uuid");
+    const assets = decodeBinaryArray(columns[24], "uuid");
+    const deviceOf = decodeBinaryArray(columns[2], "int4").map((n) => devices[n! - 1]);
+    const channelOf = decodeBinaryArray(columns[4], "int4").map((n) => (n === null ? null : channels[n - 1]));
+    const assetOf = decodeBinaryArray(columns[4], "int4").map((n) => (n === null ? null : assets[n - 1]));
+    expect(deviceOf).toEqual([D1, D1, D1, D2]);
+    expect(channelOf).toEqual([bayA.id, bayA.id, loose.id, null]);
+    expect(assetOf).toEqual([bayA.asset!.id, bayA.asset!.id, null, null]);
+  });
+
+  it("rolls up only channels that serve an asset, into 5-minute and hourly buckets from 2000-01-01", () => {
+    const buckets = rollUp(batch);
+    // 06:30 and 06:31 UTC share the 06:30 five-minute bucket and the 06:00 hour.
+    expect(buckets.map((b) => [b.bucketS, new Date(b.startMicros / 1000).toISOString(), b.nAll, b.n, b.sum[0], b.occupiedN])).toEqual([
+      [300, "2026-03-14T06:30:00.000Z", 2, 2, 3.7, 1],
+      [3600, "2026-03-14T06:00:00.000Z", 2, 2, 3.7, 1],
+    ]);
+  });
+});
