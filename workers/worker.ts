@@ -26,7 +26,7 @@ let lastPartitionCheck = 0;
 
 // V8 lets the heap grow far past what a batch needs before it collects; a full collection when a
 // batch leaves more than this behind keeps the worker's resident memory near its working set.
-const HEAP_COLLECT_ABOVE_BYTES = Number(process.env.WORKER_HEAP_MB ?? 64) * 2 ** 20;
+const HEAP_COLLECT_ABOVE_BYTES = Number(process.env.WORKER_HEAP_MB ?? 80) * 2 ** 20;
 v8.setFlagsFromString("--expose-gc");
 const collectGarbage = vm.runInNewContext("gc") as (options: { type: "major"; execution: "async" }) => Promise<void>;
 let collecting = false;

@@ -58,7 +58,7 @@ export function startPostgres() {
     log(`PostgreSQL already running on 127.0.0.1:${PG_PORT}`);
   } else {
     const logFile = path.join(dataDir, "server.log");
-    const opts = `-c listen_addresses=127.0.0.1 -p ${PG_PORT} -k ${socketDir} -c max_connections=200 -c shared_buffers=256MB -c synchronous_commit=off`;
+    const opts = `-c listen_addresses=127.0.0.1 -p ${PG_PORT} -k ${socketDir} -c max_connections=200 -c shared_buffers=256MB -c synchronous_commit=off -c max_wal_size=4GB -c checkpoint_timeout=15min`;
     const r = asPostgres(path.join(bin, "pg_ctl"), ["-D", dataDir, "-l", logFile, "-w", "-t", "60", "-o", opts, "start"]);
     if (r.status !== 0) throw new Error(`PostgreSQL did not start: ${r.stderr || r.stdout}\n${safeTail(logFile)}`);
     log(`PostgreSQL started on 127.0.0.1:${PG_PORT}`);
