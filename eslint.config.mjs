@@ -9,7 +9,7 @@ const config = [
       "@typescript-eslint/no-unused-vars": ["error", { argsIgnorePattern: "^_", varsIgnorePattern: "^_", destructuredArrayIgnorePattern: "^_" }],
     },
   },
-  { ignores: [".next/**", ".next-*/**", ".data/**", "node_modules/**", "next-env.d.ts", "test-results/**", "playwright-report/**"] },
+  { ignores: [".next/**", ".next-*/**", ".data/**", ".worker/**", "node_modules/**", "next-env.d.ts", "test-results/**", "playwright-report/**"] },
 ];
 
 export default config;

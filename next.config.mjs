@@ -2,7 +2,8 @@
 const nextConfig = {
   // A separate folder lets several dev sandboxes run side by side (scripts/stack.mjs sandbox).
   distDir: process.env.NEXT_DIST_DIR ?? ".next",
-  output: "standalone",
+  // The container image serves the standalone output (docker/Dockerfile sets this); `npm start` uses `next start`.
+  output: process.env.HALFTRIP_STANDALONE === "1" ? "standalone" : undefined,
   serverExternalPackages: ["sequelize", "pg", "pg-hstore", "bcryptjs", "nodemailer", "smtp-server", "mailparser"],
   poweredByHeader: false,
   // Tests and sandboxes address the dev server as 127.0.0.1.

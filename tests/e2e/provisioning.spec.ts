@@ -14,7 +14,7 @@ test("an admin provisions a site, a tank and a device, and the device's key send
 
   await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Sites" }).click();
   await page.getByRole("link", { name: "Add a site" }).click();
-  await page.getByLabel("Name").fill(siteName);
+  await page.getByLabel("Name", { exact: true }).fill(siteName);
   await page.getByLabel("Time zone").fill("Europe/Dublin");
   await page.getByLabel("Fixed air temperature (°C)").fill("12");
   await page.getByRole("button", { name: "Add site" }).click();
@@ -27,7 +27,7 @@ test("an admin provisions a site, a tank and a device, and the device's key send
   await expect(page.getByText("Choose the site.")).toBeVisible();
   await expect(page.getByText("Give the asset a name.")).toBeVisible();
   await page.getByLabel("Site").selectOption({ label: siteName });
-  await page.getByLabel("Name").fill(tankName);
+  await page.getByLabel("Name", { exact: true }).fill(tankName);
   await page.getByLabel("Shape").selectOption("rectangular");
   await page.getByLabel("Length (m)", { exact: true }).fill("2");
   await page.getByLabel("Width (m)", { exact: true }).fill("1.5");
@@ -47,7 +47,7 @@ test("an admin provisions a site, a tank and a device, and the device's key send
   await page.goto("/devices/new");
   await page.getByLabel("Site").selectOption({ label: siteName });
   await page.getByLabel("Serial").fill(`E2E-${stamp}`);
-  await page.getByLabel("Name").fill(deviceName);
+  await page.getByLabel("Name", { exact: true }).fill(deviceName);
   await page.getByLabel("Asset").selectOption({ label: `${tankName} (tank)` });
   await page.getByRole("button", { name: "Add device" }).click();
   await expect(page.getByText("You will not see it again")).toBeVisible();
