@@ -4,6 +4,17 @@ import { log } from "./system.mjs";
 
 const children = new Set();
 
+// A stack that ends any other way than its own shutdown (an uncaught error, a reader of its output that
+// went away, as with `npm start | head`) still takes its services down with it.
+process.on("exit", () => {
+  for (const child of children) {
+    try { process.kill(-child.pid, "SIGTERM"); } catch { /* already gone */ }
+  }
+});
+process.stdout.on("error", (err) => {
+  if (err.code === "EPIPE") process.kill(process.pid, "SIGTERM");
+});
+
 export function run(cmd, args, { env = process.env, quiet = false } = {}) {
   const r = spawnSync(cmd, args, { stdio: quiet ? "pipe" : "inherit", env, encoding: "utf8" });
   return r.status ?? 1;
