@@ -14,10 +14,6 @@ const ELEMENT_SIZE: Record<Exclude<BinaryType, Variable>, number> = { float8: 8,
 const PG_EPOCH_MICROS = 946_684_800_000_000;
 const TWO_32 = 4_294_967_296;
 
-function isNullFor(value: unknown, type: BinaryType): boolean {
-  return value === null || value === undefined || (type === "float8" && !Number.isFinite(value as number));
-}
-
 function writeInt64(buf: Buffer, value: number, offset: number): void {
   if (Number.isSafeInteger(value) && value >= 0) {
     buf.writeUInt32BE(Math.floor(value / TWO_32), offset);
@@ -38,30 +34,54 @@ export function binaryArray(values: readonly unknown[], type: BinaryType): Buffe
   return binaryColumn(values, (v) => v, type);
 }
 
-/**
- * The binary array of one column of the rows, read with `value` (called twice a row: once to size the
- * buffer, once to fill it), without an intermediate array of the values.
- */
+/** The binary array of one column of the rows, read with `value`, without an intermediate array of the values. */
 export function binaryColumn<R>(rows: readonly R[], value: (row: R) => unknown, type: BinaryType): Buffer {
+  if (type === "text" || type === "bytea") return variableColumn(rows, value, type);
+  const writer = new ColumnWriter(type, rows.length);
+  const push = elementWriter(writer, type);
+  for (let i = 0; i < rows.length; i++) push(value(rows[i]) ?? null);
+  return writer.finish();
+}
+
+function elementWriter(w: ColumnWriter, type: Exclude<BinaryType, Variable>): (v: unknown) => void {
+  switch (type) {
+    case "float8":
+      return (v) => w.float8(v as number | null);
+    case "int8":
+      return (v) => w.int8(v as number | null);
+    case "int4":
+      return (v) => w.int4(v as number | null);
+    case "int2":
+      return (v) => w.int2(v as number | null);
+    case "timestamptz":
+      return (v) => w.timestamptz(v as number | null);
+    case "bool":
+      return (v) => w.bool(v === null ? null : Boolean(v));
+    case "uuid":
+      return (v) => w.uuid(v as string | null);
+  }
+}
+
+/** Text or bytea elements: sized in a first pass over the rows (`value` is called twice a row), written in a second. */
+function variableColumn<R>(rows: readonly R[], value: (row: R) => unknown, type: Variable): Buffer {
   // Text columns repeat a handful of values (statuses, sources): each is encoded once.
-  const encoded = type === "text" || type === "bytea" ? new Map<unknown, Buffer>() : null;
-  const textBytes = (v: unknown): Buffer => {
+  const encoded = new Map<unknown, Buffer>();
+  const bytesOf = (v: unknown): Buffer => {
     if (Buffer.isBuffer(v)) return v;
-    let bytes = encoded!.get(v);
+    let bytes = encoded.get(v);
     if (!bytes) {
       bytes = Buffer.from(String(v), "utf8");
-      encoded!.set(v, bytes);
+      encoded.set(v, bytes);
     }
     return bytes;
   };
-  const fixed = type === "text" || type === "bytea" ? 0 : ELEMENT_SIZE[type];
   let payload = 0;
   let present = 0;
   for (let i = 0; i < rows.length; i++) {
     const v = value(rows[i]);
-    if (isNullFor(v, type)) continue;
+    if (v === null || v === undefined) continue;
     present++;
-    payload += encoded ? textBytes(v).length : fixed;
+    payload += bytesOf(v).length;
   }
   const header = rows.length ? 20 : 12;
   const buf = Buffer.allocUnsafe(header + rows.length * 4 + payload);
@@ -73,55 +93,20 @@ export function binaryColumn<R>(rows: readonly R[], value: (row: R) => unknown, 
     buf.writeInt32BE(1, 16);
   }
   let o = header;
-  // A batch names few devices, channels and assets, many times each: decode each uuid once.
-  const uuids = type === "uuid" ? new Map<string, Buffer>() : null;
   for (let i = 0; i < rows.length; i++) {
     const v = value(rows[i]);
-    if (isNullFor(v, type)) {
+    if (v === null || v === undefined) {
       buf.writeInt32BE(-1, o);
       o += 4;
       continue;
     }
-    const bytes = encoded ? textBytes(v) : null;
-    const size = bytes ? bytes.length : fixed;
-    buf.writeInt32BE(size, o);
+    const bytes = bytesOf(v);
+    buf.writeInt32BE(bytes.length, o);
     o += 4;
-    switch (type) {
-      case "float8":
-        buf.writeDoubleBE(v as number, o);
-        break;
-      case "int8":
-        writeInt64(buf, v as number, o);
-        break;
-      case "timestamptz":
-        writeInt64(buf, (v as number) - PG_EPOCH_MICROS, o);
-        break;
-      case "int4":
-        buf.writeInt32BE(v as number, o);
-        break;
-      case "int2":
-        buf.writeInt16BE(v as number, o);
-        break;
-      case "bool":
-        buf.writeUInt8(v ? 1 : 0, o);
-        break;
-      case "text":
-      case "bytea":
-        // Statuses and sources are a few bytes long: copied by hand, faster than Buffer.copy.
-        if (size <= 32) for (let k = 0; k < size; k++) buf[o + k] = bytes![k];
-        else bytes!.copy(buf, o);
-        break;
-      case "uuid": {
-        let raw = uuids!.get(v as string);
-        if (!raw) {
-          raw = Buffer.from((v as string).replace(/-/g, ""), "hex");
-          uuids!.set(v as string, raw);
-        }
-        raw.copy(buf, o);
-        break;
-      }
-    }
-    o += size;
+    // Statuses and sources are a few bytes long: copied by hand, faster than Buffer.copy.
+    if (bytes.length <= 32) for (let k = 0; k < bytes.length; k++) buf[o + k] = bytes[k];
+    else bytes.copy(buf, o);
+    o += bytes.length;
   }
   return buf;
 }
