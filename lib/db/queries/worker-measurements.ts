@@ -187,7 +187,7 @@ export interface Rollup {
   occupiedN: number;
 }
 
-export const ROLLUP_BUCKETS_S = [300, 3600] as const;
+const ROLLUP_BUCKETS_S = [300, 3600] as const;
 const SUMMED = ["distance", "level", "volume", "fill", "air_temp"] as const;
 
 /** Adds a value to the bucket's k-th sum, minimum and maximum (in SUMMED order); null and non-finite values are left out. */

@@ -5,6 +5,7 @@
 import { QueryTypes, type Transaction } from "sequelize";
 import { getSequelize } from "../sequelize";
 import { decodeBinaryArray, queryArrayRow, sendArray } from "../binary-arrays";
+import { QUEUED_READING_COLUMNS } from "./reading-queue";
 import type { TankGeometry } from "../../geometry/tank-volume";
 import { parseChannelState } from "../../pipeline/channel-state";
 import type { FlagChanges } from "../../pipeline/health";
@@ -25,7 +26,7 @@ export async function sqlRun(sql: string, bind: unknown[], transaction?: Transac
 
 // Readings come back as one row of binary arrays, a column each: formatting 25 000 rows' floats and
 // times as text (or JSON) cost PostgreSQL more than finding them.
-const READING_COLUMNS = ["id", "device_id", "channel", "at", "echo_us", "ticks", "overflows", "samples_us", "pulse_us", "high_us", "period_us", "air_temp_c"];
+const READING_COLUMNS = ["id", "at", ...QUEUED_READING_COLUMNS];
 // A burst's samples travel as their own binary array inside a bytea element.
 const READING_ARRAYS = READING_COLUMNS.map((c) => `${sendArray(`array_agg(${c === "samples_us" ? "array_send(r.samples_us)" : `r.${c}`})`)} AS ${c}`).join(", ");
 
