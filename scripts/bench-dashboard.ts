@@ -15,7 +15,7 @@ import os from "node:os";
 import path from "node:path";
 import bcrypt from "bcryptjs";
 import { quantileSorted } from "simple-statistics";
-import { adminUrl, dbUrl, withClient } from "./bench/pg";
+import { adminUrl, dbUrl, ensureBenchPostgres, withClient } from "./bench/pg";
 
 // autocannon ships no types; the little of it used here, typed.
 interface AutocannonInstance extends PromiseLike<{ requests: { average: number }; non2xx: number; errors: number }> {
@@ -261,6 +261,7 @@ function measure(base: string, cookie: string, route: string, connections: numbe
 }
 
 async function main() {
+  await ensureBenchPostgres();
   const reuse = process.env.BENCH_REUSE_DB;
   if (reuse && !/^halftrip_bench_dashboard_[0-9a-f]{8}$/.test(reuse)) throw new Error("BENCH_REUSE_DB names a database an earlier --keep run left");
   const dbName = reuse ?? `halftrip_bench_dashboard_${randomUUID().slice(0, 8)}`;

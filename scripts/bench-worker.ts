@@ -10,7 +10,7 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { execFileSync } from "node:child_process";
-import { adminUrl, dbUrl, withClient } from "./bench/pg";
+import { adminUrl, dbUrl, ensureBenchPostgres, withClient } from "./bench/pg";
 import { QUEUE_INSERTED, RETURNING_QUEUED_COLUMNS } from "../lib/db/queries/reading-queue";
 
 const readingsWanted = Number(process.env.BENCH_READINGS ?? 1_000_000);
@@ -123,6 +123,7 @@ function watchPeakRss(pid: number, peak: Peak): NodeJS.Timeout {
 }
 
 async function main() {
+  await ensureBenchPostgres();
   const perChannel = Math.ceil(readingsWanted / channels);
   log(`database ${dbName}: ${channels} channels × ${perChannel} readings`);
   await withClient(adminUrl, (c) => c.query(`CREATE DATABASE ${dbName}`));

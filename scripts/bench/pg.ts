@@ -1,7 +1,14 @@
 import pg from "pg";
 
 // Database helpers shared by the TypeScript benchmarks: each creates and drops a database of its own.
-export const adminUrl = process.env.PG_ADMIN_URL ?? "postgres://postgres@127.0.0.1:54329/postgres";
+export const adminUrl = process.env.PG_ADMIN_URL ?? `postgres://postgres@127.0.0.1:${process.env.PG_PORT ?? 54329}/postgres`;
+
+// The project's own cluster (installed and started as `npm test` does) unless PG_ADMIN_URL names another server.
+export async function ensureBenchPostgres(): Promise<void> {
+  if (process.env.PG_ADMIN_URL) return;
+  const { startPostgres } = await import("../lib/postgres.mjs");
+  startPostgres();
+}
 
 export function dbUrl(name: string): string {
   const url = new URL(adminUrl);
