@@ -37,6 +37,22 @@ export function channelKey(deviceId: string, index: number): string {
   return `${deviceId}:${index}`;
 }
 
+/**
+ * Looks channels up by device and index without building a key string per reading: a batch looks up
+ * every one of its readings, and hashing a fresh key each time showed in the worker's profile.
+ */
+export function channelFinder(channels: ReadonlyMap<string, ChannelConfig>): (deviceId: string, index: number) => ChannelConfig | null {
+  const byDevice = new Map<string, Map<number, ChannelConfig>>();
+  for (const [key, channel] of channels) {
+    const cut = key.lastIndexOf(":");
+    const deviceId = key.slice(0, cut);
+    let indexes = byDevice.get(deviceId);
+    if (!indexes) byDevice.set(deviceId, (indexes = new Map()));
+    indexes.set(Number(key.slice(cut + 1)), channel);
+  }
+  return (deviceId, index) => byDevice.get(deviceId)?.get(index) ?? null;
+}
+
 // ── Stage 1: convert ────────────────────────────────────────────────────────────────────────────
 
 export interface ConvertedBatch {
@@ -50,7 +66,8 @@ function plausibleTemp(t: number | null): t is number {
 }
 
 export function convertStage(input: BatchInput): ConvertedBatch {
-  const channelOf = input.readings.map((r) => input.channels.get(channelKey(r.deviceId, r.channel)) ?? null);
+  const findChannel = channelFinder(input.channels);
+  const channelOf = input.readings.map((r) => findChannel(r.deviceId, r.channel));
   const newTemperatureSamples: NewTemperatureSample[] = [];
   if (input.temperatureChannelSites.size > 0) {
     input.readings.forEach((r, i) => {
@@ -189,4 +206,39 @@ export function processBatch(input: BatchInput): ProcessedBatch {
     states: health.states,
     offlineCleared: health.offlineCleared,
   };
+}
+
+/**
+ * processBatch in turns: conversion, then derive and health a group of devices at a time (channels
+ * and devices are independent there), with `pause` awaited between turns. The worker computes one
+ * batch while the database writes the one before; a turn that held the event loop for the whole
+ * computation would leave that write's next statement (and its commit) waiting until it ended.
+ * The same measurements, states and flags as processBatch, grouped by device.
+ */
+export async function processBatchInSteps(input: BatchInput, pause: () => Promise<void>, devicesPerTurn = 50): Promise<ProcessedBatch> {
+  const converted = convertStage(input);
+  await pause();
+  const turnOfDevice = new Map<string, number>();
+  const turns: Measurement[][] = [];
+  for (const m of converted.converted) {
+    const deviceId = m.channel?.device.id ?? "";
+    let turn = turnOfDevice.get(deviceId);
+    if (turn === undefined) turnOfDevice.set(deviceId, (turn = Math.floor(turnOfDevice.size / devicesPerTurn)));
+    (turns[turn] ??= []).push(m);
+  }
+  const out: ProcessedBatch = { measurements: [], sessions: [], newTemperatureSamples: converted.newTemperatureSamples, flags: emptyFlagChanges(), states: new Map(), offlineCleared: [] };
+  for (const part of turns) {
+    const derived = deriveStage({ converted: part, newTemperatureSamples: converted.newTemperatureSamples }, input);
+    const health = healthStage(derived);
+    for (const m of derived.orphans) out.measurements.push(m);
+    for (const b of derived.byChannel) for (const m of b.measurements) out.measurements.push(m);
+    for (const s of derived.sessions) out.sessions.push(s);
+    out.flags.clears.push(...health.flags.clears);
+    out.flags.intervals.push(...health.flags.intervals);
+    out.flags.opens.push(...health.flags.opens);
+    for (const [id, state] of health.states) out.states.set(id, state);
+    for (const o of health.offlineCleared) out.offlineCleared.push(o);
+    await pause();
+  }
+  return out;
 }

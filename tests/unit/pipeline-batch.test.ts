@@ -1,5 +1,5 @@
 import { describe, it, expect } from "vitest";
-import { channelKey, processBatch, type BatchInput, type ProcessedBatch, type StoredChannelState } from "@/lib/pipeline/batch";
+import { channelKey, processBatch, processBatchInSteps, type BatchInput, type ProcessedBatch, type StoredChannelState } from "@/lib/pipeline/batch";
 import { parseChannelState } from "@/lib/pipeline/channel-state";
 import type { TankGeometry } from "@/lib/geometry/tank-volume";
 import type { ChannelConfig, ReadingRow } from "@/lib/pipeline/types";
@@ -118,4 +118,58 @@ describe("processBatch", () => {
     expect(out.measurements[0]).toMatchObject({ status: "invalid_config", channel: null });
     expect(out.states.size).toBe(0);
   });
+});
+
+describe("processBatchInSteps", () => {
+  // Invented fleet: three devices, each with a tank and a bay channel; device-b pings its two channels
+  // 20 ms apart (a crosstalk risk), device-c goes quiet for a while (offline). The turned computation
+  // must give exactly what processBatch gives, whatever the grouping.
+  const devices = ["device-a", "device-b", "device-c"];
+  const fleet = devices.flatMap((d) => [
+    channel({ id: `${d}-tank`, index: 0, device: { id: d }, asset: tank(GEOMETRY, 3) }),
+    channel({ id: `${d}-bay`, index: 1, device: { id: d }, asset: bay(2.5, 1.8) }),
+  ]);
+  const fleetChannels = new Map(fleet.map((c) => [channelKey(c.device.id, c.index), c]));
+  const readings: ReadingRow[] = [];
+  for (let k = 0; k < 60; k++) {
+    devices.forEach((d, n) => {
+      if (d === "device-c" && k >= 20 && k < 30) return;
+      const gapMs = d === "device-b" ? 20 : 80;
+      const at = (i: number) => new Date(T0 + k * 60_000 + n * 5_000 + i * gapMs);
+      readings.push(reading({ deviceId: d, channel: 0, at: at(0), echoUs: Math.round(echoFor(1 + 0.003 * k + (k === 33 ? 0.3 : 0), C20) * 100) / 100, airTempC: 20 }));
+      readings.push(reading({ deviceId: d, channel: 1, at: at(1), echoUs: Math.round(echoFor(k % 20 < 8 ? 1.2 : 2.5, C20) * 100) / 100, airTempC: 20 }));
+    });
+  }
+  readings.push(reading({ deviceId: "device-unknown", channel: 0, at: new Date(T0), echoUs: 5000 }));
+  readings.sort((a, b) => a.at.getTime() - b.at.getTime()).forEach((r, i) => (r.id = i + 1));
+  const batchInput: BatchInput = { readings, channels: fleetChannels, states: new Map(), temperatureSamples: new Map(), temperatureChannelSites: new Map() };
+
+  const byId = (b: ProcessedBatch) => [...b.measurements].sort((x, y) => x.reading.id - y.reading.id);
+  const flagKey = (f: { channelId: string; flag: string }) => `${f.channelId}:${f.flag}`;
+  const sortedFlags = (b: ProcessedBatch) => ({
+    clears: [...b.flags.clears].sort((x, y) => flagKey(x).localeCompare(flagKey(y))),
+    intervals: [...b.flags.intervals].sort((x, y) => flagKey(x).localeCompare(flagKey(y))),
+    opens: [...b.flags.opens].sort((x, y) => flagKey(x).localeCompare(flagKey(y))),
+  });
+
+  for (const devicesPerTurn of [1, 2, 50]) {
+    it(`gives processBatch's measurements, sessions, states and flags (${devicesPerTurn} device(s) a turn)`, async () => {
+      const whole = processBatch(batchInput);
+      let pauses = 0;
+      const turned = await processBatchInSteps(batchInput, async () => void pauses++, devicesPerTurn);
+      expect(byId(turned)).toEqual(byId(whole));
+      expect(new Map([...turned.states].sort())).toEqual(new Map([...whole.states].sort()));
+      expect(sortedFlags(turned)).toEqual(sortedFlags(whole));
+      expect([...turned.sessions].sort((x, y) => x.channelId.localeCompare(y.channelId) || x.start.getTime() - y.start.getTime())).toEqual(
+        [...whole.sessions].sort((x, y) => x.channelId.localeCompare(y.channelId) || x.start.getTime() - y.start.getTime()),
+      );
+      // Conversion, then one turn per group of devices (the unknown device's readings are a group of their own).
+      expect(pauses).toBe(1 + Math.ceil(4 / devicesPerTurn));
+      // The comparison is worth something only if the fleet raised what it was built to raise.
+      expect(new Set(whole.flags.opens.map((f) => f.flag))).toEqual(new Set(["crosstalk_risk"]));
+      expect(whole.flags.intervals.map(flagKey)).toContain("device-c-tank:offline");
+      expect(whole.sessions.length).toBeGreaterThan(3);
+      expect(whole.measurements.some((m) => m.status === "invalid_config")).toBe(true);
+    });
+  }
 });

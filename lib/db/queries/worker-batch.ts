@@ -10,7 +10,7 @@
 import type { Transaction } from "sequelize";
 import { getSequelize } from "../sequelize";
 import { QUEUED_READING_COLUMNS } from "./reading-queue";
-import { channelKey, processBatch, type ProcessedBatch } from "../../pipeline/batch";
+import { channelKey, processBatch, processBatchInSteps, type ProcessedBatch } from "../../pipeline/batch";
 import type { ChannelState } from "../../pipeline/channel-state";
 import type { ChannelConfig, ReadingRow } from "../../pipeline/types";
 import {
@@ -98,95 +98,152 @@ function mergeStates(...parts: Map<string, LockedChannelState>[]): Map<string, L
   return out;
 }
 
+/** A batch being written, and the promise of its commit. */
+interface InFlight {
+  prepared: Prepared;
+  commit: Promise<BatchResult>;
+}
+
+/** A claimed batch and what computing it needs from the database, its transaction holding the claim lock. */
+interface Claimed {
+  transaction: Transaction;
+  readings: ReadingRow[];
+  channelList: ChannelConfig[];
+  /** Ids of the channels the readings are for. */
+  ids: string[];
+  temperatureSamples: Awaited<ReturnType<typeof loadTemperatureSamples>>;
+  temperatureChannelSites: Map<string, string[]>;
+}
+
+/** Lets pending database replies be handled before computing goes on. */
+const yieldToIo = () => new Promise<void>((resolve) => setImmediate(resolve));
+
+const releaseClaimLock = (transaction: Transaction) => sqlRun(`SELECT pg_advisory_unlock($1)`, [CLAIM_LOCK_KEY], transaction);
+
 /**
- * Claims a batch and computes it. Channels that the batch in flight (`expected`) is writing are
- * computed from the states it will leave, and their rows are locked in the background; the batch
- * is `ready` once those locks are held and the stored versions match (or it has been recomputed).
+ * Opens a batch's transaction, takes the claim lock and claims the waiting readings with what
+ * computing them needs but the channel states. The lock is still held when this resolves (until
+ * prepareBatch queues for the states), unless the queue was empty: then it resolves to null.
  */
-async function prepareBatch(batchSize: number, expected: Expected | null, inFlight: Promise<unknown> | null): Promise<Prepared | null> {
+async function claimNextBatch(batchSize: number): Promise<Claimed | null> {
   const transaction = await getSequelize().transaction();
+  let locked = false;
   try {
     // A crash of the database can lose only whole batches, which roll back with their queue deletions.
     // JIT compilation would cost more than these short, wide statements take to run.
     await sqlRun(`SET LOCAL synchronous_commit = off; SET LOCAL jit = off`, [], transaction);
     await sqlRun(`SELECT pg_advisory_lock($1)`, [CLAIM_LOCK_KEY], transaction);
-    let unlocked = false;
-    try {
-      const readings = await claimBatch(batchSize, transaction);
-      if (readings.length === 0) {
-        unlocked = true;
-        await sqlRun(`SELECT pg_advisory_unlock($1)`, [CLAIM_LOCK_KEY], transaction);
-        await transaction.rollback();
-        return null;
-      }
-      const channelList = await loadChannelsOfDevices([...new Set(readings.map((r) => r.deviceId))], transaction);
-      const present = new Set(readings.map((r) => channelKey(r.deviceId, r.channel)));
-      const ids = channelList.filter((c) => present.has(channelKey(c.device.id, c.index))).map((c) => c.id);
-      const carried = ids.filter((id) => expected?.has(id));
-      const fresh = await lockChannelStates(ids.filter((id) => !expected?.has(id)), transaction);
-      let from = Infinity;
-      let to = -Infinity;
-      for (const r of readings) {
-        from = Math.min(from, r.at.getTime());
-        to = Math.max(to, r.at.getTime());
-      }
-      const channels = new Map(channelList.map((c) => [channelKey(c.device.id, c.index), c]));
-      const temperatureSamples = readings.length ? await loadTemperatureSamples([...new Set(channelList.map((c) => c.site.id))], new Date(from), new Date(to), transaction) : new Map();
-      const temperatureChannelSites = await loadTemperatureChannelSites(channelList.map((c) => c.id), transaction);
-      // Queued before the claim lock is released, so no later batch can take these rows first; the lock
-      // is granted when the batch in flight commits, and this connection waits for it meanwhile.
-      unlocked = true;
-      const carriedLocked = lockCarriedAndRelease(carried, transaction);
-      carriedLocked.catch(() => undefined);
-
-      const assumed = mergeStates(fresh, new Map(carried.map((id) => [id, expected!.get(id)!])));
-      const input = { readings, channels, temperatureSamples, temperatureChannelSites };
-      let batch = processBatch({ ...input, states: assumed });
-      let encoded = encodeBatch(batch);
-      let states = assumed;
-
-      const ready = (async () => {
-        await inFlight;
-        const versions = await carriedLocked;
-        // Rows the batch in flight created were invisible to the lock until it committed: they are locked
-        // (and read) now, as are all of them when anyone else changed one meanwhile.
-        const changed = versions.size < carried.length || carried.some((id) => versions.get(id) !== expected!.get(id)!.version);
-        if (changed) {
-          const locked = await lockChannelStates(carried, transaction);
-          if (carried.some((id) => locked.get(id)?.version !== expected!.get(id)!.version)) {
-            states = mergeStates(fresh, locked);
-            batch = processBatch({ ...input, states });
-            encoded = encodeBatch(batch);
-          }
-        }
-      })();
-      // Awaited by commitBatch; until then a failure must not count as unhandled.
-      ready.catch(() => undefined);
-      return {
-        transaction,
-        claimed: readings.length,
-        channels: new Map(channelList.map((c) => [c.id, c])),
-        get batch() {
-          return batch;
-        },
-        get encoded() {
-          return encoded;
-        },
-        ready,
-        written: () => {
-          const cleared = new Set(batch.offlineCleared.map((o) => o.channelId));
-          const out: Expected = new Map();
-          for (const [id, state] of batch.states) {
-            const before = states.get(id);
-            out.set(id, { state, offlineSince: cleared.has(id) ? null : (before?.offlineSince ?? null), version: (before?.version ?? 0) + 1 });
-          }
-          return out;
-        },
-      };
-    } finally {
-      if (!unlocked) await sqlRun(`SELECT pg_advisory_unlock($1)`, [CLAIM_LOCK_KEY], transaction).catch(() => undefined);
+    locked = true;
+    const readings = await claimBatch(batchSize, transaction);
+    if (readings.length === 0) {
+      await abandonClaim({ transaction });
+      return null;
     }
+    const channelList = await loadChannelsOfDevices([...new Set(readings.map((r) => r.deviceId))], transaction);
+    const present = new Map<string, Set<number>>();
+    for (const r of readings) {
+      const indexes = present.get(r.deviceId);
+      if (indexes) indexes.add(r.channel);
+      else present.set(r.deviceId, new Set([r.channel]));
+    }
+    const ids = channelList.filter((c) => present.get(c.device.id)?.has(c.index)).map((c) => c.id);
+    let from = Infinity;
+    let to = -Infinity;
+    for (const r of readings) {
+      from = Math.min(from, r.at.getTime());
+      to = Math.max(to, r.at.getTime());
+    }
+    const temperatureSamples = await loadTemperatureSamples([...new Set(channelList.map((c) => c.site.id))], new Date(from), new Date(to), transaction);
+    const temperatureChannelSites = await loadTemperatureChannelSites(channelList.map((c) => c.id), transaction);
+    return { transaction, readings, channelList, ids, temperatureSamples, temperatureChannelSites };
   } catch (err) {
+    if (locked) await releaseClaimLock(transaction).catch(() => undefined);
+    await transaction.rollback().catch(() => undefined);
+    throw err;
+  }
+}
+
+/** Gives a claimed batch back: its readings return to the queue and the claim lock is released. */
+async function abandonClaim(claimed: Pick<Claimed, "transaction">): Promise<void> {
+  await releaseClaimLock(claimed.transaction).catch(() => undefined);
+  await claimed.transaction.rollback().catch(() => undefined);
+}
+
+/**
+ * Computes a claimed batch. Channels that the batch in flight (`before`) is writing are computed
+ * from the states it will leave, and their rows are locked in the background; the batch is `ready`
+ * once those locks are held and the stored versions match (or it has been recomputed). `beforeCompute`
+ * runs once this batch has queued for its states (so the claim lock may pass on) and before the
+ * computing starts: the next claim goes to the database then, and runs there meanwhile.
+ */
+async function prepareBatch(claimed: Claimed, before: InFlight | null, beforeCompute: () => void): Promise<Prepared> {
+  const { transaction, readings, channelList, ids, temperatureSamples, temperatureChannelSites } = claimed;
+  const inFlight = before?.commit ?? null;
+  let unlocked = false;
+  try {
+    // The batch in flight must hold all its state rows before this one queues for them: rows the batch
+    // before it created become visible to its lock only now, and taking one of them first would leave
+    // the two batches waiting for each other. Its states are final from then on, too.
+    if (before) await before.prepared.ready.catch(() => undefined);
+    const expected = before ? before.prepared.written() : null;
+    const carried = ids.filter((id) => expected?.has(id));
+    const fresh = await lockChannelStates(ids.filter((id) => !expected?.has(id)), transaction);
+    const channels = new Map(channelList.map((c) => [channelKey(c.device.id, c.index), c]));
+    // Queued before the claim lock is released, so no later batch can take these rows first; the lock
+    // is granted when the batch in flight commits, and this connection waits for it meanwhile.
+    unlocked = true;
+    const carriedLocked = lockCarriedAndRelease(carried, transaction);
+    carriedLocked.catch(() => undefined);
+    beforeCompute();
+
+    const assumed = mergeStates(fresh, new Map(carried.map((id) => [id, expected!.get(id)!])));
+    const input = { readings, channels, temperatureSamples, temperatureChannelSites };
+    // In turns, so the write of the batch before goes on from statement to statement meanwhile.
+    let batch = await processBatchInSteps({ ...input, states: assumed }, yieldToIo);
+    await yieldToIo();
+    let encoded = encodeBatch(batch);
+    let states = assumed;
+
+    const ready = (async () => {
+      await inFlight;
+      const versions = await carriedLocked;
+      // Rows the batch in flight created were invisible to the lock until it committed: they are locked
+      // (and read) now, as are all of them when anyone else changed one meanwhile.
+      const changed = versions.size < carried.length || carried.some((id) => versions.get(id) !== expected!.get(id)!.version);
+      if (changed) {
+        const locked = await lockChannelStates(carried, transaction);
+        if (carried.some((id) => locked.get(id)?.version !== expected!.get(id)!.version)) {
+          states = mergeStates(fresh, locked);
+          batch = processBatch({ ...input, states });
+          encoded = encodeBatch(batch);
+        }
+      }
+    })();
+    // Awaited by commitBatch; until then a failure must not count as unhandled.
+    ready.catch(() => undefined);
+    return {
+      transaction,
+      claimed: readings.length,
+      channels: new Map(channelList.map((c) => [c.id, c])),
+      get batch() {
+        return batch;
+      },
+      get encoded() {
+        return encoded;
+      },
+      ready,
+      written: () => {
+        const cleared = new Set(batch.offlineCleared.map((o) => o.channelId));
+        const out: Expected = new Map();
+        for (const [id, state] of batch.states) {
+          const before = states.get(id);
+          out.set(id, { state, offlineSince: cleared.has(id) ? null : (before?.offlineSince ?? null), version: (before?.version ?? 0) + 1 });
+        }
+        return out;
+      },
+    };
+  } catch (err) {
+    if (!unlocked) await releaseClaimLock(transaction).catch(() => undefined);
     await transaction.rollback().catch(() => undefined);
     throw err;
   }
@@ -226,26 +283,38 @@ export async function drainQueue(batchSize: number, hooks: readonly BatchHook[] 
     result.measurements += r.measurements;
     afterBatch();
   };
-  let inFlight: { prepared: Prepared; commit: Promise<BatchResult> } | null = null;
+  let inFlight: InFlight | null = null;
+  let claiming: Promise<Claimed | null> | null = claimNextBatch(batchSize);
   let next: Prepared | null = null;
   try {
     for (;;) {
-      next = await prepareBatch(batchSize, inFlight ? inFlight.prepared.written() : null, inFlight?.commit ?? null);
-      if (inFlight) add(await inFlight.commit);
-      inFlight = null;
-      if (next === null) {
+      const claimed: Claimed | null = await claiming;
+      claiming = null;
+      if (claimed === null) {
+        if (inFlight) add(await inFlight.commit);
+        inFlight = null;
         result.drained = true;
         break;
       }
+      const more = Date.now() - started <= maxMs;
+      next = await prepareBatch(claimed, inFlight, () => {
+        if (!more) return;
+        claiming = claimNextBatch(batchSize);
+        // Awaited in the next round; a failure meanwhile must not count as unhandled.
+        claiming.catch(() => undefined);
+      });
+      if (inFlight) add(await inFlight.commit);
       inFlight = { prepared: next, commit: commitBatch(next, hooks) };
       next = null;
-      if (Date.now() - started > maxMs) break;
+      if (!more) break;
     }
     if (inFlight) add(await inFlight.commit);
   } catch (err) {
-    // A failed batch takes the one prepared after it down too: its states were computed from it.
+    // A failed batch takes the ones prepared and claimed after it down too: they were computed from it.
     if (next) await next.transaction.rollback().catch(() => undefined);
     if (inFlight) await inFlight.commit.catch(() => undefined);
+    const pending: Claimed | null = await Promise.resolve(claiming).catch(() => null);
+    if (pending) await abandonClaim(pending);
     throw err;
   }
   return result;
