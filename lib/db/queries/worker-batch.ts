@@ -19,6 +19,7 @@ import {
   loadTemperatureSamples,
   lockChannelStates,
   fetchReadings,
+  MICROS_TO_TIMESTAMPTZ,
   readingsAsArrays,
   sqlRows,
   sqlRun,
@@ -46,17 +47,23 @@ export interface BatchResult {
 // rows, so batches are claimed in time order and each channel's readings are processed in that order.
 const CLAIM_LOCK_KEY = 0x48545743;
 
-async function claimBatch(batchSize: number, transaction: Transaction): Promise<ReadingRow[]> {
+/**
+ * Claims the oldest waiting readings this transaction can lock, or the oldest after `after` (the last
+ * reading of the batch in flight): the rows of that batch are still in the queue, deleted but not yet
+ * committed, and skipping 40 000 locked rows one by one was a third of the claim.
+ */
+async function claimBatch(batchSize: number, transaction: Transaction, after: ReadingRow | null): Promise<ReadingRow[]> {
   // The rows are deleted by the row addresses the locking subquery returns (they cannot move while
   // locked): cheaper than looking each up again by primary key. fetchReadings puts them in time order.
+  const bound = after ? `WHERE (at, reading_id) > (${MICROS_TO_TIMESTAMPTZ("$2")}, $3::bigint)` : "";
   return fetchReadings(
     `WITH claimed AS (
        DELETE FROM reading_queue
-       WHERE ctid = ANY(ARRAY(SELECT ctid FROM reading_queue ORDER BY at, reading_id LIMIT $1 FOR UPDATE SKIP LOCKED))
+       WHERE ctid = ANY(ARRAY(SELECT ctid FROM reading_queue ${bound} ORDER BY at, reading_id LIMIT $1 FOR UPDATE SKIP LOCKED))
        RETURNING reading_id AS id, at, ${QUEUED_READING_COLUMNS.join(", ")}
      )
      ${readingsAsArrays("claimed r")}`,
-    [batchSize],
+    after ? [batchSize, after.atMicros ?? after.at.getTime() * 1000, after.id] : [batchSize],
     transaction,
   );
 }
@@ -121,11 +128,12 @@ const yieldToIo = () => new Promise<void>((resolve) => setImmediate(resolve));
 const releaseClaimLock = (transaction: Transaction) => sqlRun(`SELECT pg_advisory_unlock($1)`, [CLAIM_LOCK_KEY], transaction);
 
 /**
- * Opens a batch's transaction, takes the claim lock and claims the waiting readings with what
+ * Opens a batch's transaction, takes the claim lock and claims waiting readings (those after `after`
+ * first, if given) with what
  * computing them needs but the channel states. The lock is still held when this resolves (until
  * prepareBatch queues for the states), unless the queue was empty: then it resolves to null.
  */
-async function claimNextBatch(batchSize: number): Promise<Claimed | null> {
+async function claimNextBatch(batchSize: number, after: ReadingRow | null = null): Promise<Claimed | null> {
   const transaction = await getSequelize().transaction();
   let locked = false;
   try {
@@ -134,7 +142,9 @@ async function claimNextBatch(batchSize: number): Promise<Claimed | null> {
     await sqlRun(`SET LOCAL synchronous_commit = off; SET LOCAL jit = off`, [], transaction);
     await sqlRun(`SELECT pg_advisory_lock($1)`, [CLAIM_LOCK_KEY], transaction);
     locked = true;
-    const readings = await claimBatch(batchSize, transaction);
+    // Readings that came in late behind the batch in flight are claimed once those after it are done.
+    let readings = await claimBatch(batchSize, transaction, after);
+    if (readings.length === 0 && after) readings = await claimBatch(batchSize, transaction, null);
     if (readings.length === 0) {
       await abandonClaim({ transaction });
       return null;
@@ -299,7 +309,7 @@ export async function drainQueue(batchSize: number, hooks: readonly BatchHook[] 
       const more = Date.now() - started <= maxMs;
       next = await prepareBatch(claimed, inFlight, () => {
         if (!more) return;
-        claiming = claimNextBatch(batchSize);
+        claiming = claimNextBatch(batchSize, claimed.readings[claimed.readings.length - 1]);
         // Awaited in the next round; a failure meanwhile must not count as unhandled.
         claiming.catch(() => undefined);
       });
