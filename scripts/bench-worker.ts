@@ -147,9 +147,10 @@ async function main() {
     // The worker as production runs it: bundled by scripts/build-worker.mjs, plain Node.
     execFileSync(process.execPath, ["scripts/build-worker.mjs"], { cwd: root, stdio: "inherit" });
     const workerBundle = path.join(root, ".worker", "worker.cjs");
+    const { workerRunEnv } = await import("./lib/worker-env.mjs");
     const peak: Peak = { rssKb: 0 };
     const started = process.hrtime.bigint();
-    const child = spawn(process.execPath, [workerBundle, "--once"], { cwd: root, env, stdio: ["ignore", "pipe", "inherit"] });
+    const child = spawn(process.execPath, [workerBundle, "--once"], { cwd: root, env: workerRunEnv(env), stdio: ["ignore", "pipe", "inherit"] });
     let output = "";
     child.stdout.on("data", (chunk: Buffer) => {
       output += chunk.toString();

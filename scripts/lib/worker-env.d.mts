@@ -1,0 +1,2 @@
+// Types for the TypeScript worker benchmark.
+export function workerRunEnv(env: NodeJS.ProcessEnv): NodeJS.ProcessEnv;
