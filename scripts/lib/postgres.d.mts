@@ -1,3 +1,2 @@
 // Types for the TypeScript benchmarks that start the project's own cluster.
-export const PG_PORT: number;
 export function startPostgres(): string;

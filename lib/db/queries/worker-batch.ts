@@ -50,7 +50,7 @@ const CLAIM_LOCK_KEY = 0x48545743;
 /**
  * Claims the oldest waiting readings this transaction can lock, or the oldest after `after` (the last
  * reading of the batch in flight): the rows of that batch are still in the queue, deleted but not yet
- * committed, and skipping 40 000 locked rows one by one was a third of the claim.
+ * committed, and skipping 40 000 locked rows one by one was nearly half of the claim.
  */
 async function claimBatch(batchSize: number, transaction: Transaction, after: ReadingRow | null): Promise<ReadingRow[]> {
   // The rows are deleted by the row addresses the locking subquery returns (they cannot move while
@@ -129,9 +129,9 @@ const releaseClaimLock = (transaction: Transaction) => sqlRun(`SELECT pg_advisor
 
 /**
  * Opens a batch's transaction, takes the claim lock and claims waiting readings (those after `after`
- * first, if given) with what
- * computing them needs but the channel states. The lock is still held when this resolves (until
- * prepareBatch queues for the states), unless the queue was empty: then it resolves to null.
+ * first, if given) with what computing them needs but the channel states. The lock is still held when
+ * this resolves (until prepareBatch queues for the states), unless the queue was empty: then it
+ * resolves to null.
  */
 async function claimNextBatch(batchSize: number, after: ReadingRow | null = null): Promise<Claimed | null> {
   const transaction = await getSequelize().transaction();
@@ -246,8 +246,8 @@ async function prepareBatch(claimed: Claimed, before: InFlight | null, beforeCom
         const cleared = new Set(batch.offlineCleared.map((o) => o.channelId));
         const out: Expected = new Map();
         for (const [id, state] of batch.states) {
-          const before = states.get(id);
-          out.set(id, { state, offlineSince: cleared.has(id) ? null : (before?.offlineSince ?? null), version: (before?.version ?? 0) + 1 });
+          const previous = states.get(id);
+          out.set(id, { state, offlineSince: cleared.has(id) ? null : (previous?.offlineSince ?? null), version: (previous?.version ?? 0) + 1 });
         }
         return out;
       },
