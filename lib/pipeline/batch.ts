@@ -193,31 +193,14 @@ export interface ProcessedBatch {
   offlineCleared: HealthBatch["offlineCleared"];
 }
 
-/** The three stages in order; the measurements come channel by channel, each channel's in time order. */
-export function processBatch(input: BatchInput): ProcessedBatch {
-  const converted = convertStage(input);
-  const derived = deriveStage(converted, input);
-  const health = healthStage(derived);
-  return {
-    measurements: derived.orphans.concat(...derived.byChannel.map((b) => b.measurements)),
-    sessions: derived.sessions,
-    newTemperatureSamples: converted.newTemperatureSamples,
-    flags: health.flags,
-    states: health.states,
-    offlineCleared: health.offlineCleared,
-  };
-}
-
 /**
- * processBatch in turns: conversion, then derive and health a group of devices at a time (channels
- * and devices are independent there), with `pause` awaited between turns. The worker computes one
- * batch while the database writes the one before; a turn that held the event loop for the whole
- * computation would leave that write's next statement (and its commit) waiting until it ended.
- * The same measurements, states and flags as processBatch, grouped by device.
+ * The three stages in order, in turns: conversion, then derive and health a group of devices at a
+ * time (channels and devices are independent there). It yields after each turn; the result is the
+ * same whatever the grouping, and the measurements come channel by channel, each in time order.
  */
-export async function processBatchInSteps(input: BatchInput, pause: () => Promise<void>, devicesPerTurn = 50): Promise<ProcessedBatch> {
+function* batchInTurns(input: BatchInput, devicesPerTurn: number): Generator<void, ProcessedBatch> {
   const converted = convertStage(input);
-  await pause();
+  yield;
   const turnOfDevice = new Map<string, number>();
   const turns: Measurement[][] = [];
   for (const m of converted.converted) {
@@ -238,7 +221,30 @@ export async function processBatchInSteps(input: BatchInput, pause: () => Promis
     out.flags.opens.push(...health.flags.opens);
     for (const [id, state] of health.states) out.states.set(id, state);
     for (const o of health.offlineCleared) out.offlineCleared.push(o);
-    await pause();
+    yield;
   }
   return out;
+}
+
+/** The three stages in order, in one go. */
+export function processBatch(input: BatchInput): ProcessedBatch {
+  const turns = batchInTurns(input, Infinity);
+  for (;;) {
+    const step = turns.next();
+    if (step.done) return step.value;
+  }
+}
+
+/**
+ * processBatch with `pause` awaited between turns of `devicesPerTurn` devices. The worker computes one
+ * batch while the database writes the one before; computing it in one go would hold the event loop
+ * and leave that write's next statement (and its commit) waiting until it ended.
+ */
+export async function processBatchInSteps(input: BatchInput, pause: () => Promise<void>, devicesPerTurn = 50): Promise<ProcessedBatch> {
+  const turns = batchInTurns(input, devicesPerTurn);
+  for (;;) {
+    const step = turns.next();
+    if (step.done) return step.value;
+    await pause();
+  }
 }
