@@ -6,7 +6,7 @@ import fs from "node:fs";
 import path from "node:path";
 import { dropDatabase, ensureDatabase, PG_PORT, startPostgres, stopPostgres, psql } from "./lib/postgres.mjs";
 import { ensureChromium, log } from "./lib/system.mjs";
-import { run, runOrDie, startService, stopServices, waitForUrl } from "./lib/processes.mjs";
+import { freePort, run, runOrDie, startService, stopServices, waitForUrl } from "./lib/processes.mjs";
 
 const root = path.resolve(import.meta.dirname, "..");
 process.chdir(root);
@@ -164,9 +164,9 @@ async function test() {
   const pgAlready = postgresWasRunning();
   startPostgres();
   const dbName = `halftrip_test_${randomUUID().slice(0, 8)}`;
-  const port = Number(process.env.TEST_PORT ?? 3100);
+  const port = Number(process.env.TEST_PORT ?? (await freePort()));
   const env = {
-    ...baseEnv({ databaseUrl: ensureDatabase(dbName), port, smtpPort: 2526, sinkHttpPort: 2581 }),
+    ...baseEnv({ databaseUrl: ensureDatabase(dbName), port, smtpPort: await freePort(), sinkHttpPort: await freePort() }),
     TEST_BASE_URL: `http://127.0.0.1:${port}`,
     PG_ADMIN_URL: `postgres://postgres@127.0.0.1:${PG_PORT}/postgres`,
     HALFTRIP_TEST: "1",

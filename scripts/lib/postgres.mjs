@@ -5,10 +5,46 @@ import fs from "node:fs";
 import path from "node:path";
 import { ensureDebianPackages, log } from "./system.mjs";
 
-export const PG_PORT = Number(process.env.PG_PORT ?? 54329);
 const root = path.resolve(import.meta.dirname, "../..");
 const dataDir = path.join(root, ".data", "pg");
 const socketDir = path.join(root, ".data", "pg-socket");
+const portFile = path.join(root, ".data", "pg-port");
+
+// Each clone's cluster keeps the port it was given; 54329 when free, else any free port, so a second
+// clone's tests run beside another clone's `npm start`. The port is written to .data/pg-port.
+function clusterPort() {
+  if (process.env.PG_PORT) return Number(process.env.PG_PORT);
+  const running = runningClusterPort();
+  if (running) return running;
+  const stored = Number(fs.existsSync(portFile) ? fs.readFileSync(portFile, "utf8").trim() : NaN);
+  const port = firstFreePort(Number.isInteger(stored) && stored > 0 ? [stored, 54329] : [54329]);
+  fs.mkdirSync(path.dirname(portFile), { recursive: true });
+  fs.writeFileSync(portFile, String(port));
+  return port;
+}
+
+function runningClusterPort() {
+  try {
+    const lines = fs.readFileSync(path.join(dataDir, "postmaster.pid"), "utf8").split("\n");
+    const pid = Number(lines[0]);
+    process.kill(pid, 0);
+    return Number(lines[3]) || null;
+  } catch {
+    return null;
+  }
+}
+
+function firstFreePort(candidates) {
+  const script = `const net=require("net");const c=${JSON.stringify(candidates)};
+const tryPort=(i)=>{const s=net.createServer();s.once("error",()=>tryPort(i+1));
+s.listen(i<c.length?c[i]:0,"127.0.0.1",()=>{process.stdout.write(String(s.address().port));s.close();});};tryPort(0);`;
+  const r = spawnSync(process.execPath, ["-e", script], { encoding: "utf8" });
+  const port = Number(r.stdout);
+  if (!port) throw new Error(`could not find a free port for PostgreSQL: ${r.stderr}`);
+  return port;
+}
+
+export const PG_PORT = clusterPort();
 
 function findBinDir() {
   const base = "/usr/lib/postgresql";

@@ -1,5 +1,6 @@
 // Child processes of the stack: started with their output prefixed, all stopped together on exit.
 import { spawn, spawnSync } from "node:child_process";
+import net from "node:net";
 import { log } from "./system.mjs";
 
 const children = new Set();
@@ -66,4 +67,16 @@ export async function waitForUrl(url, timeoutMs = 60000) {
     await new Promise((r) => setTimeout(r, 300));
   }
   throw new Error(`${url} did not answer within ${timeoutMs / 1000} s`);
+}
+
+// A port nothing listens on now, so a test stack runs beside another copy of the product.
+export function freePort() {
+  return new Promise((resolve, reject) => {
+    const server = net.createServer();
+    server.once("error", reject);
+    server.listen(0, "127.0.0.1", () => {
+      const { port } = server.address();
+      server.close(() => resolve(port));
+    });
+  });
 }
