@@ -1,6 +1,6 @@
 import { PRIORITY_GLYPHS } from "@/lib/alarms/engine";
 import type { AlarmPriority, AlarmState } from "@/lib/alarms/state-machine";
-import type { AlarmJson } from "@/lib/db/queries/alarms";
+import type { AlarmJson } from "@/lib/services/alarms";
 
 // Priority and state told in words and a glyph; colour only while the alarm is not normal.
 const PRIORITY_TEXT: Record<AlarmPriority, string> = { critical: "text-critical", high: "text-high", medium: "text-medium", low: "text-low" };

@@ -8,7 +8,7 @@ import { can, type Role } from "@/lib/auth/permissions";
 import { fetchJson, swrFetcher } from "@/lib/fetcher";
 import { needsAcknowledgement } from "@/lib/alarms/engine";
 import type { AlarmPriority, AlarmState } from "@/lib/alarms/state-machine";
-import type { AlarmJson } from "@/lib/db/queries/alarms";
+import type { AlarmJson } from "@/lib/services/alarms";
 import { Loading, LoadError } from "./data-state";
 import { STACKED_TABLE } from "./site-provisioning-kit";
 import { AlarmPriorityBadge, AlarmStateLabel, STATE_WORDS, alarmFigure, alarmWhere } from "./alarm-badges";

@@ -6,8 +6,8 @@ import { format } from "date-fns";
 import { swrFetcher } from "@/lib/fetcher";
 import { isUuid } from "@/lib/validations/common";
 import type { BenchmarkedMetric, BenchmarkVerdict } from "@/lib/alarms/alarm-health";
-import type { AlarmHealthJson } from "@/lib/db/queries/alarms-health";
-import type { SiteJson } from "@/lib/db/queries/sites";
+import type { AlarmHealthJson } from "@/lib/read-models/alarm-health";
+import type { SiteJson } from "@/lib/services/sites";
 import { Loading, LoadError } from "./data-state";
 import { STACKED_TABLE } from "./site-provisioning-kit";
 

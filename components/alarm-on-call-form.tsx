@@ -3,7 +3,7 @@
 import useSWR from "swr";
 import { useState } from "react";
 import { fetchJson, swrFetcher } from "@/lib/fetcher";
-import type { OnCallJson } from "@/lib/db/queries/on-call";
+import type { OnCallJson } from "@/lib/services/on-call";
 import { Loading, LoadError } from "./data-state";
 import { errorsFromApi, FormAlert, type FieldErrors } from "./site-provisioning-kit";
 

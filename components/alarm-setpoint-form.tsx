@@ -6,7 +6,7 @@ import { fetchJson, swrFetcher } from "@/lib/fetcher";
 import { fieldErrors } from "@/lib/http/errors";
 import { SETPOINT_KEYS, type SetpointKey } from "@/lib/alarms/setpoints";
 import { ALARM_PRIORITIES } from "@/lib/alarms/state-machine";
-import type { SetpointsJson } from "@/lib/db/queries/alarms-setpoints";
+import type { SetpointsJson } from "@/lib/services/alarm-setpoints";
 import { putSetpointsSchema } from "@/lib/validations/setpoint";
 import { Loading, LoadError } from "./data-state";
 import { errorReader, errorsFromApi, FormAlert, NumberField, SelectField, numberOrNull, textOf, type FieldErrors } from "./site-provisioning-kit";

@@ -12,8 +12,8 @@ import { ALARM_KINDS, alarmKindLabel, needsAcknowledgement, type AlarmKind } fro
 import { ALARM_PRIORITIES, ALARM_STATES, type AlarmPriority, type AlarmState } from "@/lib/alarms/state-machine";
 import { ALARM_SORTS, type AlarmSort } from "@/lib/validations/alarm";
 import { isUuid } from "@/lib/validations/common";
-import type { AlarmJson } from "@/lib/db/queries/alarms";
-import type { SiteJson } from "@/lib/db/queries/sites";
+import type { AlarmJson } from "@/lib/services/alarms";
+import type { SiteJson } from "@/lib/services/sites";
 import { Loading, LoadError } from "./data-state";
 import { STACKED_TABLE } from "./site-provisioning-kit";
 import { AlarmPriorityBadge, AlarmStateLabel, STATE_WORDS, alarmFigure, alarmWhere } from "./alarm-badges";

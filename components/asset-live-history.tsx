@@ -1,4 +1,4 @@
-import type { AssetOverviewJson } from "@/lib/db/queries/overview-asset";
+import type { AssetOverviewJson } from "@/lib/read-models/overview-asset";
 import { isAlarmKind, isLevelAlarmKind } from "@/lib/alarms/engine";
 import { formatDuration, formatMetres } from "./fleet-figures";
 import { ALARM_STATE_LABELS, FlagTag, PriorityMark } from "./fleet-status";

@@ -3,7 +3,7 @@
 import Link from "next/link";
 import { useSearchParams } from "next/navigation";
 import useSWR from "swr";
-import type { AssetOverviewJson } from "@/lib/db/queries/overview-asset";
+import type { AssetOverviewJson } from "@/lib/read-models/overview-asset";
 import { fetchJson, swrFetcher } from "@/lib/fetcher";
 import { buildTrend, forecastLine, sourceForPeriod, type ChannelCalibration, type SeriesPoint } from "./asset-live-series";
 import { AlarmHistory, CalibrationList, DipList, FlagHistory } from "./asset-live-history";

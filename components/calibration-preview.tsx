@@ -1,6 +1,6 @@
 "use client";
 
-import type { CalibrationPreviewJson } from "@/lib/db/queries/calibration";
+import type { CalibrationPreviewJson } from "@/lib/services/calibration";
 import { CalibrationTrend } from "./calibration-trend";
 import { formatSignedMm, formatWhen } from "./dip-table";
 import { STACKED_TABLE } from "./site-provisioning-kit";

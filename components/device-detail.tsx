@@ -3,9 +3,9 @@
 import useSWR from "swr";
 import { format } from "date-fns";
 import { swrFetcher } from "@/lib/fetcher";
-import type { AssetJson } from "@/lib/db/queries/assets";
-import type { describeDeviceTiming, DeviceJson } from "@/lib/db/queries/devices";
-import type { SiteJson } from "@/lib/db/queries/sites";
+import type { AssetJson } from "@/lib/services/assets";
+import type { describeDeviceTiming, DeviceJson } from "@/lib/services/devices";
+import type { SiteJson } from "@/lib/services/sites";
 import { Loading, LoadError } from "./data-state";
 import { DeviceKeyActions } from "./device-key-actions";
 import { isOffline, PROFILE_LABELS } from "./device-table";

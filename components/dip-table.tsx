@@ -1,6 +1,6 @@
 "use client";
 
-import type { DipJson } from "@/lib/db/queries/dips";
+import type { DipJson } from "@/lib/services/dips";
 import { formatMetres } from "./fleet-figures";
 import { STACKED_TABLE } from "./site-provisioning-kit";
 

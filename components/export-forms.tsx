@@ -3,8 +3,8 @@
 import { useMemo, useState } from "react";
 import useSWR from "swr";
 import { swrFetcher } from "@/lib/fetcher";
-import type { AssetJson } from "@/lib/db/queries/assets";
-import type { SiteJson } from "@/lib/db/queries/sites";
+import type { AssetJson } from "@/lib/services/assets";
+import type { SiteJson } from "@/lib/services/sites";
 import { MAX_EXPORT_ASSETS, MAX_EXPORT_DAYS, rangeIssues } from "@/lib/validations/export";
 import { Loading, LoadError } from "./data-state";
 import { HORIZON_CHOICES } from "./refill-plan-table";

@@ -2,7 +2,7 @@
 
 import Link from "next/link";
 import { useState } from "react";
-import type { AlarmJson } from "@/lib/db/queries/alarms";
+import type { AlarmJson } from "@/lib/services/alarms";
 import { fetchJson } from "@/lib/fetcher";
 import { formatMetres } from "./fleet-figures";
 import { ALARM_STATE_LABELS, PriorityMark, sinceText } from "./fleet-status";

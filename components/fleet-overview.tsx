@@ -2,7 +2,7 @@
 
 import Link from "next/link";
 import useSWR from "swr";
-import type { FleetOverviewJson } from "@/lib/db/queries/overview";
+import type { FleetOverviewJson } from "@/lib/read-models/overview";
 import { swrFetcher } from "@/lib/fetcher";
 import { Loading, LoadError } from "./data-state";
 import { formatDaysToReorder, formatLitres, formatMetres, formatPercent } from "./fleet-figures";

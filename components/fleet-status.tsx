@@ -1,5 +1,5 @@
 import { ALARM_CAUTION, PRIORITY_GLYPHS } from "@/lib/alarms/engine";
-import type { PriorityCounts } from "@/lib/db/queries/overview-alarms";
+import type { PriorityCounts } from "@/lib/read-models/overview-alarms";
 import { ageWhenOverdue, formatAge } from "./fleet-figures";
 
 // Words, glyphs and marks every live screen uses for states: a priority is a glyph and a word (its

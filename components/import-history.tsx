@@ -3,7 +3,7 @@
 import { useState } from "react";
 import useSWR from "swr";
 import { swrFetcher } from "@/lib/fetcher";
-import type { UploadJson } from "@/lib/db/queries/imports";
+import type { UploadJson } from "@/lib/services/imports";
 import { IMPORT_KIND_LABELS } from "@/lib/validations/import";
 import { Loading, LoadError } from "./data-state";
 import { formatWhen } from "./dip-table";

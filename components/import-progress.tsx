@@ -3,7 +3,7 @@
 import useSWR from "swr";
 import { swrFetcher } from "@/lib/fetcher";
 import { formatBytes } from "@/lib/csv/parse";
-import type { UploadJson } from "@/lib/db/queries/imports";
+import type { UploadJson } from "@/lib/services/imports";
 import { IMPORT_KIND_LABELS } from "@/lib/validations/import";
 import { Loading, LoadError } from "./data-state";
 import { STACKED_TABLE } from "./site-provisioning-kit";

@@ -4,7 +4,7 @@ import Link from "next/link";
 import useSWR from "swr";
 import { usePathname, useRouter, useSearchParams } from "next/navigation";
 import { swrFetcher } from "@/lib/fetcher";
-import type { RefillPlanJson } from "@/lib/db/queries/refill-plan";
+import type { RefillPlanJson } from "@/lib/read-models/refill-plan";
 import { MAX_HORIZON_DAYS } from "@/lib/validations/export";
 import { Loading, LoadError } from "./data-state";
 import { formatAge, formatDaysToReorder, formatLitres, formatPercent } from "./fleet-figures";

@@ -5,7 +5,7 @@ import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { fetchJson, swrFetcher } from "@/lib/fetcher";
 import { fieldErrors } from "@/lib/http/errors";
-import type { SiteJson } from "@/lib/db/queries/sites";
+import type { SiteJson } from "@/lib/services/sites";
 import { createSiteSchema, updateSiteSchema } from "@/lib/validations/site";
 import { Loading, LoadError } from "./data-state";
 import { errorReader, isUnder, errorsFromApi, fieldId, FormAlert, FormButtons, InputField, NumberField, numberOrNull, textOf, type FieldErrors } from "./site-provisioning-kit";

@@ -1,6 +1,6 @@
 import Link from "next/link";
-import type { AlarmJson } from "@/lib/db/queries/alarms";
-import type { SiteAssetJson } from "@/lib/db/queries/overview-site";
+import type { AlarmJson } from "@/lib/services/alarms";
+import type { SiteAssetJson } from "@/lib/read-models/overview-site";
 import { formatDaysToReorder, formatLitres, formatMetres, formatPercent } from "./fleet-figures";
 import { FlagTag, OverdueAge, PriorityMark, type Priority } from "./fleet-status";
 import { Sparkline } from "./site-live-sparkline";

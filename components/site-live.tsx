@@ -2,7 +2,7 @@
 
 import Link from "next/link";
 import useSWR from "swr";
-import type { SiteOverviewJson } from "@/lib/db/queries/overview-site";
+import type { SiteOverviewJson } from "@/lib/read-models/overview-site";
 import { swrFetcher } from "@/lib/fetcher";
 import { BayPlan } from "./bay-plan";
 import { Loading, LoadError } from "./data-state";

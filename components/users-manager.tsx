@@ -4,7 +4,7 @@ import useSWR from "swr";
 import { useState } from "react";
 import { ROLES, type Role } from "@/lib/auth/permissions";
 import { ApiError, fetchJson, swrFetcher } from "@/lib/fetcher";
-import type { UserRow } from "@/lib/db/queries/users";
+import type { UserRow } from "@/lib/services/users";
 import { inviteUserSchema } from "@/lib/validations/user";
 import { Loading, LoadError } from "./data-state";
 

@@ -1,7 +1,7 @@
 import { initModels, Organisation, User } from "../lib/db/models";
 import { getSequelize } from "../lib/db/sequelize";
 import { hashPassword } from "../lib/auth/passwords";
-import { writeAudit } from "../lib/db/audit";
+import { writeAudit } from "../lib/services/audit";
 import { DEMO_ACCOUNTS, DEMO_ORGANISATION, DEMO_PASSWORD } from "./seeds/demo-accounts";
 import { seedDemoFleet } from "./seeds/demo-fleet";
 import { seedDemoAlarms } from "./seeds/demo-alarms";

@@ -11,7 +11,7 @@ import os from "node:os";
 import path from "node:path";
 import { execFileSync } from "node:child_process";
 import { adminUrl, dbUrl, ensureBenchPostgres, withClient } from "./bench/pg";
-import { QUEUE_INSERTED, RETURNING_QUEUED_COLUMNS } from "../lib/db/queries/reading-queue";
+import { QUEUE_INSERTED, RETURNING_QUEUED_COLUMNS } from "../lib/worker/reading-queue";
 
 const readingsWanted = Number(process.env.BENCH_READINGS ?? 1_000_000);
 const channels = Number(process.env.BENCH_CHANNELS ?? 2000);

@@ -5,10 +5,10 @@ import v8 from "node:v8";
 import vm from "node:vm";
 import cron from "node-cron";
 import { getSequelize } from "../lib/db/sequelize";
-import type { BatchHook } from "../lib/db/queries/worker-batch";
-import { runCycle, type CycleHook, type CycleResult } from "../lib/db/queries/worker-cycle";
-import { ensurePartitions } from "../lib/db/queries/worker-maintenance";
-import { alarmBatchHook, alarmCycleHook, notifyCycleHook } from "../lib/db/queries/alarms-worker";
+import type { BatchHook } from "../lib/worker/batch";
+import { runCycle, type CycleHook, type CycleResult } from "../lib/worker/cycle";
+import { ensurePartitions } from "../lib/worker/maintenance";
+import { alarmBatchHook, alarmCycleHook, notifyCycleHook } from "../lib/worker/hooks";
 
 // Alarm evaluation and notification plug in here: batch hooks run inside each batch's transaction,
 // cycle hooks once per cycle after the queue is drained.

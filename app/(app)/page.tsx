@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import { requirePageUser } from "@/lib/auth/session";
 import { PageHeader } from "@/components/page-header";
 import { FleetOverview } from "@/components/fleet-overview";
-import { fetchOrganisationName } from "@/lib/db/queries/organisations";
+import { fetchOrganisationName } from "@/lib/services/organisations";
 
 export const metadata: Metadata = { title: "Overview" };
 

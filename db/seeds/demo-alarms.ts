@@ -1,9 +1,9 @@
-import type { Actor } from "../../lib/db/audit";
+import type { Actor } from "../../lib/services/audit";
 import { tankHeight, type TankGeometry } from "../../lib/geometry/tank-volume";
 import { initModels, User } from "../../lib/db/models";
-import { rows } from "../../lib/db/queries/alarms-store";
-import { putOnCall } from "../../lib/db/queries/on-call";
-import { putSetpoints } from "../../lib/db/queries/alarms-setpoints";
+import { rows } from "../../lib/services/alarm-store";
+import { putOnCall } from "../../lib/services/on-call";
+import { putSetpoints } from "../../lib/services/alarm-setpoints";
 import { putSetpointsSchema } from "../../lib/validations/setpoint";
 import { DEMO_TANKS } from "./demo-plan";
 

@@ -1,9 +1,9 @@
 import { Op } from "sequelize";
-import type { Actor } from "../../lib/db/audit";
+import type { Actor } from "../../lib/services/audit";
 import { Channel, Device, DeviceKey, initModels, Organisation, Site } from "../../lib/db/models";
-import { createAsset } from "../../lib/db/queries/assets";
-import { createDevice, rotateDeviceKey } from "../../lib/db/queries/devices";
-import { createSite, updateSite } from "../../lib/db/queries/sites";
+import { createAsset } from "../../lib/services/assets";
+import { createDevice, rotateDeviceKey } from "../../lib/services/devices";
+import { createSite, updateSite } from "../../lib/services/sites";
 import { deviceKeyMatches, prefixOfDeviceKey } from "../../lib/auth/device-keys";
 import { createAssetSchema } from "../../lib/validations/asset";
 import { createDeviceSchema } from "../../lib/validations/device";

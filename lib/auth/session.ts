@@ -1,7 +1,7 @@
 import { getServerSession } from "next-auth";
 import { redirect } from "next/navigation";
 import { initModels, User } from "../db/models";
-import type { Actor } from "../db/audit";
+import type { Actor } from "../services/audit";
 import { forbidden, unauthorized } from "../http/errors";
 import { authOptions } from "./auth-options";
 import { can, type Permission, type Role } from "./permissions";

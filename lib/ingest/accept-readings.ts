@@ -1,6 +1,6 @@
 import { deviceKeyMatches, prefixOfDeviceKey } from "../auth/device-keys";
 import { describeZodError, HttpError } from "../http/errors";
-import { findDeviceByKeyPrefix, storeReadings, type KeyedDevice } from "../db/queries/ingest";
+import { findDeviceByKeyPrefix, storeReadings, type KeyedDevice } from "../services/ingest";
 import { batchSchema, checkReadingForDevice, MAX_BODY_BYTES, readingSchema, type ReadingInput } from "../validations/reading";
 import { readBodyWithLimit } from "./read-body";
 

@@ -2,7 +2,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { anonymous, signedIn, signInAgent, type Agent } from "../support/session";
 import { createTankWithDevice } from "../support/fleet";
 import { createOtherOrganisation, sql } from "../support/db";
-import { EXPORT_BATCH_ROWS } from "@/lib/db/queries/exports";
+import { EXPORT_BATCH_ROWS } from "@/lib/services/exports";
 import { runWorkerOnce, sendEchoReadings } from "./calibration-readings";
 
 // Issue 6 item 8 and "Bad input": streamed CSV exports and their range rules.

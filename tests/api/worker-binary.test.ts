@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { sql } from "../support/db";
-import { binaryArray, decodeBinaryArray } from "@/lib/db/binary-arrays";
+import { binaryArray, decodeBinaryArray } from "@/lib/worker/binary-arrays";
 
 // The worker sends its measurement columns as binary arrays and reads readings back the same way;
 // PostgreSQL's own array_send is the reference for the format both ways.

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { signedIn, type Agent } from "../support/session";
 import { createTankWithDevice } from "../support/fleet";
 import { sql } from "../support/db";
-import { drainQueue, type BatchHook } from "@/lib/db/queries/worker-batch";
+import { drainQueue, type BatchHook } from "@/lib/worker/batch";
 import { getSequelize } from "@/lib/db/sequelize";
 import { echoFor, practicalSpeed, sendReadings } from "./worker-support";
 

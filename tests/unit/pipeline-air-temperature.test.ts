@@ -1,6 +1,6 @@
 import { describe, it, expect } from "vitest";
-import { buildTemperatureSeries, interpolateTemperature, resolveAirTemperature } from "@/lib/pipeline/air-temperature";
-import { PIPELINE_SETTINGS } from "@/lib/pipeline/settings";
+import { buildTemperatureSeries, interpolateTemperature, resolveAirTemperature } from "@/lib/worker/compute/air-temperature";
+import { PIPELINE_SETTINGS } from "@/lib/worker/compute/settings";
 
 const MIN = 60_000;
 const series = buildTemperatureSeries([

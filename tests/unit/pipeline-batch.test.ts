@@ -1,8 +1,8 @@
 import { describe, it, expect } from "vitest";
-import { channelKey, processBatch, processBatchInSteps, type BatchInput, type ProcessedBatch, type StoredChannelState } from "@/lib/pipeline/batch";
-import { parseChannelState } from "@/lib/pipeline/channel-state";
+import { channelKey, processBatch, processBatchInSteps, type BatchInput, type ProcessedBatch, type StoredChannelState } from "@/lib/worker/compute/batch";
+import { parseChannelState } from "@/lib/worker/compute/channel-state";
 import type { TankGeometry } from "@/lib/geometry/tank-volume";
-import type { ChannelConfig, ReadingRow } from "@/lib/pipeline/types";
+import type { ChannelConfig, ReadingRow } from "@/lib/worker/compute/types";
 import { bay, channel, echoFor, point, practicalSpeed, reading, T0, tank } from "./pipeline-fixtures";
 
 const C20 = practicalSpeed(20);

@@ -1,8 +1,8 @@
 import { describe, it, expect } from "vitest";
 import { median, medianAbsoluteDeviation } from "simple-statistics";
-import { convertReading } from "@/lib/pipeline/convert";
-import { buildTemperatureSeries } from "@/lib/pipeline/air-temperature";
-import { PIPELINE_SETTINGS } from "@/lib/pipeline/settings";
+import { convertReading } from "@/lib/worker/compute/convert";
+import { buildTemperatureSeries } from "@/lib/worker/compute/air-temperature";
+import { PIPELINE_SETTINGS } from "@/lib/worker/compute/settings";
 import { channel, practicalSpeed, reading, T0 } from "./pipeline-fixtures";
 
 const convert = (r: Parameters<typeof reading>[0], c = channel(), siteSeries = null as ReturnType<typeof buildTemperatureSeries> | null) =>

@@ -1,11 +1,11 @@
 import { describe, it, expect } from "vitest";
-import { deriveChannel } from "@/lib/pipeline/derive";
-import { blankMeasurement } from "@/lib/pipeline/convert";
-import { initialChannelState } from "@/lib/pipeline/channel-state";
+import { deriveChannel } from "@/lib/worker/compute/derive";
+import { blankMeasurement } from "@/lib/worker/compute/convert";
+import { initialChannelState } from "@/lib/worker/compute/channel-state";
 import { trackBayOccupancy } from "@/lib/occupancy/bay";
-import { PIPELINE_SETTINGS } from "@/lib/pipeline/settings";
+import { PIPELINE_SETTINGS } from "@/lib/worker/compute/settings";
 import type { TankGeometry } from "@/lib/geometry/tank-volume";
-import type { Measurement } from "@/lib/pipeline/types";
+import type { Measurement } from "@/lib/worker/compute/types";
 import { bay, channel, L_PER_US_GAL, M_PER_IN, point, reading, T0, tank } from "./pipeline-fixtures";
 
 /** A record as the convert stage leaves it: status ok with a distance. */

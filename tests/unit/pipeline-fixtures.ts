@@ -1,5 +1,5 @@
 import type { TankGeometry } from "@/lib/geometry/tank-volume";
-import type { AssetConfig, ChannelConfig, DeviceConfig, ReadingRow } from "@/lib/pipeline/types";
+import type { AssetConfig, ChannelConfig, DeviceConfig, ReadingRow } from "@/lib/worker/compute/types";
 
 // Channel configurations and readings for the pipeline's unit tests. The defaults are an echo device
 // at a site with no temperature source, channel range 2 cm – 4 m, no calibration.

@@ -1,7 +1,7 @@
 import { describe, it, expect } from "vitest";
 import { linearRegression } from "simple-statistics";
-import { forecastTank } from "@/lib/pipeline/forecast";
-import { PIPELINE_SETTINGS } from "@/lib/pipeline/settings";
+import { forecastTank } from "@/lib/worker/compute/forecast";
+import { PIPELINE_SETTINGS } from "@/lib/worker/compute/settings";
 
 const HOUR = 3_600_000;
 const DAY = 24 * HOUR;

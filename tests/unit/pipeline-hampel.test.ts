@@ -1,6 +1,6 @@
 import { describe, it, expect } from "vitest";
 import { hampelFlags } from "@/lib/signal/hampel";
-import { isHampelSpike } from "@/lib/pipeline/streaming-hampel";
+import { isHampelSpike } from "@/lib/worker/compute/streaming-hampel";
 import { mulberry32, seededNormal } from "./seeded-normal";
 
 // The worker's streaming Hampel judge must flag exactly what lib/signal/hampel's hampelFlags flags,

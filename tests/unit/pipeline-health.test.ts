@@ -1,9 +1,9 @@
 import { describe, it, expect } from "vitest";
-import { assessChannel, assessCrosstalk, FlagTracker, apparentSpeedDetails } from "@/lib/pipeline/health";
-import { blankMeasurement } from "@/lib/pipeline/convert";
-import { initialChannelState, type ChannelState } from "@/lib/pipeline/channel-state";
-import { PIPELINE_SETTINGS } from "@/lib/pipeline/settings";
-import type { ChannelConfig, Measurement, MeasurementStatus } from "@/lib/pipeline/types";
+import { assessChannel, assessCrosstalk, FlagTracker, apparentSpeedDetails } from "@/lib/worker/compute/health";
+import { blankMeasurement } from "@/lib/worker/compute/convert";
+import { initialChannelState, type ChannelState } from "@/lib/worker/compute/channel-state";
+import { PIPELINE_SETTINGS } from "@/lib/worker/compute/settings";
+import type { ChannelConfig, Measurement, MeasurementStatus } from "@/lib/worker/compute/types";
 import { bay, channel, practicalSpeed, reading, T0 } from "./pipeline-fixtures";
 
 const minute = (k: number) => T0 + k * 60_000;

@@ -1,6 +1,6 @@
 import { describe, it, expect } from "vitest";
 import { standardDeviation } from "simple-statistics";
-import { burstUncertainty, combineInQuadrature, quantisationUncertainty, temperatureUncertainty } from "@/lib/pipeline/uncertainty";
+import { burstUncertainty, combineInQuadrature, quantisationUncertainty, temperatureUncertainty } from "@/lib/worker/compute/uncertainty";
 import { mulberry32, seededNormal } from "./seeded-normal";
 
 describe("distance uncertainty", () => {

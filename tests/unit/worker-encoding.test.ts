@@ -1,8 +1,8 @@
 import { describe, expect, it } from "vitest";
-import { decodeBinaryArray } from "@/lib/db/binary-arrays";
-import { encodeMeasurements, rollUp } from "@/lib/db/queries/worker-measurements";
-import { blankMeasurement } from "@/lib/pipeline/convert";
-import type { Measurement } from "@/lib/pipeline/types";
+import { decodeBinaryArray } from "@/lib/worker/binary-arrays";
+import { encodeMeasurements, rollUp } from "@/lib/worker/encode";
+import { blankMeasurement } from "@/lib/worker/compute/convert";
+import type { Measurement } from "@/lib/worker/compute/types";
 import { bay, channel, reading, T0 } from "./pipeline-fixtures";
 
 // The worker's write path encodes a batch column by column; decoding the arrays again must give back

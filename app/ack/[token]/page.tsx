@@ -1,8 +1,8 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { currentUser } from "@/lib/auth/session";
-import { ackLinkProblemMessage, lookUpAckLink } from "@/lib/db/queries/alarms-notify";
-import { findAlarm } from "@/lib/db/queries/alarms";
+import { ackLinkProblemMessage, lookUpAckLink } from "@/lib/services/notifications";
+import { findAlarm } from "@/lib/services/alarms";
 import { needsAcknowledgement } from "@/lib/alarms/engine";
 import type { AlarmPriority, AlarmState } from "@/lib/alarms/state-machine";
 import { formatSiteTime } from "@/lib/mail/alarm-mail";

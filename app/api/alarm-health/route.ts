@@ -1,5 +1,5 @@
 import { requirePermission } from "@/lib/auth/session";
-import { alarmHealth } from "@/lib/db/queries/alarms-health";
+import { alarmHealth } from "@/lib/read-models/alarm-health";
 import { parseQuery } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
 import { alarmHealthQuerySchema } from "@/lib/validations/alarm";

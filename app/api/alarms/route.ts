@@ -1,5 +1,5 @@
 import { requirePermission } from "@/lib/auth/session";
-import { listAlarms } from "@/lib/db/queries/alarms";
+import { listAlarms } from "@/lib/services/alarms";
 import { parseQuery } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
 import { alarmListQuerySchema } from "@/lib/validations/alarm";

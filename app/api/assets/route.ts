@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { actorOf, requirePermission } from "@/lib/auth/session";
-import { createAsset, listAssets } from "@/lib/db/queries/assets";
+import { createAsset, listAssets } from "@/lib/services/assets";
 import { parseJsonBody, parseQuery } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
 import { createAssetSchema } from "@/lib/validations/asset";

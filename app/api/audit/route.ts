@@ -1,5 +1,5 @@
 import { requirePermission } from "@/lib/auth/session";
-import { listAuditEntries } from "@/lib/db/queries/audit";
+import { listAuditEntries } from "@/lib/read-models/audit-log";
 import { parseQuery } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
 import { auditQuerySchema } from "@/lib/validations/audit";

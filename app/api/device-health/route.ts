@@ -1,5 +1,5 @@
 import { requirePermission } from "@/lib/auth/session";
-import { listDeviceHealth } from "@/lib/db/queries/overview-devices";
+import { listDeviceHealth } from "@/lib/read-models/overview-devices";
 import { parseQuery } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
 import { deviceHealthQuerySchema } from "@/lib/validations/overview";

@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { actorOf, requirePermission } from "@/lib/auth/session";
-import { createDevice, listDevices } from "@/lib/db/queries/devices";
+import { createDevice, listDevices } from "@/lib/services/devices";
 import { parseJsonBody, parseQuery } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
 import { uuidSchema } from "@/lib/validations/common";

@@ -1,5 +1,5 @@
 import { actorOf, requirePermission } from "@/lib/auth/session";
-import { createUpload, listUploads } from "@/lib/db/queries/imports";
+import { createUpload, listUploads } from "@/lib/services/imports";
 import { parseJsonBody, parseQuery } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
 import { createUploadSchema, listUploadsQuery } from "@/lib/validations/import";

@@ -1,5 +1,5 @@
 import { requirePermission } from "@/lib/auth/session";
-import { fleetOverview } from "@/lib/db/queries/overview";
+import { fleetOverview } from "@/lib/read-models/overview";
 import { route } from "@/lib/http/route";
 
 // The fleet overview: every site of the signed-in user's organisation with its assets' live state.

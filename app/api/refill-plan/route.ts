@@ -1,5 +1,5 @@
 import { requirePermission } from "@/lib/auth/session";
-import { refillPlan } from "@/lib/db/queries/refill-plan";
+import { refillPlan } from "@/lib/read-models/refill-plan";
 import { parseQuery } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
 import { uuidSchema } from "@/lib/validations/common";

@@ -1,5 +1,5 @@
 import { actorOf, requirePermission } from "@/lib/auth/session";
-import { createSite, listSites } from "@/lib/db/queries/sites";
+import { createSite, listSites } from "@/lib/services/sites";
 import { parseJsonBody } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
 import { createSiteSchema } from "@/lib/validations/site";

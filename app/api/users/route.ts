@@ -1,5 +1,5 @@
 import { actorOf, requirePermission } from "@/lib/auth/session";
-import { inviteUser, listUsers, INVITE_TTL_HOURS } from "@/lib/db/queries/users";
+import { inviteUser, listUsers, INVITE_TTL_HOURS } from "@/lib/services/users";
 import { parseJsonBody } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
 import { appUrl, sendMail } from "@/lib/mail/send-mail";

@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { lookUpInvite } from "@/lib/db/queries/users";
+import { lookUpInvite } from "@/lib/services/users";
 import { inviteProblem } from "@/lib/auth/invite-messages";
 import { Wordmark } from "@/components/wordmark";
 import { AcceptInviteForm } from "@/components/accept-invite-form";

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { requirePageUser } from "@/lib/auth/session";
-import { findAlarm } from "@/lib/db/queries/alarms";
+import { findAlarm } from "@/lib/services/alarms";
 import { HttpError } from "@/lib/http/errors";
 import { isUuid } from "@/lib/validations/common";
 import { PageHeader } from "@/components/page-header";

@@ -1,5 +1,5 @@
 import { requirePermission } from "@/lib/auth/session";
-import { findAlarmWithHistory } from "@/lib/db/queries/alarms";
+import { findAlarmWithHistory } from "@/lib/services/alarms";
 import { idParam, type IdContext } from "@/lib/http/params";
 import { route } from "@/lib/http/route";
 

@@ -1,5 +1,5 @@
 import { currentUser } from "@/lib/auth/session";
-import { acknowledgeByLink, ackLinkProblemMessage } from "@/lib/db/queries/alarms-notify";
+import { acknowledgeByLink, ackLinkProblemMessage } from "@/lib/services/notifications";
 import { HttpError, parseJsonBody } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
 import { ackLinkSchema } from "@/lib/validations/alarm";

@@ -1,5 +1,5 @@
 import { actorOf, requirePermission } from "@/lib/auth/session";
-import { acknowledgeAlarms } from "@/lib/db/queries/alarms";
+import { acknowledgeAlarms } from "@/lib/services/alarms";
 import { parseJsonBody } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
 import { bulkAcknowledgeSchema } from "@/lib/validations/alarm";

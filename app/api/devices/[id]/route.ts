@@ -1,5 +1,5 @@
 import { actorOf, requirePermission } from "@/lib/auth/session";
-import { describeDeviceTiming, findDevice, listDeviceKeys, serialiseDevice, updateDevice } from "@/lib/db/queries/devices";
+import { describeDeviceTiming, findDevice, listDeviceKeys, serialiseDevice, updateDevice } from "@/lib/services/devices";
 import { parseJsonBody } from "@/lib/http/errors";
 import { idParam, type IdContext } from "@/lib/http/params";
 import { route } from "@/lib/http/route";

@@ -1,5 +1,5 @@
 import { requirePermission } from "@/lib/auth/session";
-import { refillPlanBatches, REFILL_PLAN_COLUMNS } from "@/lib/db/queries/exports";
+import { refillPlanBatches, REFILL_PLAN_COLUMNS } from "@/lib/services/exports";
 import { attachmentName, csvStream } from "@/lib/csv/write";
 import { parseQuery } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";

@@ -1,5 +1,5 @@
 import { requirePermission } from "@/lib/auth/session";
-import { findUpload } from "@/lib/db/queries/imports";
+import { findUpload } from "@/lib/services/imports";
 import { idParam, type IdContext } from "@/lib/http/params";
 import { route } from "@/lib/http/route";
 

@@ -1,4 +1,4 @@
-import { acceptInvite } from "@/lib/db/queries/users";
+import { acceptInvite } from "@/lib/services/users";
 import { HttpError, parseJsonBody } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
 import { acceptInviteSchema } from "@/lib/validations/user";

@@ -1,5 +1,5 @@
 import { actorOf, requirePermission } from "@/lib/auth/session";
-import { findSite, serialiseSite, updateSite } from "@/lib/db/queries/sites";
+import { findSite, serialiseSite, updateSite } from "@/lib/services/sites";
 import { parseJsonBody } from "@/lib/http/errors";
 import { idParam, type IdContext } from "@/lib/http/params";
 import { route } from "@/lib/http/route";

@@ -1,5 +1,5 @@
 import { actorOf, requirePermission } from "@/lib/auth/session";
-import { updateUser } from "@/lib/db/queries/users";
+import { updateUser } from "@/lib/services/users";
 import { notFound, parseJsonBody } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
 import { isUuid } from "@/lib/validations/common";

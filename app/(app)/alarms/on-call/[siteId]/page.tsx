@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { requirePageUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
-import { findSite } from "@/lib/db/queries/sites";
+import { findSite } from "@/lib/services/sites";
 import { HttpError } from "@/lib/http/errors";
 import { isUuid } from "@/lib/validations/common";
 import { PageHeader } from "@/components/page-header";

@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { requirePageUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
-import { findAsset } from "@/lib/db/queries/assets";
+import { findAsset } from "@/lib/services/assets";
 import { HttpError } from "@/lib/http/errors";
 import { isUuid } from "@/lib/validations/common";
 import { PageHeader } from "@/components/page-header";

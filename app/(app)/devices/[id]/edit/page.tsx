@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { requirePageUser } from "@/lib/auth/session";
-import { findDevice } from "@/lib/db/queries/devices";
+import { findDevice } from "@/lib/services/devices";
 import { HttpError } from "@/lib/http/errors";
 import { isUuid } from "@/lib/validations/common";
 import { PageHeader } from "@/components/page-header";

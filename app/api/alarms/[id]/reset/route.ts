@@ -1,5 +1,5 @@
 import { actorOf, requirePermission } from "@/lib/auth/session";
-import { actOnAlarm } from "@/lib/db/queries/alarms";
+import { actOnAlarm } from "@/lib/services/alarms";
 import { idParam, type IdContext } from "@/lib/http/params";
 import { route } from "@/lib/http/route";
 import { plainActionSchema } from "@/lib/validations/alarm";

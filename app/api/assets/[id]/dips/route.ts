@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { actorOf, requirePermission } from "@/lib/auth/session";
-import { findAsset } from "@/lib/db/queries/assets";
-import { channelsOfAsset, listDips, maxDipLevel, recordDip } from "@/lib/db/queries/dips";
+import { findAsset } from "@/lib/services/assets";
+import { channelsOfAsset, listDips, maxDipLevel, recordDip } from "@/lib/services/dips";
 import { tankHeight } from "@/lib/geometry/tank-volume";
 import { notFound, parseJsonBody, parseQuery } from "@/lib/http/errors";
 import { idParam, type IdContext } from "@/lib/http/params";

@@ -1,5 +1,5 @@
 import { requirePermission } from "@/lib/auth/session";
-import { assetOverview } from "@/lib/db/queries/overview-asset";
+import { assetOverview } from "@/lib/read-models/overview-asset";
 import { parseQuery } from "@/lib/http/errors";
 import { idParam, type IdContext } from "@/lib/http/params";
 import { route } from "@/lib/http/route";

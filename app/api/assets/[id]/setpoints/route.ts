@@ -1,5 +1,5 @@
 import { actorOf, requirePermission } from "@/lib/auth/session";
-import { getSetpoints, putSetpoints } from "@/lib/db/queries/alarms-setpoints";
+import { getSetpoints, putSetpoints } from "@/lib/services/alarm-setpoints";
 import { parseJsonBody } from "@/lib/http/errors";
 import { idParam, type IdContext } from "@/lib/http/params";
 import { route } from "@/lib/http/route";

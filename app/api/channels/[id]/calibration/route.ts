@@ -1,5 +1,5 @@
 import { actorOf, requirePermission } from "@/lib/auth/session";
-import { applyCalibration, channelCalibration } from "@/lib/db/queries/calibration";
+import { applyCalibration, channelCalibration } from "@/lib/services/calibration";
 import { parseJsonBody } from "@/lib/http/errors";
 import { idParam, type IdContext } from "@/lib/http/params";
 import { route } from "@/lib/http/route";

@@ -1,5 +1,5 @@
 import { requirePermission } from "@/lib/auth/session";
-import { listChannelMeasurements } from "@/lib/db/queries/measurements";
+import { listChannelMeasurements } from "@/lib/read-models/measurements";
 import { parseQuery } from "@/lib/http/errors";
 import { idParam, type IdContext } from "@/lib/http/params";
 import { route } from "@/lib/http/route";

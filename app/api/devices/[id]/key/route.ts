@@ -1,5 +1,5 @@
 import { actorOf, requirePermission } from "@/lib/auth/session";
-import { revokeDeviceKeys, rotateDeviceKey } from "@/lib/db/queries/devices";
+import { revokeDeviceKeys, rotateDeviceKey } from "@/lib/services/devices";
 import { idParam, type IdContext } from "@/lib/http/params";
 import { route } from "@/lib/http/route";
 

@@ -1,5 +1,5 @@
 import { actorOf, requirePermission } from "@/lib/auth/session";
-import { processUpload } from "@/lib/db/queries/imports";
+import { processUpload } from "@/lib/services/imports";
 import { idParam, type IdContext } from "@/lib/http/params";
 import { route } from "@/lib/http/route";
 

@@ -1,6 +1,6 @@
 import { can } from "@/lib/auth/permissions";
 import { actorOf, requirePermission } from "@/lib/auth/session";
-import { getOnCall, putOnCall } from "@/lib/db/queries/on-call";
+import { getOnCall, putOnCall } from "@/lib/services/on-call";
 import { parseJsonBody } from "@/lib/http/errors";
 import { idParam, type IdContext } from "@/lib/http/params";
 import { route } from "@/lib/http/route";

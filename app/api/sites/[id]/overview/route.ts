@@ -1,5 +1,5 @@
 import { requirePermission } from "@/lib/auth/session";
-import { siteOverview } from "@/lib/db/queries/overview-site";
+import { siteOverview } from "@/lib/read-models/overview-site";
 import { idParam, type IdContext } from "@/lib/http/params";
 import { route } from "@/lib/http/route";
 

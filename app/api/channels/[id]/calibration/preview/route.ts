@@ -1,5 +1,5 @@
 import { requirePermission } from "@/lib/auth/session";
-import { previewCalibration } from "@/lib/db/queries/calibration";
+import { previewCalibration } from "@/lib/services/calibration";
 import { parseJsonBody } from "@/lib/http/errors";
 import { idParam, type IdContext } from "@/lib/http/params";
 import { route } from "@/lib/http/route";

@@ -1,0 +1,99 @@
+import { alarmKindLabel, isAlarmKind } from "../alarms/engine";
+import { listAlarms, type AlarmJson } from "../services/alarms";
+import { select } from "./overview-sql";
+
+// What the live screens read from the alarm tables (db/migrations/0004-alarms.ts): counts of the
+// alarms that need attention, those alarms for a site or an asset (the alarms list's own query), an
+// asset's alarm history and its setpoints. Actions on alarms belong to the alarm routes.
+
+/** The states in which an alarm asks for attention; shelved and out-of-service ones are hidden. */
+export const ATTENTION_STATES = ["unacknowledged", "acknowledged", "returned_unacknowledged"] as const;
+
+export interface PriorityCounts {
+  critical: number;
+  high: number;
+  medium: number;
+  low: number;
+}
+
+/** Alarms needing attention per site, by priority. */
+export async function activeAlarmsBySite(organisationId: string, siteId?: string): Promise<Map<string, PriorityCounts>> {
+  const rows = await select<{ site_id: string; priority: keyof PriorityCounts; n: string }>(
+    `SELECT site_id, priority, count(*) AS n FROM alarms
+     WHERE organisation_id = :organisationId AND state IN (:states) ${siteId ? "AND site_id = :siteId" : ""}
+     GROUP BY site_id, priority`,
+    { organisationId, siteId, states: ATTENTION_STATES },
+  );
+  const out = new Map<string, PriorityCounts>();
+  for (const r of rows) {
+    const counts = out.get(r.site_id) ?? { critical: 0, high: 0, medium: 0, low: 0 };
+    counts[r.priority] = Number(r.n);
+    out.set(r.site_id, counts);
+  }
+  return out;
+}
+
+/** Alarms needing attention, most urgent first, of one site or one asset (through the alarms list). */
+export async function listAttentionAlarms(organisationId: string, filter: { siteId?: string; assetId?: string }, limit = 100): Promise<AlarmJson[]> {
+  const page = await listAlarms(organisationId, {
+    state: [...ATTENTION_STATES],
+    site_id: filter.siteId,
+    asset_id: filter.assetId,
+    sort: "priority",
+    page: 1,
+    page_size: limit,
+  });
+  return page.items;
+}
+
+interface AlarmEventRow {
+  id: string;
+  alarm_id: string;
+  alarm_kind: string;
+  at: Date;
+  kind: string;
+  from_state: string | null;
+  to_state: string | null;
+  cause: string;
+  value: number | null;
+  setpoint: number | null;
+  priority: string | null;
+  actor_label: string | null;
+  comment: string | null;
+}
+
+/** An asset's alarm events, newest first: every change of state of its level and health alarms. */
+export async function listAssetAlarmHistory(organisationId: string, assetId: string, limit = 50) {
+  const rows = await select<AlarmEventRow>(
+    `SELECT e.id, e.alarm_id, al.kind AS alarm_kind, e.at, e.kind, e.from_state, e.to_state, e.cause, e.value, e.setpoint,
+            COALESCE(e.priority, al.priority) AS priority, e.actor_label, e.comment
+     FROM alarm_events e JOIN alarms al ON al.id = e.alarm_id
+     WHERE al.organisation_id = :organisationId AND al.asset_id = :assetId
+     ORDER BY e.at DESC, e.id DESC
+     LIMIT :limit`,
+    { organisationId, assetId, limit },
+  );
+  return rows.map((r) => ({ ...r, id: Number(r.id), at: new Date(r.at).toISOString(), alarm_label: isAlarmKind(r.alarm_kind) ? alarmKindLabel(r.alarm_kind) : r.alarm_kind }));
+}
+
+export interface SetpointJson {
+  key: "hh" | "h" | "l" | "ll";
+  value_m: number;
+  priority: string;
+  enabled: boolean;
+}
+
+/** Setpoints (metres of level) by asset id, of one asset or of every tank at a site. */
+export async function setpointsByAsset(organisationId: string, of: { siteId?: string; assetId?: string }): Promise<Map<string, SetpointJson[]>> {
+  const out = new Map<string, SetpointJson[]>();
+  if (!of.siteId && !of.assetId) return out;
+  const rows = await select<SetpointJson & { asset_id: string }>(
+    `SELECT sp.asset_id, sp.key, sp.value_m, sp.priority, sp.enabled
+     FROM alarm_setpoints sp JOIN assets a ON a.id = sp.asset_id
+     WHERE a.organisation_id = :organisationId AND a.kind = 'tank' ${of.siteId ? "AND a.site_id = :siteId" : ""} ${of.assetId ? "AND a.id = :assetId" : ""}
+     ORDER BY sp.value_m DESC`,
+    { organisationId, ...of },
+  );
+  for (const { asset_id, ...sp } of rows) out.set(asset_id, [...(out.get(asset_id) ?? []), sp]);
+  return out;
+}

@@ -1,0 +1,351 @@
+import { tankHeight, type TankGeometry } from "../geometry/tank-volume";
+import { detectOffline } from "../health/flags";
+import type { AssetKind } from "../db/models";
+import { activeAlarmsBySite, type PriorityCounts } from "./overview-alarms";
+import { select } from "./overview-sql";
+
+// The live state of assets as the overview, site and asset screens show it: each asset's latest valid
+// measurement, its open health flags, a bay's current occupancy and a tank's forecast. Always scoped
+// to one organisation; the caller narrows it to a site or an asset.
+
+export interface OpenFlag {
+  channel_id: string;
+  flag: string;
+  since: string;
+  magnitude: number | null;
+}
+
+interface AssetStateRow {
+  id: string;
+  site_id: string;
+  kind: AssetKind;
+  name: string;
+  capacity_l: number | null;
+  safe_fill_pct: number | null;
+  reorder_pct: number | null;
+  mount_height_m: number | null;
+  geometry: TankGeometry | null;
+  floor_distance_m: number | null;
+  occupied_below_m: number | null;
+  bay_row: number | null;
+  bay_col: number | null;
+  bay_level: string | null;
+  channel_id: string | null;
+  device_id: string | null;
+  device_name: string | null;
+  expected_interval_s: number | null;
+  last_seen_at: Date | null;
+  value_at: Date | null;
+  level_m: number | null;
+  distance_m: number | null;
+  volume_l: number | null;
+  fill_pct: number | null;
+  uncertainty_m: number | null;
+  occupied: boolean | null;
+  session_started_at: Date | null;
+  session_ended_at: Date | null;
+  days_to_reorder: number | null;
+  days_to_empty: number | null;
+  reorder_at: Date | null;
+  forecast_at: Date | null;
+  flags: OpenFlag[] | null;
+}
+
+// One channel stands for each asset: the one heard from most recently (an asset normally has one).
+// Small tables are joined whole (hash joins); per asset at most two index probes remain: its latest
+// measurement, found by the key the worker keeps in channel_state (one partition), and a bay's latest
+// session. Only when that measurement is not valid is the channel's history searched for the latest
+// valid one. Conditions on the outer row become one-time filters that skip a probe when not needed.
+// A channel measures an asset of its device's site (lib/services/devices.ts), so a site narrows both.
+function channelCte(narrow = "") {
+  return `ch AS (
+    SELECT DISTINCT ON (c.asset_id) c.asset_id, c.id, c.device_id, d.name AS device_name, d.expected_interval_s,
+           COALESCE(cs.last_at, d.last_seen_at) AS last_seen_at, cs.last_at, cs.last_reading_id
+    FROM channels c JOIN devices d ON d.id = c.device_id LEFT JOIN channel_state cs ON cs.channel_id = c.id
+    WHERE d.organisation_id = :organisationId AND c.asset_id IS NOT NULL ${narrow}
+    ORDER BY c.asset_id, cs.last_at DESC NULLS LAST, c.id
+  )`;
+}
+const CHANNEL_CTE = channelCte();
+
+function flagsCte(narrow = "") {
+  return `fl AS (
+    SELECT c.asset_id, json_agg(json_build_object('channel_id', h.channel_id, 'flag', h.flag, 'since', h.since, 'magnitude', h.magnitude) ORDER BY h.since) AS flags
+    FROM health_flags h JOIN channels c ON c.id = h.channel_id JOIN devices d ON d.id = c.device_id
+    WHERE h.cleared_at IS NULL AND d.organisation_id = :organisationId AND c.asset_id IS NOT NULL ${narrow}
+    GROUP BY c.asset_id
+  )`;
+}
+
+const MEASUREMENT_FIELDS = "m.at, m.level_m, m.distance_m, m.volume_l, m.fill_pct, m.uncertainty_m, m.occupied";
+
+/** The latest valid measurement of the asset's channel, probed only where `gate` holds. */
+function latestJoins(gate = "true") {
+  return `
+  LEFT JOIN LATERAL (
+    SELECT ${MEASUREMENT_FIELDS} FROM measurements m
+    WHERE m.reading_id = ch.last_reading_id AND m.at = ch.last_at AND m.channel_id = ch.id AND m.status = 'ok' AND ${gate}
+  ) lx ON true
+  LEFT JOIN LATERAL (
+    SELECT ${MEASUREMENT_FIELDS} FROM measurements m
+    WHERE m.channel_id = ch.id AND m.status = 'ok' AND lx.at IS NULL AND ${gate}
+    ORDER BY m.at DESC
+    LIMIT 1
+  ) lf ON true`;
+}
+
+const LATEST_COLUMNS = `COALESCE(lx.at, lf.at) AS value_at, COALESCE(lx.level_m, lf.level_m) AS level_m, COALESCE(lx.distance_m, lf.distance_m) AS distance_m,
+         COALESCE(lx.volume_l, lf.volume_l) AS volume_l, COALESCE(lx.fill_pct, lf.fill_pct) AS fill_pct,
+         COALESCE(lx.uncertainty_m, lf.uncertainty_m) AS uncertainty_m, COALESCE(lx.occupied, lf.occupied) AS occupied`;
+
+const SESSION_JOIN = `
+  LEFT JOIN LATERAL (
+    SELECT s.started_at, s.ended_at FROM occupancy_sessions s WHERE s.asset_id = a.id AND a.kind = 'bay' ORDER BY s.started_at DESC LIMIT 1
+  ) os ON true`;
+
+function assetStateSql(filter: { siteId?: string; assetId?: string }) {
+  const narrow = [filter.siteId ? "AND d.site_id = :siteId" : "", filter.assetId ? "AND c.asset_id = :assetId" : ""].join(" ");
+  const where = [filter.siteId ? "AND a.site_id = :siteId" : "", filter.assetId ? "AND a.id = :assetId" : ""].join(" ");
+  return `
+  WITH ${channelCte(narrow)}, ${flagsCte(narrow)}
+  SELECT a.id, a.site_id, a.kind, a.name, a.capacity_l, a.safe_fill_pct, a.reorder_pct, a.mount_height_m, a.geometry,
+         a.floor_distance_m, a.occupied_below_m, a.bay_row, a.bay_col, a.bay_level,
+         ch.id AS channel_id, ch.device_id, ch.device_name, ch.expected_interval_s, ch.last_seen_at,
+         ${LATEST_COLUMNS},
+         os.started_at AS session_started_at, os.ended_at AS session_ended_at,
+         f.days_to_reorder, f.days_to_empty, f.reorder_at, f.computed_at AS forecast_at,
+         fl.flags
+  FROM assets a
+  LEFT JOIN ch ON ch.asset_id = a.id
+  ${latestJoins()}
+  ${SESSION_JOIN}
+  LEFT JOIN tank_forecasts f ON f.asset_id = a.id AND a.kind = 'tank'
+  LEFT JOIN fl ON fl.asset_id = a.id
+  WHERE a.organisation_id = :organisationId ${where}
+  ORDER BY a.name, a.id`;
+}
+
+export interface Occupancy {
+  occupied: boolean;
+  /** When the bay entered its present state; null when no session was ever seen. */
+  since: string | null;
+}
+
+function occupancyOf(r: AssetStateRow): Occupancy | null {
+  if (r.kind !== "bay") return null;
+  if (r.session_started_at && !r.session_ended_at) return { occupied: true, since: iso(r.session_started_at) };
+  if (r.session_ended_at) return { occupied: false, since: iso(r.session_ended_at) };
+  // Before the first session the latest measurement tells the state, without a start.
+  return r.occupied == null ? null : { occupied: r.occupied, since: null };
+}
+
+function iso(d: Date | string | null): string | null {
+  return d == null ? null : new Date(d).toISOString();
+}
+
+export function serialiseAssetState(r: AssetStateRow) {
+  return {
+    id: r.id,
+    site_id: r.site_id,
+    kind: r.kind,
+    name: r.name,
+    capacity_l: r.capacity_l,
+    safe_fill_pct: r.safe_fill_pct,
+    reorder_pct: r.reorder_pct,
+    mount_height_m: r.mount_height_m,
+    tank_height_m: r.geometry ? tankHeight(r.geometry) : null,
+    floor_distance_m: r.floor_distance_m,
+    occupied_below_m: r.occupied_below_m,
+    bay: r.kind === "bay" ? { row: r.bay_row, col: r.bay_col, level: r.bay_level } : null,
+    channel: r.channel_id
+      ? { id: r.channel_id, device_id: r.device_id as string, device_name: r.device_name as string, expected_interval_s: r.expected_interval_s as number, last_seen_at: iso(r.last_seen_at) }
+      : null,
+    latest: r.value_at
+      ? { at: iso(r.value_at) as string, level_m: r.level_m, distance_m: r.distance_m, volume_l: r.volume_l, fill_pct: r.fill_pct, uncertainty_m: r.uncertainty_m, occupied: r.occupied }
+      : null,
+    occupancy: occupancyOf(r),
+    forecast:
+      r.kind === "tank" && r.forecast_at
+        ? { days_to_reorder: r.days_to_reorder, days_to_empty: r.days_to_empty, reorder_at: iso(r.reorder_at), computed_at: iso(r.forecast_at) as string }
+        : null,
+    flags: r.flags ?? [],
+  };
+}
+export type AssetStateJson = ReturnType<typeof serialiseAssetState>;
+
+/** Live state of the organisation's assets, optionally of one site or one asset, by name. */
+export async function listAssetStates(organisationId: string, filter: { siteId?: string; assetId?: string } = {}): Promise<AssetStateJson[]> {
+  const rows = await select<AssetStateRow>(assetStateSql(filter), { organisationId, ...filter });
+  return rows.map(serialiseAssetState);
+}
+
+interface DeviceSeenRow {
+  id: string;
+  site_id: string;
+  last_seen_at: Date | null;
+  expected_interval_s: number;
+}
+
+/** Devices and how many are offline (no reading for 3 expected intervals, lib/health/flags) per site. */
+export async function deviceCountsBySite(organisationId: string, now = new Date(), siteId?: string): Promise<Map<string, { total: number; offline: number }>> {
+  const rows = await select<DeviceSeenRow>(
+    `SELECT id, site_id, last_seen_at, expected_interval_s FROM devices WHERE organisation_id = :organisationId ${siteId ? "AND site_id = :siteId" : ""}`,
+    { organisationId, siteId },
+  );
+  const counts = new Map<string, { total: number; offline: number }>();
+  for (const d of rows) {
+    const c = counts.get(d.site_id) ?? { total: 0, offline: 0 };
+    c.total += 1;
+    if (detectOffline(d.last_seen_at, d.expected_interval_s, now)) c.offline += 1;
+    counts.set(d.site_id, c);
+  }
+  return counts;
+}
+
+/** How many tanks a site shows at a glance; a site with more shows the emptiest ones. */
+export const TANKS_AT_A_GLANCE = 12;
+
+interface FleetTankRow {
+  id: string;
+  site_id: string;
+  name: string;
+  capacity_l: number | null;
+  reorder_pct: number | null;
+  expected_interval_s: number | null;
+  value_at: Date | null;
+  level_m: number | null;
+  uncertainty_m: number | null;
+  fill_pct: number | null;
+  volume_l: number | null;
+  days_to_reorder: number | null;
+  forecast_at: Date | null;
+  flags: string[] | null;
+  site_tanks: string;
+}
+
+// Tanks by site: all of them where a site has at most TANKS_AT_A_GLANCE (by name), else the emptiest.
+const FLEET_TANKS_SQL = `
+  WITH ${CHANNEL_CTE},
+  tf AS (
+    SELECT hc.asset_id, array_agg(DISTINCT h.flag ORDER BY h.flag) AS flags
+    FROM health_flags h JOIN channels hc ON hc.id = h.channel_id JOIN devices hd ON hd.id = hc.device_id
+    WHERE h.cleared_at IS NULL AND hd.organisation_id = :organisationId AND hc.asset_id IS NOT NULL
+    GROUP BY hc.asset_id
+  ),
+  t AS (
+    SELECT a.id, a.site_id, a.name, a.capacity_l, a.reorder_pct, ch.expected_interval_s, ${LATEST_COLUMNS}, f.days_to_reorder, f.computed_at AS forecast_at, tf.flags
+    FROM assets a
+    LEFT JOIN ch ON ch.asset_id = a.id
+    ${latestJoins()}
+    LEFT JOIN tank_forecasts f ON f.asset_id = a.id
+    LEFT JOIN tf ON tf.asset_id = a.id
+    WHERE a.organisation_id = :organisationId AND a.kind = 'tank'
+  ), ranked AS (
+    SELECT t.*, count(*) OVER (PARTITION BY site_id) AS site_tanks,
+           row_number() OVER (PARTITION BY site_id ORDER BY fill_pct ASC NULLS FIRST, name, id) AS fill_rank
+    FROM t
+  )
+  SELECT * FROM ranked WHERE site_tanks <= :glance OR fill_rank <= :glance
+  ORDER BY site_id, CASE WHEN site_tanks <= :glance THEN 0 ELSE fill_rank END, name, id`;
+
+// Bays occupied, free and with a sensor fault, and points with a fault, per site. A bay's state is its
+// latest session's; before its first session, its latest valid measurement's (as listAssetStates).
+const FLEET_COUNTS_SQL = `
+  WITH ${CHANNEL_CTE},
+  flagged AS (
+    SELECT DISTINCT hc.asset_id FROM health_flags h JOIN channels hc ON hc.id = h.channel_id JOIN devices hd ON hd.id = hc.device_id
+    WHERE h.cleared_at IS NULL AND hd.organisation_id = :organisationId
+  )
+  SELECT a.site_id, a.kind, count(*) AS total,
+         count(*) FILTER (WHERE fg.asset_id IS NOT NULL) AS faulty,
+         count(*) FILTER (WHERE fg.asset_id IS NULL AND occ.occupied) AS occupied,
+         count(*) FILTER (WHERE fg.asset_id IS NULL AND NOT occ.occupied) AS free
+  FROM assets a
+  LEFT JOIN ch ON ch.asset_id = a.id
+  LEFT JOIN flagged fg ON fg.asset_id = a.id
+  ${SESSION_JOIN}
+  ${latestJoins("a.kind = 'bay' AND os.started_at IS NULL")}
+  CROSS JOIN LATERAL (SELECT CASE WHEN os.started_at IS NOT NULL THEN os.ended_at IS NULL ELSE COALESCE(lx.occupied, lf.occupied) END AS occupied) occ
+  WHERE a.organisation_id = :organisationId AND a.kind IN ('bay', 'point')
+  GROUP BY a.site_id, a.kind`;
+
+interface FleetCountRow {
+  site_id: string;
+  kind: "bay" | "point";
+  total: string;
+  faulty: string;
+  occupied: string;
+  free: string;
+}
+
+const NO_ALARMS: PriorityCounts = { critical: 0, high: 0, medium: 0, low: 0 };
+
+/**
+ * Every site of the organisation with its tanks (at most TANKS_AT_A_GLANCE each, the emptiest first
+ * where there are more), its bays occupied and free, its alarms needing attention by priority and its
+ * devices offline. Counted and ranked in the database, so the answer stays small for a large fleet.
+ */
+export async function fleetOverview(organisationId: string, now = new Date()) {
+  const [sites, tanks, counts, devices, alarms] = await Promise.all([
+    select<{ id: string; name: string; time_zone: string }>(`SELECT id, name, time_zone FROM sites WHERE organisation_id = :organisationId ORDER BY name, id`, { organisationId }),
+    select<FleetTankRow>(FLEET_TANKS_SQL, { organisationId, glance: TANKS_AT_A_GLANCE }),
+    select<FleetCountRow>(FLEET_COUNTS_SQL, { organisationId }),
+    deviceCountsBySite(organisationId, now),
+    activeAlarmsBySite(organisationId),
+  ]);
+  const tanksBySite = new Map<string, FleetTankRow[]>();
+  for (const t of tanks) tanksBySite.set(t.site_id, [...(tanksBySite.get(t.site_id) ?? []), t]);
+  const countOf = (siteId: string, kind: "bay" | "point") => counts.find((c) => c.site_id === siteId && c.kind === kind);
+  const items = sites.map((s) => {
+    const here = tanksBySite.get(s.id) ?? [];
+    const bays = countOf(s.id, "bay");
+    const points = countOf(s.id, "point");
+    const bay = { total: Number(bays?.total ?? 0), occupied: Number(bays?.occupied ?? 0), free: Number(bays?.free ?? 0), faulty: Number(bays?.faulty ?? 0) };
+    return {
+      id: s.id,
+      name: s.name,
+      time_zone: s.time_zone,
+      tank_count: here.length ? Number(here[0].site_tanks) : 0,
+      tanks: here.map((t) => ({
+        id: t.id,
+        name: t.name,
+        capacity_l: t.capacity_l,
+        reorder_pct: t.reorder_pct,
+        level_m: t.level_m,
+        uncertainty_m: t.uncertainty_m,
+        fill_pct: t.fill_pct,
+        volume_l: t.volume_l,
+        at: iso(t.value_at),
+        expected_interval_s: t.expected_interval_s,
+        days_to_reorder: t.days_to_reorder,
+        forecast_at: iso(t.forecast_at),
+        flags: t.flags ?? [],
+      })),
+      bays: { ...bay, unknown: bay.total - bay.occupied - bay.free - bay.faulty },
+      points: { total: Number(points?.total ?? 0), faulty: Number(points?.faulty ?? 0) },
+      alarms: alarms.get(s.id) ?? NO_ALARMS,
+      devices: devices.get(s.id) ?? { total: 0, offline: 0 },
+    };
+  });
+  const sum = (pick: (s: (typeof items)[number]) => number) => items.reduce((n, s) => n + pick(s), 0);
+  return {
+    generated_at: now.toISOString(),
+    tanks_at_a_glance: TANKS_AT_A_GLANCE,
+    totals: {
+      sites: items.length,
+      tanks: sum((s) => s.tank_count),
+      bays: sum((s) => s.bays.total),
+      bays_occupied: sum((s) => s.bays.occupied),
+      devices: sum((s) => s.devices.total),
+      devices_offline: sum((s) => s.devices.offline),
+      alarms: {
+        critical: sum((s) => s.alarms.critical),
+        high: sum((s) => s.alarms.high),
+        medium: sum((s) => s.alarms.medium),
+        low: sum((s) => s.alarms.low),
+      },
+    },
+    sites: items,
+  };
+}
+export type FleetOverviewJson = Awaited<ReturnType<typeof fleetOverview>>;

@@ -1,0 +1,284 @@
+// Alarms for the API and the screens: the list (server-paged, filtered, sorted, organisation-scoped),
+// one alarm with its events and notifications, and the people's actions — acknowledge, shelve,
+// unshelve, out of service, return to service, reset — each a transition of the engine, an alarm
+// event and an audit row, in one transaction.
+
+import type { Transaction } from "sequelize";
+import { getSequelize } from "../db/sequelize";
+import { writeAudit, type Actor } from "./audit";
+import { HttpError, notFound } from "../http/errors";
+import { alarmKindLabel, applyAlarmInput } from "../alarms/engine";
+import { httpStatusForAlarmError, isAwaitingReset, type AlarmInput } from "../alarms/state-machine";
+import type { AlarmListQuery, AlarmSort } from "../validations/alarm";
+import { type AlarmDbRow, type AlarmRowExtras, insertAlarmEvents, rows, saveAlarm, toRecord } from "./alarm-store";
+
+interface AlarmViewRow extends AlarmDbRow {
+  site_name: string;
+  time_zone: string;
+  asset_name: string | null;
+  channel_index: number | null;
+  device_id: string | null;
+  device_name: string | null;
+  ack_email: string | null;
+  ack_name: string | null;
+}
+
+const VIEW_SELECT = `
+  SELECT al.*, s.name AS site_name, s.time_zone, a.name AS asset_name, ch.index AS channel_index, d.id AS device_id, d.name AS device_name,
+         u.email AS ack_email, u.name AS ack_name
+  FROM alarms al JOIN sites s ON s.id = al.site_id LEFT JOIN assets a ON a.id = al.asset_id
+  LEFT JOIN channels ch ON ch.id = al.channel_id LEFT JOIN devices d ON d.id = ch.device_id
+  LEFT JOIN users u ON u.id = al.acknowledged_by`;
+
+const iso = (d: Date | null) => (d === null ? null : new Date(d).toISOString());
+
+export function serialiseAlarm(r: AlarmViewRow) {
+  const record = toRecord(r);
+  return {
+    id: r.id,
+    kind: r.kind,
+    label: alarmKindLabel(r.kind),
+    priority: r.priority,
+    state: r.state,
+    condition_active: r.condition_active,
+    latching: r.latching,
+    awaiting_reset: isAwaitingReset(record.snapshot),
+    shelved_until: iso(r.shelved_until),
+    shelve_reason: r.shelve_reason,
+    out_of_service_reason: r.out_of_service_reason,
+    site: { id: r.site_id, name: r.site_name, time_zone: r.time_zone },
+    asset: r.asset_id ? { id: r.asset_id, name: r.asset_name } : null,
+    channel: r.channel_id ? { id: r.channel_id, index: r.channel_index, device_id: r.device_id, device_name: r.device_name } : null,
+    value: r.value,
+    setpoint: r.setpoint,
+    unit: r.unit,
+    activations: r.activations,
+    episode: r.episode,
+    activated_at: iso(r.activated_at),
+    cleared_at: iso(r.cleared_at),
+    acknowledged_at: iso(r.acknowledged_at),
+    acknowledged_by: r.acknowledged_by ? { id: r.acknowledged_by, email: r.ack_email, name: r.ack_name } : null,
+    last_change_at: iso(r.last_change_at),
+    created_at: iso(r.created_at),
+  };
+}
+export type AlarmJson = ReturnType<typeof serialiseAlarm>;
+
+const PRIORITY_ORDER = `CASE al.priority WHEN 'critical' THEN 0 WHEN 'high' THEN 1 WHEN 'medium' THEN 2 ELSE 3 END`;
+const STATE_ORDER = `CASE al.state WHEN 'unacknowledged' THEN 0 WHEN 'returned_unacknowledged' THEN 1 WHEN 'acknowledged' THEN 2
+  WHEN 'shelved' THEN 3 WHEN 'suppressed' THEN 4 WHEN 'out_of_service' THEN 5 ELSE 6 END`;
+
+const SORTS: Record<AlarmSort, string> = {
+  priority: `${PRIORITY_ORDER}, al.activated_at DESC NULLS LAST`,
+  "-priority": `${PRIORITY_ORDER} DESC, al.activated_at DESC NULLS LAST`,
+  activated_at: "al.activated_at ASC NULLS LAST",
+  "-activated_at": "al.activated_at DESC NULLS LAST",
+  state: `${STATE_ORDER}, ${PRIORITY_ORDER}`,
+  "-state": `${STATE_ORDER} DESC, ${PRIORITY_ORDER}`,
+  site: "s.name ASC, a.name ASC NULLS FIRST",
+  "-site": "s.name DESC, a.name DESC NULLS LAST",
+  asset: "a.name ASC NULLS LAST, al.kind",
+  "-asset": "a.name DESC NULLS LAST, al.kind",
+  kind: "al.kind ASC, a.name ASC NULLS LAST",
+  "-kind": "al.kind DESC, a.name ASC NULLS LAST",
+};
+
+/** One page of the organisation's alarms with the total that match. */
+export async function listAlarms(organisationId: string, q: AlarmListQuery) {
+  const where = ["al.organisation_id = :organisationId"];
+  const replacements: Record<string, unknown> = { organisationId };
+  if (q.state?.length) {
+    const states = q.state.filter((s) => s !== "active");
+    const clauses = [];
+    if (q.state.includes("active")) clauses.push("al.state <> 'normal'");
+    if (states.length) {
+      clauses.push("al.state IN (:states)");
+      replacements.states = states;
+    }
+    where.push(`(${clauses.join(" OR ")})`);
+  }
+  if (q.site_id) {
+    where.push("al.site_id = :siteId");
+    replacements.siteId = q.site_id;
+  }
+  if (q.asset_id) {
+    where.push("al.asset_id = :assetId");
+    replacements.assetId = q.asset_id;
+  }
+  if (q.priority?.length) {
+    where.push("al.priority IN (:priorities)");
+    replacements.priorities = q.priority;
+  }
+  if (q.kind?.length) {
+    where.push("al.kind IN (:kinds)");
+    replacements.kinds = q.kind;
+  }
+  if (q.from) {
+    where.push("al.activated_at >= :from");
+    replacements.from = q.from;
+  }
+  if (q.to) {
+    where.push("al.activated_at < :to");
+    replacements.to = q.to;
+  }
+  const filter = where.join(" AND ");
+  const [count] = await rows<{ n: string }>(
+    `SELECT count(*) AS n FROM alarms al JOIN sites s ON s.id = al.site_id LEFT JOIN assets a ON a.id = al.asset_id WHERE ${filter}`,
+    replacements,
+  );
+  const items = await rows<AlarmViewRow>(`${VIEW_SELECT} WHERE ${filter} ORDER BY ${SORTS[q.sort]}, al.id LIMIT :limit OFFSET :offset`, {
+    ...replacements,
+    limit: q.page_size,
+    offset: (q.page - 1) * q.page_size,
+  });
+  return { total: Number(count.n), page: q.page, page_size: q.page_size, sort: q.sort, items: items.map(serialiseAlarm) };
+}
+
+async function findAlarmRow(organisationId: string, id: string, transaction?: Transaction): Promise<AlarmViewRow> {
+  const [row] = await rows<AlarmViewRow>(`${VIEW_SELECT} WHERE al.id = :id AND al.organisation_id = :organisationId ${transaction ? "FOR UPDATE OF al" : ""}`, { id, organisationId }, transaction);
+  if (!row) throw notFound("That alarm");
+  return row;
+}
+
+export async function findAlarm(organisationId: string, id: string): Promise<AlarmJson> {
+  return serialiseAlarm(await findAlarmRow(organisationId, id));
+}
+
+interface EventRow {
+  id: string;
+  at: Date;
+  kind: string;
+  from_state: string | null;
+  to_state: string | null;
+  cause: string;
+  value: number | null;
+  setpoint: number | null;
+  priority: string | null;
+  episode: number | null;
+  user_id: string | null;
+  actor_label: string | null;
+  comment: string | null;
+  details: Record<string, unknown>;
+}
+
+/** One alarm with its events (newest first) and the notifications sent about it. */
+export async function findAlarmWithHistory(organisationId: string, id: string, eventLimit = 200) {
+  const alarm = await findAlarm(organisationId, id);
+  const [events, notifications] = await Promise.all([
+    rows<EventRow>(
+      `SELECT id, at, kind, from_state, to_state, cause, value, setpoint, priority, episode, user_id, actor_label, comment, details
+       FROM alarm_events WHERE alarm_id = :id ORDER BY at DESC, id DESC LIMIT :limit`,
+      { id, limit: eventLimit },
+    ),
+    rows<{ id: string; episode: number; email: string; position: number; reason: string; sent_at: Date | null; send_error: string | null; expires_at: Date; used_at: Date | null }>(
+      `SELECT id, episode, email, position, reason, sent_at, send_error, expires_at, used_at FROM alarm_notifications WHERE alarm_id = :id ORDER BY created_at DESC LIMIT 100`,
+      { id },
+    ),
+  ]);
+  return {
+    ...alarm,
+    events: events.map((e) => ({ ...e, id: Number(e.id), at: new Date(e.at).toISOString() })),
+    notifications: notifications.map((n) => ({ ...n, sent_at: iso(n.sent_at), expires_at: iso(n.expires_at), used_at: iso(n.used_at) })),
+  };
+}
+
+export type AlarmAction =
+  | { type: "acknowledge"; comment?: string }
+  | { type: "shelve"; until: Date; reason: string; comment?: string }
+  | { type: "unshelve"; comment?: string }
+  | { type: "remove_from_service"; reason: string; comment?: string }
+  | { type: "return_to_service"; comment?: string }
+  | { type: "reset"; comment?: string };
+
+const ACTION_AUDIT: Record<AlarmAction["type"], string> = {
+  acknowledge: "alarm.acknowledge",
+  shelve: "alarm.shelve",
+  unshelve: "alarm.unshelve",
+  remove_from_service: "alarm.out_of_service",
+  return_to_service: "alarm.return_to_service",
+  reset: "alarm.reset",
+};
+
+function actionInput(action: AlarmAction, now: Date): AlarmInput {
+  if (action.type === "shelve") return { type: "shelve", at: now, until: action.until };
+  return { type: action.type };
+}
+
+function actionCause(action: AlarmAction): string {
+  switch (action.type) {
+    case "acknowledge":
+      return "acknowledged";
+    case "shelve":
+      return `shelved until ${action.until.toISOString()}: ${action.reason}`;
+    case "unshelve":
+      return "unshelved";
+    case "remove_from_service":
+      return `taken out of service: ${action.reason}`;
+    case "return_to_service":
+      return "returned to service";
+    case "reset":
+      return "reset after it cleared";
+  }
+}
+
+function actionExtras(action: AlarmAction, actor: Actor, now: Date): AlarmRowExtras {
+  switch (action.type) {
+    case "acknowledge":
+      return { acknowledged: { at: now, userId: actor.userId } };
+    case "shelve":
+      return { shelveReason: action.reason };
+    case "unshelve":
+      return { shelveReason: null };
+    case "remove_from_service":
+      return { outOfServiceReason: action.reason, shelveReason: null };
+    case "return_to_service":
+      return { outOfServiceReason: null };
+    case "reset":
+      return {};
+  }
+}
+
+async function actInTransaction(actor: Actor, id: string, action: AlarmAction, now: Date, transaction: Transaction): Promise<AlarmJson> {
+  const row = await findAlarmRow(actor.organisationId, id, transaction);
+  const applied = applyAlarmInput(toRecord(row), actionInput(action, now), { at: now, cause: actionCause(action) });
+  if (!applied.ok) throw new HttpError(httpStatusForAlarmError(applied.code), applied.code, applied.message);
+  await saveAlarm(id, applied.result.record, actionExtras(action, actor, now), transaction);
+  await insertAlarmEvents(
+    applied.result.events.map((event) => ({
+      alarmId: id,
+      organisationId: actor.organisationId,
+      event,
+      userId: actor.userId,
+      actorLabel: actor.label,
+      comment: action.comment ?? null,
+      details: "reason" in action ? { reason: action.reason } : {},
+    })),
+    transaction,
+  );
+  const details: Record<string, unknown> = { from: row.state, to: applied.result.record.snapshot.state };
+  if (action.comment) details.comment = action.comment;
+  if (action.type === "shelve") Object.assign(details, { until: action.until.toISOString(), reason: action.reason });
+  if (action.type === "remove_from_service") details.reason = action.reason;
+  await writeAudit(actor, ACTION_AUDIT[action.type], { type: "alarm", id }, details, transaction);
+  return serialiseAlarm(await findAlarmRow(actor.organisationId, id, transaction));
+}
+
+/** Applies a person's action; a refused one is a 409 (or 422 for a bad shelve expiry) with the reducer's message. */
+export async function actOnAlarm(actor: Actor, id: string, action: AlarmAction, now = new Date()): Promise<AlarmJson> {
+  return getSequelize().transaction((transaction) => actInTransaction(actor, id, action, now, transaction));
+}
+
+/** Acknowledges each alarm on its own: one that cannot be acknowledged is reported and the others go ahead. */
+export async function acknowledgeAlarms(actor: Actor, ids: readonly string[], comment?: string, now = new Date()) {
+  const acknowledged: AlarmJson[] = [];
+  const refused: { id: string; error: string; message: string }[] = [];
+  for (const id of [...new Set(ids)]) {
+    try {
+      acknowledged.push(await actOnAlarm(actor, id, { type: "acknowledge", comment }, now));
+    } catch (err) {
+      if (!(err instanceof HttpError)) throw err;
+      refused.push({ id, error: err.code, message: err.message });
+    }
+  }
+  return { acknowledged, refused };
+}

@@ -1,0 +1,76 @@
+import { writeAudit, type Actor } from "./audit";
+import { Asset, initModels, Site } from "../db/models";
+import { getSequelize } from "../db/sequelize";
+import { HttpError, notFound } from "../http/errors";
+import { tankCapacity, tankHeight } from "../geometry/tank-volume";
+import { assetConsistencyIssues, type AssetInput, type AssetPatch } from "../validations/asset";
+
+export function serialiseAsset(a: Asset) {
+  return {
+    id: a.id,
+    site_id: a.site_id,
+    kind: a.kind,
+    name: a.name,
+    mount_height_m: a.mount_height_m ?? null,
+    capacity_l: a.capacity_l ?? null,
+    safe_fill_pct: a.safe_fill_pct ?? null,
+    reorder_pct: a.reorder_pct ?? null,
+    floor_distance_m: a.floor_distance_m ?? null,
+    occupied_below_m: a.occupied_below_m ?? null,
+    geometry: a.geometry ?? null,
+    tank_height_m: a.geometry ? tankHeight(a.geometry) : null,
+    bay_row: a.bay_row ?? null,
+    bay_col: a.bay_col ?? null,
+    bay_level: a.bay_level ?? null,
+    created_at: a.created_at,
+    updated_at: a.updated_at,
+  };
+}
+export type AssetJson = ReturnType<typeof serialiseAsset>;
+
+function derivedCapacity(a: { kind: string; geometry?: AssetInput["geometry"] }): number | null {
+  return a.kind === "tank" && a.geometry ? Math.round(tankCapacity(a.geometry) * 10) / 10 : null;
+}
+
+export async function listAssets(organisationId: string, filter: { site_id?: string; kind?: string } = {}) {
+  initModels();
+  const where: Record<string, unknown> = { organisation_id: organisationId };
+  if (filter.site_id) where.site_id = filter.site_id;
+  if (filter.kind) where.kind = filter.kind;
+  const assets = await Asset.findAll({ where, order: [["name", "ASC"]] });
+  return assets.map(serialiseAsset);
+}
+
+export async function findAsset(organisationId: string, id: string): Promise<Asset> {
+  initModels();
+  const asset = await Asset.findOne({ where: { id, organisation_id: organisationId } });
+  if (!asset) throw notFound("That asset");
+  return asset;
+}
+
+export async function createAsset(actor: Actor, input: AssetInput) {
+  initModels();
+  const site = await Site.findOne({ where: { id: input.site_id, organisation_id: actor.organisationId } });
+  if (!site) throw new HttpError(422, "invalid", "site_id: no such site in your organisation.", {}, { fields: { site_id: "No such site in your organisation." } });
+  return getSequelize().transaction(async (transaction) => {
+    const asset = await Asset.create({ ...input, organisation_id: actor.organisationId, capacity_l: derivedCapacity(input) }, { transaction });
+    await writeAudit(actor, "asset.create", { type: "asset", id: asset.id }, { name: input.name, kind: input.kind }, transaction);
+    return serialiseAsset(asset);
+  });
+}
+
+/** Returns the updated asset and whether its geometry or mounting changed (its measurements must be recomputed). */
+export async function updateAsset(actor: Actor, id: string, patch: AssetPatch) {
+  const asset = await findAsset(actor.organisationId, id);
+  const merged = { ...serialiseAsset(asset), ...patch };
+  const issues = assetConsistencyIssues(merged);
+  if (issues.length) {
+    throw new HttpError(422, "invalid", issues.map((i) => `${i.path}: ${i.message}`).join("; "), {}, { fields: Object.fromEntries(issues.map((i) => [i.path, i.message])) });
+  }
+  const shapeChanged = "geometry" in patch || "mount_height_m" in patch || "floor_distance_m" in patch || "occupied_below_m" in patch;
+  return getSequelize().transaction(async (transaction) => {
+    await asset.update({ ...patch, capacity_l: derivedCapacity(merged) }, { transaction });
+    await writeAudit(actor, "asset.update", { type: "asset", id }, { ...patch }, transaction);
+    return { asset: serialiseAsset(asset), shapeChanged };
+  });
+}

@@ -1,0 +1,166 @@
+// Manual dips of a tank: recorded by a technician (or imported), listed beside the sensor's level at
+// the dip's time, so a drift or a wrong calibration shows as the difference between the two.
+
+import type { Transaction } from "sequelize";
+import { writeAudit, type Actor } from "./audit";
+import { getSequelize } from "../db/sequelize";
+import { HttpError } from "../http/errors";
+import { tankHeight } from "../geometry/tank-volume";
+import { findAsset } from "./assets";
+import { sqlRows } from "../worker/batch-store";
+import type { RecordDipInput } from "../validations/dip";
+import type { Asset } from "../db/models";
+
+/** How far from a dip's time a measurement may lie and still stand for the sensor at that time. */
+export const SENSOR_MATCH_WINDOW_S = 3600;
+
+export interface AssetChannel {
+  id: string;
+  index: number;
+  device_id: string;
+  device_name: string;
+  face_offset_m: number;
+  calibration_offset_m: number;
+  calibration_scale: number;
+}
+
+/** The channels that measure an asset, first by device name then index (the first is the asset's default). */
+export async function channelsOfAsset(assetId: string, transaction?: Transaction): Promise<AssetChannel[]> {
+  return sqlRows<AssetChannel>(
+    `SELECT c.id, c.index, c.device_id, d.name AS device_name, c.face_offset_m, c.calibration_offset_m, c.calibration_scale
+       FROM channels c JOIN devices d ON d.id = c.device_id
+      WHERE c.asset_id = $1 ORDER BY d.name, c.index`,
+    [assetId],
+    transaction,
+  );
+}
+
+interface DipRow {
+  id: string;
+  at: Date;
+  level_m: number;
+  note: string | null;
+  by_label: string | null;
+  created_at: Date;
+  sensor_at: Date | null;
+  sensor_level_m: number | null;
+  sensor_raw_distance_m: number | null;
+  sensor_distance_m: number | null;
+}
+
+export function serialiseDip(d: DipRow) {
+  return {
+    id: d.id,
+    at: d.at,
+    level_m: d.level_m,
+    note: d.note,
+    by: d.by_label,
+    created_at: d.created_at,
+    sensor:
+      d.sensor_at === null
+        ? null
+        : { at: d.sensor_at, level_m: d.sensor_level_m, raw_distance_m: d.sensor_raw_distance_m, distance_m: d.sensor_distance_m },
+    /** Sensor level − dipped level; positive when the sensor reads high. */
+    difference_m: d.sensor_level_m === null ? null : d.sensor_level_m - d.level_m,
+  };
+}
+export type DipJson = ReturnType<typeof serialiseDip>;
+
+// The nearest valid measurement of the channel within the window: one index probe each side of the dip.
+const SENSOR_AT_DIP = `
+  LEFT JOIN LATERAL (
+    SELECT * FROM (
+      (SELECT m.at, m.level_m, m.raw_distance_m, m.distance_m FROM measurements m
+        WHERE m.channel_id = $2 AND m.status = 'ok' AND m.at <= d.at AND m.at >= d.at - make_interval(secs => $3)
+        ORDER BY m.at DESC LIMIT 1)
+      UNION ALL
+      (SELECT m.at, m.level_m, m.raw_distance_m, m.distance_m FROM measurements m
+        WHERE m.channel_id = $2 AND m.status = 'ok' AND m.at > d.at AND m.at <= d.at + make_interval(secs => $3)
+        ORDER BY m.at ASC LIMIT 1)
+    ) near ORDER BY abs(extract(epoch FROM near.at - d.at)) LIMIT 1
+  ) s ON true`;
+
+const DIP_COLUMNS = `d.id, d.at, d.level_m, d.note, d.created_at, coalesce(u.name, u.email) AS by_label,
+  s.at AS sensor_at, s.level_m AS sensor_level_m, s.raw_distance_m AS sensor_raw_distance_m, s.distance_m AS sensor_distance_m`;
+
+/** The asset's dips, newest first, each with the channel's level nearest its time. */
+export async function listDips(organisationId: string, assetId: string, channelId: string | null, limit = 200) {
+  await findAsset(organisationId, assetId);
+  const rows = await sqlRows<DipRow>(
+    `SELECT ${DIP_COLUMNS}
+       FROM manual_dips d LEFT JOIN users u ON u.id = d.by_user_id
+       ${SENSOR_AT_DIP}
+      WHERE d.asset_id = $1
+      ORDER BY d.at DESC LIMIT $4`,
+    [assetId, channelId, SENSOR_MATCH_WINDOW_S, limit],
+  );
+  return rows.map(serialiseDip);
+}
+
+/** The chosen dips of an asset with the channel's measurement at each; unknown ids are left out. */
+export async function dipsWithSensor(assetId: string, channelId: string, dipIds: readonly string[], transaction?: Transaction) {
+  const rows = await sqlRows<DipRow>(
+    `SELECT ${DIP_COLUMNS}
+       FROM manual_dips d LEFT JOIN users u ON u.id = d.by_user_id
+       ${SENSOR_AT_DIP}
+      WHERE d.asset_id = $1 AND d.id = ANY($4::uuid[])
+      ORDER BY d.at`,
+    [assetId, channelId, SENSOR_MATCH_WINDOW_S, dipIds],
+    transaction,
+  );
+  return rows.map(serialiseDip);
+}
+
+/** The highest level a dip can have: the tank's height, or the sensor's mounting height when the shape is unknown. */
+export function maxDipLevel(asset: Pick<Asset, "geometry" | "mount_height_m">): number | null {
+  return asset.geometry ? tankHeight(asset.geometry) : (asset.mount_height_m ?? null);
+}
+
+export function assertDippable(asset: Pick<Asset, "kind" | "geometry" | "mount_height_m">) {
+  if (asset.kind !== "tank") throw new HttpError(422, "invalid", "Manual dips are taken on tanks; this asset is not a tank.");
+}
+
+export interface NewDip {
+  at: Date;
+  level_m: number;
+  note: string | null;
+}
+
+/** Inserts dips in one statement; returns the ids in input order. Used by the form and by imports. */
+export async function insertDips(assetId: string, userId: string | null, dips: readonly NewDip[], transaction: Transaction): Promise<string[]> {
+  if (dips.length === 0) return [];
+  const rows = await sqlRows<{ id: string }>(
+    `INSERT INTO manual_dips (asset_id, at, level_m, note, by_user_id)
+     SELECT $1, v.at, v.level_m, v.note, $2 FROM unnest($3::timestamptz[], $4::float8[], $5::text[]) WITH ORDINALITY AS v(at, level_m, note, n)
+     ORDER BY v.n
+     RETURNING id`,
+    [assetId, userId, dips.map((d) => d.at), dips.map((d) => d.level_m), dips.map((d) => d.note)],
+    transaction,
+  );
+  return rows.map((r) => r.id);
+}
+
+/** Dip times of the asset that are already recorded, among those given (a dip is once per time). */
+export async function existingDipTimes(assetId: string, times: readonly Date[], transaction?: Transaction): Promise<Set<number>> {
+  if (times.length === 0) return new Set();
+  const rows = await sqlRows<{ at: Date }>(`SELECT at FROM manual_dips WHERE asset_id = $1 AND at = ANY($2::timestamptz[])`, [assetId, times], transaction);
+  return new Set(rows.map((r) => new Date(r.at).getTime()));
+}
+
+export async function recordDip(actor: Actor, assetId: string, input: RecordDipInput) {
+  const asset = await findAsset(actor.organisationId, assetId);
+  assertDippable(asset);
+  const max = maxDipLevel(asset);
+  if (max !== null && input.level_m > max + 1e-9) {
+    throw new HttpError(422, "invalid", `level_m: the tank is ${max.toFixed(3)} m tall; a dip cannot read higher.`, {}, { fields: { level_m: `The tank is ${max.toFixed(3)} m tall; a dip cannot read higher.` } });
+  }
+  const at = input.at ? new Date(input.at) : new Date();
+  return getSequelize().transaction(async (transaction) => {
+    if ((await existingDipTimes(assetId, [at], transaction)).size) {
+      throw new HttpError(409, "conflict", "A dip at this exact time is already recorded for this tank.");
+    }
+    const [id] = await insertDips(assetId, actor.userId, [{ at, level_m: input.level_m, note: input.note || null }], transaction);
+    await writeAudit(actor, "dip.record", { type: "asset", id: assetId }, { dip_id: id, at: at.toISOString(), level_m: input.level_m }, transaction);
+    return id;
+  });
+}

@@ -1,0 +1,233 @@
+// CSV exports as streams of row batches: each batch is one keyset-paged query (a cursor that survives
+// between pulls without holding a connection), so a year of measurements never sits in memory.
+
+import { HttpError } from "../http/errors";
+import type { CsvValue } from "../csv/write";
+import type { ExportRange } from "../validations/export";
+import { refillPlan } from "../read-models/refill-plan";
+import { sqlRows } from "../worker/batch-store";
+
+export const EXPORT_BATCH_ROWS = 5000;
+
+type Batches = AsyncGenerator<CsvValue[][]>;
+
+export const MEASUREMENT_COLUMNS = [
+  "site",
+  "asset",
+  "asset_id",
+  "device",
+  "channel",
+  "at",
+  "status",
+  "tof_us",
+  "air_temp_c",
+  "temp_source",
+  "speed_of_sound_ms",
+  "raw_distance_m",
+  "distance_m",
+  "level_m",
+  "volume_l",
+  "fill_pct",
+  "ullage_l",
+  "occupied",
+  "uncertainty_m",
+] as const;
+
+interface ExportAsset {
+  id: string;
+  name: string;
+  site_name: string;
+}
+
+/** The chosen assets of the organisation, in the order given; an unknown id is 404 before anything streams. */
+export async function exportAssets(organisationId: string, assetIds: readonly string[]): Promise<ExportAsset[]> {
+  const rows = await sqlRows<ExportAsset>(
+    `SELECT a.id, a.name, s.name AS site_name FROM assets a JOIN sites s ON s.id = a.site_id WHERE a.organisation_id = $1 AND a.id = ANY($2::uuid[])`,
+    [organisationId, assetIds],
+  );
+  const byId = new Map(rows.map((r) => [r.id, r]));
+  const missing = assetIds.filter((id) => !byId.has(id));
+  if (missing.length) throw new HttpError(404, "not_found", `${missing.length === 1 ? "An asset" : `${missing.length} assets`} of the export was not found.`);
+  return assetIds.map((id) => byId.get(id)!);
+}
+
+interface MeasurementRow {
+  reading_id: string;
+  at: Date;
+  device_name: string;
+  channel_index: number;
+  status: string;
+  tof_us: number | null;
+  air_temp_c: number | null;
+  temp_source: string | null;
+  speed_of_sound_ms: number | null;
+  raw_distance_m: number | null;
+  distance_m: number | null;
+  level_m: number | null;
+  volume_l: number | null;
+  fill_pct: number | null;
+  ullage_l: number | null;
+  occupied: boolean | null;
+  uncertainty_m: number | null;
+}
+
+/** Measurements of each asset in [from, to), asset by asset and channel by channel in time order. */
+export async function* measurementBatches(assets: readonly ExportAsset[], range: ExportRange): Batches {
+  for (const asset of assets) {
+    // Channels measuring the asset now, and any that did in the past (a replaced device).
+    const channels = await sqlRows<{ id: string }>(
+      `SELECT id FROM channels WHERE asset_id = $1
+       UNION SELECT DISTINCT channel_id FROM measurement_rollups WHERE asset_id = $1 AND bucket_s = 3600 AND bucket_start >= $2 AND bucket_start < $3`,
+      [asset.id, new Date(range.from.getTime() - 3_600_000), range.to],
+    );
+    for (const channel of channels) {
+      let after: { at: Date; id: string } = { at: new Date(range.from.getTime() - 1), id: "9223372036854775807" };
+      for (;;) {
+        const rows = await sqlRows<MeasurementRow>(
+          `SELECT m.reading_id, m.at, d.name AS device_name, m.channel_index, m.status, m.tof_us, m.air_temp_c, m.temp_source, m.speed_of_sound_ms,
+                  m.raw_distance_m, m.distance_m, m.level_m, m.volume_l, m.fill_pct, m.ullage_l, m.occupied, m.uncertainty_m
+             FROM measurements m JOIN devices d ON d.id = m.device_id
+            WHERE m.channel_id = $1 AND m.asset_id = $2 AND m.at >= $3 AND m.at < $4 AND (m.at, m.reading_id) > ($5, $6::bigint)
+            ORDER BY m.at, m.reading_id LIMIT $7`,
+          [channel.id, asset.id, range.from, range.to, after.at, after.id, EXPORT_BATCH_ROWS],
+        );
+        if (rows.length === 0) break;
+        yield rows.map((m) => [
+          asset.site_name,
+          asset.name,
+          asset.id,
+          m.device_name,
+          m.channel_index,
+          new Date(m.at),
+          m.status,
+          m.tof_us,
+          m.air_temp_c,
+          m.temp_source,
+          m.speed_of_sound_ms,
+          m.raw_distance_m,
+          m.distance_m,
+          m.level_m,
+          m.volume_l,
+          m.fill_pct,
+          m.ullage_l,
+          m.occupied,
+          m.uncertainty_m,
+        ]);
+        const last = rows[rows.length - 1];
+        after = { at: new Date(last.at), id: last.reading_id };
+        if (rows.length < EXPORT_BATCH_ROWS) break;
+      }
+    }
+  }
+}
+
+export const ALARM_EVENT_COLUMNS = [
+  "at",
+  "site",
+  "asset",
+  "alarm_kind",
+  "priority",
+  "event",
+  "from_state",
+  "to_state",
+  "cause",
+  "value",
+  "setpoint",
+  "unit",
+  "by",
+  "comment",
+  "alarm_id",
+] as const;
+
+interface AlarmEventRow {
+  id: string;
+  at: Date;
+  site_name: string;
+  asset_name: string | null;
+  alarm_kind: string;
+  priority: string | null;
+  kind: string;
+  from_state: string | null;
+  to_state: string | null;
+  cause: string;
+  value: number | null;
+  setpoint: number | null;
+  unit: string | null;
+  actor_label: string | null;
+  comment: string | null;
+  alarm_id: string;
+}
+
+/** Every alarm event (activations, acknowledgements, shelving, notifications…) in [from, to), in time order. */
+export async function* alarmEventBatches(organisationId: string, range: ExportRange): Batches {
+  let after: { at: Date; id: string } = { at: new Date(range.from.getTime() - 1), id: "0" };
+  for (;;) {
+    const rows = await sqlRows<AlarmEventRow>(
+      `SELECT e.id, e.at, s.name AS site_name, a.name AS asset_name, al.kind AS alarm_kind, coalesce(e.priority, al.priority) AS priority,
+              e.kind, e.from_state, e.to_state, e.cause, e.value, e.setpoint, al.unit, e.actor_label, e.comment, e.alarm_id
+         FROM alarm_events e JOIN alarms al ON al.id = e.alarm_id JOIN sites s ON s.id = al.site_id LEFT JOIN assets a ON a.id = al.asset_id
+        WHERE e.organisation_id = $1 AND e.at >= $2 AND e.at < $3 AND (e.at, e.id) > ($4, $5::bigint)
+        ORDER BY e.at, e.id LIMIT $6`,
+      [organisationId, range.from, range.to, after.at, after.id, EXPORT_BATCH_ROWS],
+    );
+    if (rows.length === 0) return;
+    yield rows.map((e) => [
+      new Date(e.at),
+      e.site_name,
+      e.asset_name,
+      e.alarm_kind,
+      e.priority,
+      e.kind,
+      e.from_state,
+      e.to_state,
+      e.cause,
+      e.value,
+      e.setpoint,
+      e.unit,
+      e.actor_label,
+      e.comment,
+      e.alarm_id,
+    ]);
+    const last = rows[rows.length - 1];
+    after = { at: new Date(last.at), id: last.id };
+    if (rows.length < EXPORT_BATCH_ROWS) return;
+  }
+}
+
+export const REFILL_PLAN_COLUMNS = [
+  "due_at",
+  "site",
+  "tank",
+  "reason",
+  "days_to_reorder",
+  "days_to_empty",
+  "current_volume_l",
+  "fill_pct",
+  "capacity_l",
+  "safe_fill_pct",
+  "deliver_l",
+  "measured_at",
+  "asset_id",
+] as const;
+
+const round = (x: number | null, digits: number) => (x === null ? null : Math.round(x * 10 ** digits) / 10 ** digits);
+
+/** The refill plan is short (one row a tank): one batch. */
+export async function* refillPlanBatches(organisationId: string, options: { horizonDays: number; siteId?: string }): Batches {
+  const plan = await refillPlan(organisationId, options);
+  yield plan.items.map((r) => [
+    r.due_at,
+    r.site_name,
+    r.asset_name,
+    r.reason,
+    round(r.days_to_reorder, 2),
+    round(r.days_to_empty, 2),
+    round(r.current_volume_l, 1),
+    round(r.fill_pct, 1),
+    round(r.capacity_l, 1),
+    r.safe_fill_pct,
+    round(r.deliver_l, 1),
+    r.measured_at,
+    r.asset_id,
+  ]);
+}

@@ -1,0 +1,74 @@
+import { QueryTypes } from "sequelize";
+import { writeAudit, type Actor } from "./audit";
+import { initModels, Site } from "../db/models";
+import { getSequelize } from "../db/sequelize";
+import { HttpError, notFound } from "../http/errors";
+import type { SiteInput } from "../validations/site";
+import { requestSiteRecompute } from "../worker/recompute";
+
+export function serialiseSite(s: Site) {
+  return {
+    id: s.id,
+    name: s.name,
+    time_zone: s.time_zone,
+    latitude: s.latitude ?? null,
+    longitude: s.longitude ?? null,
+    air_temp_c: s.air_temp_c ?? null,
+    humidity_pct: s.humidity_pct ?? null,
+    temperature_channel_id: s.temperature_channel_id ?? null,
+    escalation_delay_min: s.escalation_delay_min,
+    created_at: s.created_at,
+    updated_at: s.updated_at,
+  };
+}
+export type SiteJson = ReturnType<typeof serialiseSite>;
+
+export async function listSites(organisationId: string) {
+  initModels();
+  const sites = await Site.findAll({ where: { organisation_id: organisationId }, order: [["name", "ASC"]] });
+  return sites.map(serialiseSite);
+}
+
+export async function findSite(organisationId: string, id: string): Promise<Site> {
+  initModels();
+  const site = await Site.findOne({ where: { id, organisation_id: organisationId } });
+  if (!site) throw notFound("That site");
+  return site;
+}
+
+async function assertTemperatureChannel(organisationId: string, channelId: string | null | undefined) {
+  if (!channelId) return;
+  const rows = await getSequelize().query(
+    `SELECT 1 FROM channels c JOIN devices d ON d.id = c.device_id WHERE c.id = :channelId AND d.organisation_id = :organisationId`,
+    { replacements: { channelId, organisationId }, type: QueryTypes.SELECT },
+  );
+  if (!rows.length) throw new HttpError(422, "invalid", "temperature_channel_id: no such channel in your organisation.", {}, { fields: { temperature_channel_id: "No such channel in your organisation." } });
+}
+
+export async function createSite(actor: Actor, input: SiteInput) {
+  initModels();
+  await assertTemperatureChannel(actor.organisationId, input.temperature_channel_id);
+  return getSequelize().transaction(async (transaction) => {
+    const site = await Site.create({ ...input, organisation_id: actor.organisationId }, { transaction });
+    await writeAudit(actor, "site.create", { type: "site", id: site.id }, { ...input }, transaction);
+    return serialiseSite(site);
+  });
+}
+
+// The fields the worker's air temperature (and so every distance measured at the site) depends on.
+const TEMPERATURE_FIELDS = ["air_temp_c", "humidity_pct", "temperature_channel_id"] as const;
+
+export async function updateSite(actor: Actor, id: string, patch: Partial<SiteInput>) {
+  const site = await findSite(actor.organisationId, id);
+  await assertTemperatureChannel(actor.organisationId, patch.temperature_channel_id);
+  const before = Object.fromEntries(TEMPERATURE_FIELDS.map((f) => [f, site[f] ?? null]));
+  return getSequelize().transaction(async (transaction) => {
+    await site.update(patch, { transaction });
+    const changed = TEMPERATURE_FIELDS.filter((f) => f in patch && (site[f] ?? null) !== before[f]);
+    const recompute = changed.length
+      ? await requestSiteRecompute(id, { reason: `site ${changed.join(", ")} changed`, temperatureChannelId: changed.includes("temperature_channel_id") ? (site.temperature_channel_id ?? null) : null }, transaction)
+      : [];
+    await writeAudit(actor, "site.update", { type: "site", id }, { ...patch, ...(recompute.length ? { recompute_request_ids: recompute } : {}) }, transaction);
+    return serialiseSite(site);
+  });
+}

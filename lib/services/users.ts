@@ -1,0 +1,106 @@
+import { Op } from "sequelize";
+import { writeAudit, type Actor } from "./audit";
+import { initModels, Invite, User } from "../db/models";
+import { getSequelize } from "../db/sequelize";
+import { hashPassword } from "../auth/passwords";
+import { createSignedToken, verifySignedToken } from "../auth/invite-token";
+import type { InviteUserInput } from "../validations/user";
+import type { Role } from "../auth/permissions";
+import { HttpError, notFound, conflict } from "../http/errors";
+
+export const INVITE_TTL_HOURS = 72;
+const INVITE_PURPOSE = "invite";
+
+export interface UserRow {
+  id: string;
+  email: string;
+  name: string;
+  role: Role;
+  status: string;
+  created_at: string;
+}
+
+function toRow(u: User): UserRow {
+  return { id: u.id, email: u.email, name: u.name, role: u.role, status: u.status, created_at: new Date(u.created_at).toISOString() };
+}
+
+export async function listUsers(organisationId: string): Promise<UserRow[]> {
+  initModels();
+  const users = await User.findAll({ where: { organisation_id: organisationId }, order: [["email", "ASC"]] });
+  return users.map(toRow);
+}
+
+/** Creates the invited user and a single-use invite; returns the link token to e-mail. */
+export async function inviteUser(actor: Actor, input: InviteUserInput): Promise<{ user: UserRow; token: string }> {
+  initModels();
+  return getSequelize().transaction(async (transaction) => {
+    const existing = await User.findOne({ where: { email: { [Op.iLike]: input.email } }, transaction });
+    if (existing) throw conflict("A user with this e-mail already exists.");
+    const user = await User.create(
+      { organisation_id: actor.organisationId, email: input.email, name: input.name, role: input.role, status: "invited" },
+      { transaction },
+    );
+    const expiresAt = new Date(Date.now() + INVITE_TTL_HOURS * 3600_000);
+    const invite = await Invite.create({ user_id: user.id, invited_by: actor.userId, expires_at: expiresAt }, { transaction });
+    await writeAudit(actor, "user.invite", { type: "user", id: user.id }, { email: input.email, role: input.role }, transaction);
+    return { user: toRow(user), token: createSignedToken(invite.id, expiresAt, INVITE_PURPOSE) };
+  });
+}
+
+export async function updateUser(actor: Actor, id: string, patch: { role?: Role; status?: "active" | "deactivated"; name?: string }) {
+  initModels();
+  return getSequelize().transaction(async (transaction) => {
+    const user = await User.findOne({ where: { id, organisation_id: actor.organisationId }, transaction, lock: true });
+    if (!user) throw notFound("That user");
+    if (user.id === actor.userId && (patch.status === "deactivated" || (patch.role && patch.role !== "admin"))) {
+      throw new HttpError(422, "invalid", "You cannot deactivate yourself or remove your own admin role; ask another admin.");
+    }
+    if (patch.status === "active" && user.status === "invited") {
+      throw new HttpError(422, "invalid", "An invited user becomes active by setting a password from the invite link.");
+    }
+    const before = { role: user.role, status: user.status, name: user.name };
+    await user.update(patch, { transaction });
+    await writeAudit(actor, "user.update", { type: "user", id }, { before, after: patch }, transaction);
+    return toRow(user);
+  });
+}
+
+export type InviteLookup =
+  | { ok: true; inviteId: string; email: string }
+  | { ok: false; reason: "malformed" | "bad_signature" | "expired" | "used" | "unknown" };
+
+export async function lookUpInvite(token: string): Promise<InviteLookup> {
+  const check = verifySignedToken(token, INVITE_PURPOSE);
+  if (!check.ok) return check;
+  initModels();
+  const invite = await Invite.findByPk(check.id);
+  if (!invite) return { ok: false, reason: "unknown" };
+  if (invite.used_at) return { ok: false, reason: "used" };
+  if (invite.expires_at <= new Date()) return { ok: false, reason: "expired" };
+  const user = await User.findByPk(invite.user_id);
+  if (!user || user.status === "deactivated") return { ok: false, reason: "unknown" };
+  return { ok: true, inviteId: invite.id, email: user.email };
+}
+
+/** Sets the password once: the invite row is locked and marked used in the same transaction. */
+export async function acceptInvite(token: string, password: string): Promise<InviteLookup> {
+  const found = await lookUpInvite(token);
+  if (!found.ok) return found;
+  const hash = await hashPassword(password);
+  return getSequelize().transaction(async (transaction) => {
+    const invite = await Invite.findByPk(found.inviteId, { transaction, lock: true });
+    if (!invite || invite.used_at) return { ok: false, reason: "used" } as const;
+    const user = await User.findByPk(invite.user_id, { transaction, lock: true });
+    if (!user) return { ok: false, reason: "unknown" } as const;
+    await invite.update({ used_at: new Date() }, { transaction });
+    await User.update({ password_hash: hash, status: "active" }, { where: { id: user.id }, transaction });
+    await writeAudit(
+      { organisationId: user.organisation_id, userId: user.id, label: user.email },
+      "user.accept_invite",
+      { type: "user", id: user.id },
+      {},
+      transaction,
+    );
+    return found;
+  });
+}

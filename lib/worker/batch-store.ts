@@ -1,0 +1,297 @@
+// Set-based reads and writes the worker shares between its queue batches and its recomputes: one
+// statement per table per batch, arrays passed as parameters and unnested in SQL, never a query per
+// reading.
+
+import { QueryTypes, type Transaction } from "sequelize";
+import { getSequelize } from "../db/sequelize";
+import { decodeBinaryArray, queryArrayRow, sendArray } from "./binary-arrays";
+import { QUEUED_READING_COLUMNS } from "./reading-queue";
+import type { TankGeometry } from "../geometry/tank-volume";
+import { parseChannelState } from "./compute/channel-state";
+import type { FlagChanges } from "./compute/health";
+import type { NewTemperatureSample, SessionRow, StoredChannelState } from "./compute/batch";
+import { PIPELINE_SETTINGS } from "./compute/settings";
+import type { TemperatureSample } from "./compute/air-temperature";
+import type { AssetKind, ChannelConfig, ReadingRow, SignalProfile } from "./compute/types";
+
+export async function sqlRows<T extends object>(sql: string, bind: unknown[], transaction?: Transaction): Promise<T[]> {
+  return getSequelize().query<T>(sql, { bind, type: QueryTypes.SELECT, transaction });
+}
+
+export async function sqlRun(sql: string, bind: unknown[], transaction?: Transaction): Promise<void> {
+  await getSequelize().query(sql, { bind, type: QueryTypes.RAW, transaction });
+}
+
+// ── Readings ────────────────────────────────────────────────────────────────────────────────────
+
+// Readings come back as one row of binary arrays, a column each: formatting 25 000 rows' floats and
+// times as text (or JSON) cost PostgreSQL more than finding them.
+const READING_COLUMNS = ["id", "at", ...QUEUED_READING_COLUMNS];
+// A burst's samples travel as their own binary array inside a bytea element.
+const READING_ARRAYS = READING_COLUMNS.map((c) => `${sendArray(`array_agg(${c === "samples_us" ? "array_send(r.samples_us)" : `r.${c}`})`)} AS ${c}`).join(", ");
+
+
+function readingsFromColumns(row: Record<string, Buffer | null>): ReadingRow[] {
+  const id = decodeBinaryArray(row.id, "int8");
+  const deviceId = decodeBinaryArray(row.device_id, "uuid");
+  const channel = decodeBinaryArray(row.channel, "int2");
+  const at = decodeBinaryArray(row.at, "timestamptz");
+  const echoUs = decodeBinaryArray(row.echo_us, "float8");
+  const ticks = decodeBinaryArray(row.ticks, "int8");
+  const overflows = decodeBinaryArray(row.overflows, "int4");
+  const samplesUs = decodeBinaryArray(row.samples_us, "bytea");
+  const pulseUs = decodeBinaryArray(row.pulse_us, "float8");
+  const highUs = decodeBinaryArray(row.high_us, "float8");
+  const periodUs = decodeBinaryArray(row.period_us, "float8");
+  const airTempC = decodeBinaryArray(row.air_temp_c, "float8");
+  const readings = new Array<ReadingRow>(id.length);
+  for (let i = 0; i < id.length; i++) {
+    readings[i] = {
+      id: id[i]!,
+      deviceId: deviceId[i]!,
+      channel: channel[i]!,
+      at: new Date(Math.floor(at[i]! / 1000)),
+      atMicros: at[i]!,
+      echoUs: echoUs[i],
+      ticks: ticks[i],
+      overflows: overflows[i],
+      samplesUs: samplesUs[i] === null ? null : (decodeBinaryArray(samplesUs[i], "float8") as number[]),
+      pulseUs: pulseUs[i],
+      highUs: highUs[i],
+      periodUs: periodUs[i],
+      airTempC: airTempC[i],
+    };
+  }
+  return readings;
+}
+
+const byTimeThenId = (a: ReadingRow, b: ReadingRow) => a.atMicros! - b.atMicros! || a.id - b.id;
+
+/**
+ * SQL for the readings of a source that names its rows `r` (e.g. "readings r WHERE …", with `id`,
+ * `at` and the queued columns) as one row of binary arrays.
+ */
+export const readingsAsArrays = (source: string) => `SELECT ${READING_ARRAYS} FROM (SELECT ${READING_COLUMNS.map((c) => `r.${c}`).join(", ")} FROM ${source}) r`;
+
+/** Readings of a statement built with readingsAsArrays, in time order (then id); ids and microsecond times stay below 2^53. */
+export async function fetchReadings(sql: string, bind: unknown[], transaction: Transaction): Promise<ReadingRow[]> {
+  const row = await queryArrayRow(transaction, sql, bind);
+  const readings = row ? readingsFromColumns(row) : [];
+  for (let i = 1; i < readings.length; i++) {
+    if (byTimeThenId(readings[i - 1], readings[i]) > 0) return readings.sort(byTimeThenId);
+  }
+  return readings;
+}
+
+/** SQL for a timestamptz from microseconds since 1970, exact (a Date would round to milliseconds). */
+export const MICROS_TO_TIMESTAMPTZ = (param: string) => `(timestamptz 'epoch' + ${param}::bigint * interval '1 microsecond')`;
+
+// ── Configuration ───────────────────────────────────────────────────────────────────────────────
+
+interface ChannelDbRow {
+  channel_id: string;
+  index: number;
+  min_range_m: number;
+  max_range_m: number;
+  face_offset_m: number;
+  calibration_offset_m: number;
+  calibration_scale: number;
+  device_id: string;
+  site_id: string;
+  profile: SignalProfile;
+  clock_hz: number | null;
+  prescaler: number | null;
+  timer_bits: number | null;
+  us_per_mm: number | null;
+  zero_m: number | null;
+  span_m: number | null;
+  expected_interval_s: number;
+  site_air_temp_c: number | null;
+  humidity_pct: number | null;
+  asset_id: string | null;
+  kind: AssetKind | null;
+  mount_height_m: number | null;
+  capacity_l: number | null;
+  geometry: TankGeometry | null;
+  floor_distance_m: number | null;
+  occupied_below_m: number | null;
+  reorder_pct: number | null;
+}
+
+const CHANNEL_SELECT = `
+  SELECT c.id AS channel_id, c.index, c.min_range_m, c.max_range_m, c.face_offset_m, c.calibration_offset_m, c.calibration_scale,
+         d.id AS device_id, d.site_id, d.profile, d.clock_hz, d.prescaler, d.timer_bits, d.us_per_mm, d.zero_m, d.span_m, d.expected_interval_s,
+         s.air_temp_c AS site_air_temp_c, s.humidity_pct,
+         a.id AS asset_id, a.kind, a.mount_height_m, a.capacity_l, a.geometry, a.floor_distance_m, a.occupied_below_m, a.reorder_pct
+  FROM channels c
+  JOIN devices d ON d.id = c.device_id
+  JOIN sites s ON s.id = d.site_id
+  LEFT JOIN assets a ON a.id = c.asset_id`;
+
+function toChannelConfig(r: ChannelDbRow): ChannelConfig {
+  return {
+    id: r.channel_id,
+    index: r.index,
+    minRangeM: r.min_range_m,
+    maxRangeM: r.max_range_m,
+    faceOffsetM: r.face_offset_m,
+    calibrationOffsetM: r.calibration_offset_m,
+    calibrationScale: r.calibration_scale,
+    device: {
+      id: r.device_id,
+      siteId: r.site_id,
+      profile: r.profile,
+      clockHz: r.clock_hz,
+      prescaler: r.prescaler,
+      timerBits: r.timer_bits,
+      usPerMm: r.us_per_mm,
+      zeroM: r.zero_m,
+      spanM: r.span_m,
+      expectedIntervalS: r.expected_interval_s,
+    },
+    site: { id: r.site_id, airTempC: r.site_air_temp_c, humidityPct: r.humidity_pct },
+    asset:
+      r.asset_id === null || r.kind === null
+        ? null
+        : {
+            id: r.asset_id,
+            kind: r.kind,
+            mountHeightM: r.mount_height_m,
+            capacityL: r.capacity_l,
+            geometry: r.geometry,
+            floorDistanceM: r.floor_distance_m,
+            occupiedBelowM: r.occupied_below_m,
+            reorderPct: r.reorder_pct,
+          },
+  };
+}
+
+/** Every channel of the given devices, as the pipeline needs them. */
+export async function loadChannelsOfDevices(deviceIds: string[], transaction?: Transaction): Promise<ChannelConfig[]> {
+  if (deviceIds.length === 0) return [];
+  const rows = await sqlRows<ChannelDbRow>(`${CHANNEL_SELECT} WHERE c.device_id = ANY($1::uuid[])`, [deviceIds], transaction);
+  return rows.map(toChannelConfig);
+}
+
+export async function loadChannel(channelId: string, transaction?: Transaction): Promise<ChannelConfig | null> {
+  const rows = await sqlRows<ChannelDbRow>(`${CHANNEL_SELECT} WHERE c.id = $1`, [channelId], transaction);
+  return rows.length ? toChannelConfig(rows[0]) : null;
+}
+
+/** Channel id → the sites that take it as their temperature channel. */
+export async function loadTemperatureChannelSites(channelIds: string[], transaction?: Transaction): Promise<Map<string, string[]>> {
+  const map = new Map<string, string[]>();
+  if (channelIds.length === 0) return map;
+  const rows = await sqlRows<{ id: string; temperature_channel_id: string }>(
+    `SELECT id, temperature_channel_id FROM sites WHERE temperature_channel_id = ANY($1::uuid[])`,
+    [channelIds],
+    transaction,
+  );
+  for (const r of rows) map.set(r.temperature_channel_id, [...(map.get(r.temperature_channel_id) ?? []), r.id]);
+  return map;
+}
+
+/** Stored temperature samples of the sites, around [from, to] by the interpolation gap. */
+export async function loadTemperatureSamples(siteIds: string[], from: Date, to: Date, transaction?: Transaction): Promise<Map<string, TemperatureSample[]>> {
+  const map = new Map<string, TemperatureSample[]>();
+  if (siteIds.length === 0) return map;
+  const rows = await sqlRows<{ site_id: string; at: Date; air_temp_c: number }>(
+    `SELECT site_id, at, air_temp_c FROM temperature_samples
+     WHERE site_id = ANY($1::uuid[]) AND at BETWEEN $2::timestamptz - make_interval(secs => $4) AND $3::timestamptz + make_interval(secs => $4)`,
+    [siteIds, from, to, PIPELINE_SETTINGS.tempInterpolationMaxGapS],
+    transaction,
+  );
+  for (const r of rows) {
+    const list = map.get(r.site_id) ?? [];
+    list.push({ atMs: r.at.getTime(), airTempC: r.air_temp_c });
+    map.set(r.site_id, list);
+  }
+  return map;
+}
+
+// ── Channel state ───────────────────────────────────────────────────────────────────────────────
+
+export interface LockedChannelState extends StoredChannelState {
+  /** The row's version when it was locked; every write adds one. */
+  version: number;
+}
+
+/**
+ * Locks the channels' state rows (creating missing ones) in channel-id order, so two workers that
+ * share channels wait for each other instead of deadlocking or interleaving a channel's history.
+ */
+export async function lockChannelStates(channelIds: string[], transaction: Transaction): Promise<Map<string, LockedChannelState>> {
+  const map = new Map<string, LockedChannelState>();
+  if (channelIds.length === 0) return map;
+  const sorted = [...new Set(channelIds)].sort();
+  await sqlRun(`INSERT INTO channel_state (channel_id) SELECT unnest($1::uuid[]) ON CONFLICT DO NOTHING`, [sorted], transaction);
+  const rows = await sqlRows<{ channel_id: string; state: unknown; offline_since: Date | null; version: string }>(
+    `SELECT channel_id, state, offline_since, version FROM channel_state WHERE channel_id = ANY($1::uuid[]) ORDER BY channel_id FOR UPDATE`,
+    [sorted],
+    transaction,
+  );
+  for (const r of rows) map.set(r.channel_id, { state: parseChannelState(r.state), offlineSince: r.offline_since, version: Number(r.version) });
+  return map;
+}
+
+
+// ── Sessions, temperature samples, flags ────────────────────────────────────────────────────────
+
+export async function upsertSessions(sessions: readonly SessionRow[], transaction: Transaction): Promise<void> {
+  if (sessions.length === 0) return;
+  await sqlRun(
+    `INSERT INTO occupancy_sessions (asset_id, channel_id, started_at, ended_at, duration_s)
+     SELECT * FROM unnest($1::uuid[], $2::uuid[], $3::timestamptz[], $4::timestamptz[], $5::float8[])
+     ON CONFLICT (channel_id, started_at) DO UPDATE SET ended_at = excluded.ended_at, duration_s = excluded.duration_s`,
+    [sessions.map((s) => s.assetId), sessions.map((s) => s.channelId), sessions.map((s) => s.start), sessions.map((s) => s.end), sessions.map((s) => s.durationS)],
+    transaction,
+  );
+}
+
+export async function insertTemperatureSamples(samples: readonly NewTemperatureSample[], transaction: Transaction): Promise<void> {
+  if (samples.length === 0) return;
+  // One value per (site, time): the last one in the batch wins, as a later resend would.
+  const unique = new Map<string, NewTemperatureSample>();
+  for (const s of samples) unique.set(`${s.siteId}|${s.atMs}`, s);
+  const list = [...unique.values()];
+  await sqlRun(
+    `INSERT INTO temperature_samples (site_id, at, air_temp_c, source)
+     SELECT site_id, at, air_temp_c, 'channel' FROM unnest($1::uuid[], $2::timestamptz[], $3::float8[]) AS v(site_id, at, air_temp_c)
+     ON CONFLICT (site_id, at, source) DO UPDATE SET air_temp_c = excluded.air_temp_c`,
+    [list.map((s) => s.siteId), list.map((s) => new Date(s.atMs)), list.map((s) => s.airTempC)],
+    transaction,
+  );
+}
+
+export async function applyFlagChanges(flags: FlagChanges, offlineCleared: readonly { channelId: string; at: Date }[], transaction: Transaction): Promise<void> {
+  const clears = [...flags.clears, ...offlineCleared.map((o) => ({ channelId: o.channelId, flag: "offline" as const, at: o.at }))];
+  if (clears.length) {
+    await sqlRun(
+      `UPDATE health_flags f SET cleared_at = greatest(f.since, v.at), updated_at = now()
+       FROM unnest($1::uuid[], $2::text[], $3::timestamptz[]) AS v(channel_id, flag, at)
+       WHERE f.channel_id = v.channel_id AND f.flag = v.flag AND f.cleared_at IS NULL`,
+      [clears.map((c) => c.channelId), clears.map((c) => c.flag), clears.map((c) => c.at)],
+      transaction,
+    );
+  }
+  if (flags.intervals.length) {
+    const f = flags.intervals;
+    await sqlRun(
+      `INSERT INTO health_flags (channel_id, flag, since, cleared_at, magnitude, details)
+       SELECT * FROM unnest($1::uuid[], $2::text[], $3::timestamptz[], $4::timestamptz[], $5::float8[], $6::jsonb[])`,
+      [f.map((x) => x.channelId), f.map((x) => x.flag), f.map((x) => x.since), f.map((x) => x.clearedAt), f.map((x) => x.magnitude), f.map((x) => JSON.stringify(x.details))],
+      transaction,
+    );
+  }
+  if (flags.opens.length) {
+    const f = flags.opens;
+    await sqlRun(
+      `INSERT INTO health_flags (channel_id, flag, since, magnitude, details)
+       SELECT * FROM unnest($1::uuid[], $2::text[], $3::timestamptz[], $4::float8[], $5::jsonb[])
+       ON CONFLICT (channel_id, flag) WHERE cleared_at IS NULL
+       DO UPDATE SET magnitude = excluded.magnitude, details = health_flags.details || excluded.details, updated_at = now()`,
+      [f.map((x) => x.channelId), f.map((x) => x.flag), f.map((x) => x.since), f.map((x) => x.magnitude), f.map((x) => JSON.stringify(x.details))],
+      transaction,
+    );
+  }
+}
