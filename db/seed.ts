@@ -1,4 +1,4 @@
-import { initModels, Organisation, User } from "../lib/db/models";
+import { Organisation, User } from "../lib/db/models";
 import { getSequelize } from "../lib/db/sequelize";
 import { hashPassword } from "../lib/auth/passwords";
 import { writeAudit } from "../lib/services/audit";
@@ -12,7 +12,6 @@ async function main() {
     process.stdout.write("[halftrip] production: demo data is not seeded\n");
     return;
   }
-  initModels();
   const sequelize = getSequelize();
   if ((await Organisation.count()) > 0) {
     process.stdout.write("[halftrip] database already has data: seed skipped\n");

@@ -1,11 +1,11 @@
 import type { Actor } from "../../lib/services/audit";
 import { tankHeight, type TankGeometry } from "../../lib/geometry/tank-volume";
-import { initModels, User } from "../../lib/db/models";
-import { rows } from "../../lib/services/alarm-store";
+import { User } from "../../lib/db/models";
 import { putOnCall } from "../../lib/services/on-call";
 import { putSetpoints } from "../../lib/services/alarm-setpoints";
 import { putSetpointsSchema } from "../../lib/validations/setpoint";
 import { DEMO_TANKS } from "./demo-plan";
+import { sqlRows } from "../../lib/db/sql";
 
 // Demo scenario only: alarm setpoints for every demo tank and an on-call list for every demo site, so
 // the simulated fleet raises alarms of its own and their e-mails reach the demo technician, then the
@@ -43,9 +43,8 @@ function demoSetpoints(t: TankRow, heightM: number) {
 
 /** Adds the demo alarm definitions to an organisation; tanks and sites that already have them are left alone. */
 export async function seedDemoAlarms(organisationId: string): Promise<{ tanks: number; sites: number }> {
-  initModels();
   const actor: Actor = { organisationId, userId: null, label: "seed" };
-  const tanks = await rows<TankRow>(
+  const tanks = await sqlRows<TankRow>(
     `SELECT a.id, a.name, a.safe_fill_pct, a.reorder_pct, a.geometry FROM assets a
      WHERE a.organisation_id = :organisationId AND a.kind = 'tank' AND a.geometry IS NOT NULL
        AND NOT EXISTS (SELECT 1 FROM alarm_setpoints sp WHERE sp.asset_id = a.id)
@@ -55,7 +54,7 @@ export async function seedDemoAlarms(organisationId: string): Promise<{ tanks: n
   for (const t of tanks) await putSetpoints(actor, t.id, demoSetpoints(t, tankHeight(t.geometry)));
   const people = await User.findAll({ where: { organisation_id: organisationId, email: DEMO_ON_CALL, status: "active" } });
   const ordered = DEMO_ON_CALL.map((email) => people.find((u) => u.email === email)?.id).filter((id): id is string => !!id);
-  const sites = await rows<{ id: string }>(
+  const sites = await sqlRows<{ id: string }>(
     `SELECT s.id FROM sites s WHERE s.organisation_id = :organisationId AND NOT EXISTS (SELECT 1 FROM on_call_entries oc WHERE oc.site_id = s.id) ORDER BY s.name`,
     { organisationId },
   );

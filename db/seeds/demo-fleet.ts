@@ -1,6 +1,6 @@
 import { Op } from "sequelize";
 import type { Actor } from "../../lib/services/audit";
-import { Channel, Device, DeviceKey, initModels, Organisation, Site } from "../../lib/db/models";
+import { Channel, Device, DeviceKey, Organisation, Site } from "../../lib/db/models";
 import { createAsset } from "../../lib/services/assets";
 import { createDevice, rotateDeviceKey } from "../../lib/services/devices";
 import { createSite, updateSite } from "../../lib/services/sites";
@@ -101,7 +101,6 @@ async function refreshDemoKeys(actor: Actor): Promise<void> {
  * creates it and writes the devices' keys to the keys file; with onlyKeys, makes sure the file's keys work.
  */
 export async function seedDemoFleet({ organisationId, onlyKeys = false }: { organisationId?: string; onlyKeys?: boolean }): Promise<void> {
-  initModels();
   const orgId = organisationId ?? (await Organisation.findOne({ where: { name: DEMO_ORGANISATION } }))?.id;
   if (!orgId) return;
   const actor: Actor = { organisationId: orgId, userId: null, label: "seed" };

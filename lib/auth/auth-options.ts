@@ -1,6 +1,6 @@
 import type { NextAuthOptions } from "next-auth";
 import CredentialsProvider from "next-auth/providers/credentials";
-import { initModels, User } from "../db/models";
+import { User } from "../db/models";
 import { signInSchema } from "../validations/user";
 import { baseAuthConfig } from "./auth-config";
 import { verifyPassword } from "./passwords";
@@ -18,7 +18,6 @@ export const authOptions: NextAuthOptions = {
         const parsed = signInSchema.safeParse(credentials ?? {});
         if (!parsed.success) return null;
         const { email, password } = parsed.data;
-        initModels();
         const user = await User.scope("withPassword").findOne({ where: { email } });
         const ok = await verifyPassword(password, user?.password_hash);
         if (!user || !ok || user.status !== "active") {

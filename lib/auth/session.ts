@@ -1,6 +1,6 @@
 import { getServerSession } from "next-auth";
 import { redirect } from "next/navigation";
-import { initModels, User } from "../db/models";
+import { User } from "../db/models";
 import type { Actor } from "../services/audit";
 import { forbidden, unauthorized } from "../http/errors";
 import { authOptions } from "./auth-options";
@@ -22,7 +22,6 @@ export async function currentUser(): Promise<SessionUser | null> {
   const session = await getServerSession(authOptions);
   const id = session?.user?.id;
   if (!id) return null;
-  initModels();
   const user = await User.findByPk(id);
   if (!user || user.status !== "active") return null;
   return { id: user.id, organisationId: user.organisation_id, role: user.role, email: user.email, name: user.name };

@@ -1,14 +1,15 @@
-import { QueryTypes } from "sequelize";
-import { getSequelize } from "../db/sequelize";
+import { sqlRows, sqlRun } from "../db/sql";
 
 // 10 failed sign-ins for one e-mail within 15 minutes → refuse further attempts until the window moves on.
 export const MAX_FAILURES = 10;
 export const WINDOW_MINUTES = 15;
 
 export async function countRecentFailures(email: string): Promise<number> {
-  const rows = await getSequelize().query<{ n: string }>(
+  // On the primary: a failure recorded a moment ago must count.
+  const rows = await sqlRows<{ n: string }>(
     `SELECT count(*) AS n FROM sign_in_failures WHERE lower(email) = lower(:email) AND at > now() - make_interval(mins => :mins)`,
-    { replacements: { email, mins: WINDOW_MINUTES }, type: QueryTypes.SELECT },
+    { email, mins: WINDOW_MINUTES },
+    { primary: true },
   );
   return Number(rows[0]?.n ?? 0);
 }
@@ -18,9 +19,9 @@ export async function isSignInThrottled(email: string): Promise<boolean> {
 }
 
 export async function recordSignInFailure(email: string) {
-  await getSequelize().query(`INSERT INTO sign_in_failures (email) VALUES (:email)`, { replacements: { email } });
+  await sqlRun(`INSERT INTO sign_in_failures (email) VALUES (:email)`, { email });
 }
 
 export async function clearSignInFailures(email: string) {
-  await getSequelize().query(`DELETE FROM sign_in_failures WHERE lower(email) = lower(:email)`, { replacements: { email } });
+  await sqlRun(`DELETE FROM sign_in_failures WHERE lower(email) = lower(:email)`, { email });
 }

@@ -4,7 +4,7 @@
 import { computeAlarmHealth, type AlarmActivation } from "../alarms/alarm-health";
 import { alarmKindLabel, type AlarmKind } from "../alarms/engine";
 import type { AlarmPriority } from "../alarms/state-machine";
-import { rows } from "../services/alarm-store";
+import { sqlRows } from "../db/sql";
 
 const DAY_MS = 86_400_000;
 /** The benchmarks are stated over 30 days or more (REFERENCES.md §4), so that is the default period. */
@@ -13,7 +13,7 @@ export const DEFAULT_HEALTH_DAYS = 30;
 export async function alarmHealth(organisationId: string, q: { from?: Date; to?: Date; site_id?: string }, now = new Date()) {
   const to = q.to ?? now;
   const from = q.from ?? new Date(to.getTime() - DEFAULT_HEALTH_DAYS * DAY_MS);
-  const found = await rows<{ alarm_id: string; at: Date; priority: AlarmPriority; active_until: Date | null }>(
+  const found = await sqlRows<{ alarm_id: string; at: Date; priority: AlarmPriority; active_until: Date | null }>(
     `SELECT e.alarm_id, e.at, COALESCE(e.priority, al.priority) AS priority, c.at AS active_until
      FROM alarm_events e JOIN alarms al ON al.id = e.alarm_id
      LEFT JOIN LATERAL (
@@ -32,7 +32,7 @@ export async function alarmHealth(organisationId: string, q: { from?: Date; to?:
   const report = computeAlarmHealth(activations, { from, to });
   const keys = [...new Set([...report.top10, ...report.chattering, ...report.stale].map((a) => a.alarmKey))];
   const labels = keys.length
-    ? await rows<{ id: string; kind: AlarmKind; site_name: string; asset_name: string | null; channel_index: number | null; device_name: string | null }>(
+    ? await sqlRows<{ id: string; kind: AlarmKind; site_name: string; asset_name: string | null; channel_index: number | null; device_name: string | null }>(
         `SELECT al.id, al.kind, s.name AS site_name, a.name AS asset_name, ch.index AS channel_index, d.name AS device_name
          FROM alarms al JOIN sites s ON s.id = al.site_id LEFT JOIN assets a ON a.id = al.asset_id
          LEFT JOIN channels ch ON ch.id = al.channel_id LEFT JOIN devices d ON d.id = ch.device_id

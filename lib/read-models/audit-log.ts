@@ -1,8 +1,7 @@
-import { AuditEntry, initModels } from "../db/models";
+import { AuditEntry } from "../db/models";
 import type { AuditQuery } from "../validations/audit";
 
 export async function listAuditEntries(organisationId: string, q: AuditQuery) {
-  initModels();
   const where: Record<string, unknown> = { organisation_id: organisationId };
   if (q.entity_id) where.entity_id = q.entity_id;
   if (q.entity_type) where.entity_type = q.entity_type;

@@ -3,7 +3,7 @@
 // forecast was computed.
 
 import { findAsset } from "../services/assets";
-import { sqlRows } from "../worker/batch-store";
+import { sqlRows } from "../db/sql";
 
 interface ForecastRow {
   asset_id: string;

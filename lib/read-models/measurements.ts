@@ -13,7 +13,7 @@ import {
   type SeriesQuery,
 } from "../validations/measurement";
 import { findAsset } from "../services/assets";
-import { sqlRows } from "../worker/batch-store";
+import { sqlRows } from "../db/sql";
 
 interface ChannelRow {
   id: string;

@@ -1,6 +1,6 @@
 import { alarmKindLabel, isAlarmKind } from "../alarms/engine";
 import { listAlarms, type AlarmJson } from "../services/alarms";
-import { select } from "./overview-sql";
+import { sqlRows } from "../db/sql";
 
 // What the live screens read from the alarm tables (db/migrations/0004-alarms.ts): counts of the
 // alarms that need attention, those alarms for a site or an asset (the alarms list's own query), an
@@ -18,7 +18,7 @@ export interface PriorityCounts {
 
 /** Alarms needing attention per site, by priority. */
 export async function activeAlarmsBySite(organisationId: string, siteId?: string): Promise<Map<string, PriorityCounts>> {
-  const rows = await select<{ site_id: string; priority: keyof PriorityCounts; n: string }>(
+  const rows = await sqlRows<{ site_id: string; priority: keyof PriorityCounts; n: string }>(
     `SELECT site_id, priority, count(*) AS n FROM alarms
      WHERE organisation_id = :organisationId AND state IN (:states) ${siteId ? "AND site_id = :siteId" : ""}
      GROUP BY site_id, priority`,
@@ -64,7 +64,7 @@ interface AlarmEventRow {
 
 /** An asset's alarm events, newest first: every change of state of its level and health alarms. */
 export async function listAssetAlarmHistory(organisationId: string, assetId: string, limit = 50) {
-  const rows = await select<AlarmEventRow>(
+  const rows = await sqlRows<AlarmEventRow>(
     `SELECT e.id, e.alarm_id, al.kind AS alarm_kind, e.at, e.kind, e.from_state, e.to_state, e.cause, e.value, e.setpoint,
             COALESCE(e.priority, al.priority) AS priority, e.actor_label, e.comment
      FROM alarm_events e JOIN alarms al ON al.id = e.alarm_id
@@ -87,7 +87,7 @@ export interface SetpointJson {
 export async function setpointsByAsset(organisationId: string, of: { siteId?: string; assetId?: string }): Promise<Map<string, SetpointJson[]>> {
   const out = new Map<string, SetpointJson[]>();
   if (!of.siteId && !of.assetId) return out;
-  const rows = await select<SetpointJson & { asset_id: string }>(
+  const rows = await sqlRows<SetpointJson & { asset_id: string }>(
     `SELECT sp.asset_id, sp.key, sp.value_m, sp.priority, sp.enabled
      FROM alarm_setpoints sp JOIN assets a ON a.id = sp.asset_id
      WHERE a.organisation_id = :organisationId AND a.kind = 'tank' ${of.siteId ? "AND a.site_id = :siteId" : ""} ${of.assetId ? "AND a.id = :assetId" : ""}

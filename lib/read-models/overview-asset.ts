@@ -2,7 +2,7 @@ import { findAsset, serialiseAsset } from "../services/assets";
 import { findSite } from "../services/sites";
 import { listAssetStates } from "./overview";
 import { listAssetAlarmHistory, listAttentionAlarms, setpointsByAsset } from "./overview-alarms";
-import { select } from "./overview-sql";
+import { sqlRows } from "../db/sql";
 
 // The asset screen around its trend: the asset and its channels, its latest state, setpoints,
 // forecast, the health flags open in the chosen period, its alarms and their history, and the manual
@@ -65,7 +65,7 @@ const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 export async function assetOverview(organisationId: string, assetId: string, period: { from: Date; to: Date }, now = new Date()) {
   const asset = await findAsset(organisationId, assetId);
   const site = await findSite(organisationId, asset.site_id);
-  const channels = await select<ChannelRow>(
+  const channels = await sqlRows<ChannelRow>(
     `SELECT c.id, c.index, c.device_id, d.name AS device_name, d.serial AS device_serial, d.profile AS device_profile, d.expected_interval_s,
             c.min_range_m, c.max_range_m, c.face_offset_m, c.calibration_offset_m, c.calibration_scale,
             COALESCE(cs.last_at, d.last_seen_at) AS last_seen_at
@@ -79,7 +79,7 @@ export async function assetOverview(organisationId: string, assetId: string, per
     listAssetStates(organisationId, { assetId }),
     setpointsByAsset(organisationId, { assetId }),
     channelIds.length
-      ? select<FlagRow>(
+      ? sqlRows<FlagRow>(
           `SELECT id, channel_id, flag, since, cleared_at, magnitude, details FROM health_flags
            WHERE channel_id IN (:channelIds) AND since <= :to AND (cleared_at IS NULL OR cleared_at >= :from)
            ORDER BY cleared_at IS NULL DESC, since DESC LIMIT 200`,
@@ -88,13 +88,13 @@ export async function assetOverview(organisationId: string, assetId: string, per
       : Promise.resolve([] as FlagRow[]),
     listAttentionAlarms(organisationId, { assetId }),
     listAssetAlarmHistory(organisationId, assetId),
-    select<DipRow>(
+    sqlRows<DipRow>(
       `SELECT dp.id, dp.at, dp.level_m, dp.note, u.name AS by_name, dp.measured_level_m, dp.residual_m
        FROM manual_dips dp LEFT JOIN users u ON u.id = dp.by_user_id
        WHERE dp.asset_id = :assetId AND dp.at BETWEEN :from AND :to ORDER BY dp.at`,
       { assetId, ...period },
     ),
-    select<CalibrationRow>(
+    sqlRows<CalibrationRow>(
       `SELECT id, at, channel_id, by_label, before_offset_m, before_scale, after_offset_m, after_scale, fit_mode, rms_after_m, note
        FROM calibration_changes
        WHERE organisation_id = :organisationId AND asset_id = :assetId AND at BETWEEN :from AND :to

@@ -1,5 +1,5 @@
 import type { DeviceHealthQuery, DeviceHealthSort } from "../validations/overview";
-import { select } from "./overview-sql";
+import { sqlRows } from "../db/sql";
 
 // The devices health table: every device with when it was last heard, its battery and signal, its
 // firmware and the open health flags of each channel; paged, sorted and filtered in the database.
@@ -57,7 +57,7 @@ export async function listDeviceHealth(organisationId: string, q: DeviceHealthQu
   const dir = q.dir === "desc" ? "DESC" : "ASC";
   // Never seen sorts as the oldest.
   const order = ORDER[q.sort].replace("{dir}", dir).replace("{nulls}", dir === "ASC" ? "FIRST" : "LAST");
-  const rows = await select<DeviceRow>(
+  const rows = await sqlRows<DeviceRow>(
     `WITH dev AS (
        SELECT d.id, d.name, d.serial, d.site_id, s.name AS site_name, d.profile, d.firmware, d.last_seen_at, d.expected_interval_s,
               d.battery_v, d.rssi_dbm,
@@ -82,7 +82,7 @@ export async function listDeviceHealth(organisationId: string, q: DeviceHealthQu
   );
   const ids = rows.map((r) => r.id);
   const channels = ids.length
-    ? await select<ChannelRow>(
+    ? await sqlRows<ChannelRow>(
         `SELECT c.id, c.device_id, c.index, c.asset_id, a.name AS asset_name, a.kind AS asset_kind, cs.last_at,
                 (SELECT json_agg(json_build_object('flag', h.flag, 'since', h.since, 'magnitude', h.magnitude) ORDER BY h.since)
                  FROM health_flags h WHERE h.channel_id = c.id AND h.cleared_at IS NULL) AS flags

@@ -1,7 +1,7 @@
 import { findSite } from "../services/sites";
 import { deviceCountsBySite, listAssetStates, type AssetStateJson } from "./overview";
 import { listAttentionAlarms, setpointsByAsset, type SetpointJson } from "./overview-alarms";
-import { select } from "./overview-sql";
+import { sqlRows } from "../db/sql";
 
 // The site screen: its tanks with the last day's trend and range, its bays as they stand, its points,
 // its alarms needing attention and its devices. Hourly rollups keep the day's trend small and cheap.
@@ -30,7 +30,7 @@ interface DayTrend {
  * distance (bays show their state, not a trend).
  */
 async function dayTrends(organisationId: string, siteId: string, since: Date): Promise<Map<string, DayTrend>> {
-  const rows = await select<TrendRow>(
+  const rows = await sqlRows<TrendRow>(
     `SELECT r.asset_id, a.kind, r.bucket_start,
             -- To 0.1 mm: finer than any sensor here reads, and a quarter of the digits.
             round((CASE WHEN a.kind = 'tank' THEN sum(r.level_sum) ELSE sum(r.distance_sum) END / NULLIF(sum(r.n), 0))::numeric, 4)::float8 AS mean,

@@ -2,7 +2,7 @@ import { tankHeight, type TankGeometry } from "../geometry/tank-volume";
 import { detectOffline } from "../health/flags";
 import type { AssetKind } from "../db/models";
 import { activeAlarmsBySite, type PriorityCounts } from "./overview-alarms";
-import { select } from "./overview-sql";
+import { sqlRows } from "../db/sql";
 
 // The live state of assets as the overview, site and asset screens show it: each asset's latest valid
 // measurement, its open health flags, a bay's current occupancy and a tank's forecast. Always scoped
@@ -175,7 +175,7 @@ export type AssetStateJson = ReturnType<typeof serialiseAssetState>;
 
 /** Live state of the organisation's assets, optionally of one site or one asset, by name. */
 export async function listAssetStates(organisationId: string, filter: { siteId?: string; assetId?: string } = {}): Promise<AssetStateJson[]> {
-  const rows = await select<AssetStateRow>(assetStateSql(filter), { organisationId, ...filter });
+  const rows = await sqlRows<AssetStateRow>(assetStateSql(filter), { organisationId, ...filter });
   return rows.map(serialiseAssetState);
 }
 
@@ -188,7 +188,7 @@ interface DeviceSeenRow {
 
 /** Devices and how many are offline (no reading for 3 expected intervals, lib/health/flags) per site. */
 export async function deviceCountsBySite(organisationId: string, now = new Date(), siteId?: string): Promise<Map<string, { total: number; offline: number }>> {
-  const rows = await select<DeviceSeenRow>(
+  const rows = await sqlRows<DeviceSeenRow>(
     `SELECT id, site_id, last_seen_at, expected_interval_s FROM devices WHERE organisation_id = :organisationId ${siteId ? "AND site_id = :siteId" : ""}`,
     { organisationId, siteId },
   );
@@ -287,9 +287,9 @@ const NO_ALARMS: PriorityCounts = { critical: 0, high: 0, medium: 0, low: 0 };
  */
 export async function fleetOverview(organisationId: string, now = new Date()) {
   const [sites, tanks, counts, devices, alarms] = await Promise.all([
-    select<{ id: string; name: string; time_zone: string }>(`SELECT id, name, time_zone FROM sites WHERE organisation_id = :organisationId ORDER BY name, id`, { organisationId }),
-    select<FleetTankRow>(FLEET_TANKS_SQL, { organisationId, glance: TANKS_AT_A_GLANCE }),
-    select<FleetCountRow>(FLEET_COUNTS_SQL, { organisationId }),
+    sqlRows<{ id: string; name: string; time_zone: string }>(`SELECT id, name, time_zone FROM sites WHERE organisation_id = :organisationId ORDER BY name, id`, { organisationId }),
+    sqlRows<FleetTankRow>(FLEET_TANKS_SQL, { organisationId, glance: TANKS_AT_A_GLANCE }),
+    sqlRows<FleetCountRow>(FLEET_COUNTS_SQL, { organisationId }),
     deviceCountsBySite(organisationId, now),
     activeAlarmsBySite(organisationId),
   ]);

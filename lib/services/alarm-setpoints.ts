@@ -13,8 +13,9 @@ import { LEVEL_ON_DELAY_S, SETPOINT_KEYS, initialSetpointState, levelDeadbandM, 
 import { isAwaitingReset, type AlarmInput, type AlarmPriority } from "../alarms/state-machine";
 import { setpointIssues, setpointToLevelM, type PutSetpointsInput } from "../validations/setpoint";
 import { findAsset } from "./assets";
-import { type AlarmDbRow, insertAlarmEvents, rows, saveAlarm, toRecord } from "./alarm-store";
+import { type AlarmDbRow, insertAlarmEvents, saveAlarm, toRecord } from "./alarm-store";
 import { ensureLevelAlarmRows } from "../worker/alarm-evaluation";
+import { sqlRows } from "../db/sql";
 
 interface SetpointRow {
   key: SetpointKey;
@@ -88,8 +89,8 @@ export type SetpointsJson = ReturnType<typeof describe>;
 
 async function load(assetId: string, transaction?: Transaction) {
   const [setpoints, [settings]] = await Promise.all([
-    rows<SetpointRow>(`SELECT * FROM alarm_setpoints WHERE asset_id = :assetId`, { assetId }, transaction),
-    rows<SettingsRow>(`SELECT roc_limit_m_per_h, roc_priority, roc_enabled FROM asset_alarm_settings WHERE asset_id = :assetId`, { assetId }, transaction),
+    sqlRows<SetpointRow>(`SELECT * FROM alarm_setpoints WHERE asset_id = :assetId`, { assetId }, { transaction }),
+    sqlRows<SettingsRow>(`SELECT roc_limit_m_per_h, roc_priority, roc_enabled FROM asset_alarm_settings WHERE asset_id = :assetId`, { assetId }, { transaction }),
   ]);
   return { setpoints, settings: settings ?? null };
 }
@@ -123,7 +124,7 @@ export async function putSetpoints(actor: Actor, assetId: string, input: PutSetp
   const height = tankHeight(tank.geometry);
   return getSequelize().transaction(async (transaction) => {
     const rate = input.rate_of_change ?? null;
-    await rows(
+    await sqlRows(
       `INSERT INTO asset_alarm_settings (asset_id, organisation_id, roc_limit_m_per_h, roc_priority, roc_enabled)
        VALUES (:assetId, :organisationId, :limit, :priority, :enabled)
        ON CONFLICT (asset_id) DO UPDATE SET roc_limit_m_per_h = excluded.roc_limit_m_per_h, roc_priority = excluded.roc_priority,
@@ -136,7 +137,7 @@ export async function putSetpoints(actor: Actor, assetId: string, input: PutSetp
         priority: rate?.priority ?? DEFAULT_PRIORITIES.rate_of_change,
         enabled: rate ? (rate.enabled ?? true) : false,
       },
-      transaction,
+      { transaction },
     );
     const before = await load(assetId, transaction);
     const kept: SetpointKey[] = [];
@@ -144,7 +145,7 @@ export async function putSetpoints(actor: Actor, assetId: string, input: PutSetp
       const sp = input.setpoints[key];
       if (!sp) continue;
       kept.push(key);
-      await rows(
+      await sqlRows(
         `INSERT INTO alarm_setpoints (asset_id, key, value_m, entered_unit, entered_value, deadband_m, on_delay_s, priority, enabled, latching)
          VALUES (:assetId, :key, :valueM, :unit, :value, :deadband, :onDelay, :priority, :enabled, :latching)
          ON CONFLICT (asset_id, key) DO UPDATE SET value_m = excluded.value_m, entered_unit = excluded.entered_unit, entered_value = excluded.entered_value,
@@ -163,13 +164,13 @@ export async function putSetpoints(actor: Actor, assetId: string, input: PutSetp
           enabled: sp.enabled ?? true,
           latching: sp.latching ?? false,
         },
-        transaction,
+        { transaction },
       );
     }
-    await rows(
+    await sqlRows(
       `DELETE FROM alarm_setpoints WHERE asset_id = :assetId ${kept.length ? "AND key NOT IN (:kept)" : ""} RETURNING key`,
       { assetId, kept },
-      transaction,
+      { transaction },
     );
     await ensureLevelAlarmRows([assetId], transaction);
     const after = await load(assetId, transaction);
@@ -181,7 +182,7 @@ export async function putSetpoints(actor: Actor, assetId: string, input: PutSetp
 
 /** Brings the asset's level alarms in line with its definitions: priority, latching, and clearing what is no longer watched. */
 async function syncAlarms(actor: Actor, assetId: string, setpoints: readonly SetpointRow[], settings: SettingsRow | null, now: Date, transaction: Transaction) {
-  const alarms = await rows<AlarmDbRow>(`SELECT * FROM alarms WHERE asset_id = :assetId AND channel_id IS NULL ORDER BY id FOR UPDATE`, { assetId }, transaction);
+  const alarms = await sqlRows<AlarmDbRow>(`SELECT * FROM alarms WHERE asset_id = :assetId AND channel_id IS NULL ORDER BY id FOR UPDATE`, { assetId }, { transaction });
   const byKey = new Map(setpoints.map((s) => [s.key, s]));
   for (const row of alarms) {
     const def =

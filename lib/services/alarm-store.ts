@@ -1,18 +1,10 @@
 // Reading and writing alarm rows and their events: the one place that maps the alarms table to the
 // engine's AlarmRecord and back, shared by the worker's stages and the API's actions.
 
-import { QueryTypes, type Transaction } from "sequelize";
-import { getSequelize } from "../db/sequelize";
+import type { Transaction } from "sequelize";
 import type { AlarmKind, AlarmRecord, EngineEvent } from "../alarms/engine";
 import type { AlarmPriority, AlarmState } from "../alarms/state-machine";
-
-export async function rows<T extends object>(sql: string, replacements: Record<string, unknown>, transaction?: Transaction): Promise<T[]> {
-  return getSequelize().query<T>(sql, { replacements, type: QueryTypes.SELECT, transaction });
-}
-
-export async function run(sql: string, replacements: Record<string, unknown>, transaction?: Transaction): Promise<void> {
-  await getSequelize().query(sql, { replacements, type: QueryTypes.RAW, transaction });
-}
+import { sqlRun } from "../db/sql";
 
 /** A row of `alarms` as the database returns it. */
 export interface AlarmDbRow {
@@ -123,7 +115,7 @@ export async function saveAlarm(id: string, record: AlarmRecord, extras: AlarmRo
     sets.push("out_of_service_reason = :oosReason");
     replacements.oosReason = extras.outOfServiceReason;
   }
-  await run(`UPDATE alarms SET ${sets.join(", ")} WHERE id = :id`, replacements, transaction);
+  await sqlRun(`UPDATE alarms SET ${sets.join(", ")} WHERE id = :id`, replacements, { transaction });
 }
 
 /** Besides the state changes, every notification is an event of its alarm. */
@@ -143,30 +135,27 @@ export interface EventToWrite {
 export async function insertAlarmEvents(events: readonly EventToWrite[], transaction: Transaction): Promise<void> {
   if (events.length === 0) return;
   const e = events;
-  await getSequelize().query(
+  await sqlRun(
     `INSERT INTO alarm_events (alarm_id, organisation_id, at, kind, from_state, to_state, cause, value, setpoint, priority, episode, user_id, actor_label, comment, details)
      SELECT * FROM unnest($1::uuid[], $2::uuid[], $3::timestamptz[], $4::text[], $5::text[], $6::text[], $7::text[], $8::float8[], $9::float8[], $10::text[],
                           $11::int[], $12::uuid[], $13::text[], $14::text[], $15::jsonb[])`,
-    {
-      bind: [
-        e.map((x) => x.alarmId),
-        e.map((x) => x.organisationId),
-        e.map((x) => x.event.at),
-        e.map((x) => x.event.kind),
-        e.map((x) => x.event.fromState ?? null),
-        e.map((x) => x.event.toState ?? null),
-        e.map((x) => x.event.cause),
-        e.map((x) => x.event.value ?? null),
-        e.map((x) => x.event.setpoint ?? null),
-        e.map((x) => x.event.priority ?? null),
-        e.map((x) => x.event.episode ?? null),
-        e.map((x) => x.userId ?? null),
-        e.map((x) => x.actorLabel ?? null),
-        e.map((x) => x.comment ?? null),
-        e.map((x) => JSON.stringify(x.details ?? {})),
-      ],
-      type: QueryTypes.RAW,
-      transaction,
-    },
+    [
+      e.map((x) => x.alarmId),
+      e.map((x) => x.organisationId),
+      e.map((x) => x.event.at),
+      e.map((x) => x.event.kind),
+      e.map((x) => x.event.fromState ?? null),
+      e.map((x) => x.event.toState ?? null),
+      e.map((x) => x.event.cause),
+      e.map((x) => x.event.value ?? null),
+      e.map((x) => x.event.setpoint ?? null),
+      e.map((x) => x.event.priority ?? null),
+      e.map((x) => x.event.episode ?? null),
+      e.map((x) => x.userId ?? null),
+      e.map((x) => x.actorLabel ?? null),
+      e.map((x) => x.comment ?? null),
+      e.map((x) => JSON.stringify(x.details ?? {})),
+    ],
+    { transaction },
   );
 }

@@ -10,7 +10,8 @@ import { HttpError, notFound } from "../http/errors";
 import { alarmKindLabel, applyAlarmInput } from "../alarms/engine";
 import { httpStatusForAlarmError, isAwaitingReset, type AlarmInput } from "../alarms/state-machine";
 import type { AlarmListQuery, AlarmSort } from "../validations/alarm";
-import { type AlarmDbRow, type AlarmRowExtras, insertAlarmEvents, rows, saveAlarm, toRecord } from "./alarm-store";
+import { type AlarmDbRow, type AlarmRowExtras, insertAlarmEvents, saveAlarm, toRecord } from "./alarm-store";
+import { sqlRows } from "../db/sql";
 
 interface AlarmViewRow extends AlarmDbRow {
   site_name: string;
@@ -122,11 +123,11 @@ export async function listAlarms(organisationId: string, q: AlarmListQuery) {
     replacements.to = q.to;
   }
   const filter = where.join(" AND ");
-  const [count] = await rows<{ n: string }>(
+  const [count] = await sqlRows<{ n: string }>(
     `SELECT count(*) AS n FROM alarms al JOIN sites s ON s.id = al.site_id LEFT JOIN assets a ON a.id = al.asset_id WHERE ${filter}`,
     replacements,
   );
-  const items = await rows<AlarmViewRow>(`${VIEW_SELECT} WHERE ${filter} ORDER BY ${SORTS[q.sort]}, al.id LIMIT :limit OFFSET :offset`, {
+  const items = await sqlRows<AlarmViewRow>(`${VIEW_SELECT} WHERE ${filter} ORDER BY ${SORTS[q.sort]}, al.id LIMIT :limit OFFSET :offset`, {
     ...replacements,
     limit: q.page_size,
     offset: (q.page - 1) * q.page_size,
@@ -135,7 +136,7 @@ export async function listAlarms(organisationId: string, q: AlarmListQuery) {
 }
 
 async function findAlarmRow(organisationId: string, id: string, transaction?: Transaction): Promise<AlarmViewRow> {
-  const [row] = await rows<AlarmViewRow>(`${VIEW_SELECT} WHERE al.id = :id AND al.organisation_id = :organisationId ${transaction ? "FOR UPDATE OF al" : ""}`, { id, organisationId }, transaction);
+  const [row] = await sqlRows<AlarmViewRow>(`${VIEW_SELECT} WHERE al.id = :id AND al.organisation_id = :organisationId ${transaction ? "FOR UPDATE OF al" : ""}`, { id, organisationId }, { transaction });
   if (!row) throw notFound("That alarm");
   return row;
 }
@@ -165,12 +166,12 @@ interface EventRow {
 export async function findAlarmWithHistory(organisationId: string, id: string, eventLimit = 200) {
   const alarm = await findAlarm(organisationId, id);
   const [events, notifications] = await Promise.all([
-    rows<EventRow>(
+    sqlRows<EventRow>(
       `SELECT id, at, kind, from_state, to_state, cause, value, setpoint, priority, episode, user_id, actor_label, comment, details
        FROM alarm_events WHERE alarm_id = :id ORDER BY at DESC, id DESC LIMIT :limit`,
       { id, limit: eventLimit },
     ),
-    rows<{ id: string; episode: number; email: string; position: number; reason: string; sent_at: Date | null; send_error: string | null; expires_at: Date; used_at: Date | null }>(
+    sqlRows<{ id: string; episode: number; email: string; position: number; reason: string; sent_at: Date | null; send_error: string | null; expires_at: Date; used_at: Date | null }>(
       `SELECT id, episode, email, position, reason, sent_at, send_error, expires_at, used_at FROM alarm_notifications WHERE alarm_id = :id ORDER BY created_at DESC LIMIT 100`,
       { id },
     ),

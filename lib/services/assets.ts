@@ -1,5 +1,5 @@
 import { writeAudit, type Actor } from "./audit";
-import { Asset, initModels, Site } from "../db/models";
+import { Asset, Site } from "../db/models";
 import { getSequelize } from "../db/sequelize";
 import { HttpError, notFound } from "../http/errors";
 import { tankCapacity, tankHeight } from "../geometry/tank-volume";
@@ -33,7 +33,6 @@ function derivedCapacity(a: { kind: string; geometry?: AssetInput["geometry"] })
 }
 
 export async function listAssets(organisationId: string, filter: { site_id?: string; kind?: string } = {}) {
-  initModels();
   const where: Record<string, unknown> = { organisation_id: organisationId };
   if (filter.site_id) where.site_id = filter.site_id;
   if (filter.kind) where.kind = filter.kind;
@@ -42,14 +41,12 @@ export async function listAssets(organisationId: string, filter: { site_id?: str
 }
 
 export async function findAsset(organisationId: string, id: string): Promise<Asset> {
-  initModels();
   const asset = await Asset.findOne({ where: { id, organisation_id: organisationId } });
   if (!asset) throw notFound("That asset");
   return asset;
 }
 
 export async function createAsset(actor: Actor, input: AssetInput) {
-  initModels();
   const site = await Site.findOne({ where: { id: input.site_id, organisation_id: actor.organisationId } });
   if (!site) throw new HttpError(422, "invalid", "site_id: no such site in your organisation.", {}, { fields: { site_id: "No such site in your organisation." } });
   return getSequelize().transaction(async (transaction) => {

@@ -1,5 +1,5 @@
 import type { Transaction } from "sequelize";
-import { AuditEntry, initModels } from "../db/models";
+import { AuditEntry } from "../db/models";
 
 export interface Actor {
   organisationId: string;
@@ -15,7 +15,6 @@ export async function writeAudit(
   details: Record<string, unknown> = {},
   transaction?: Transaction,
 ) {
-  initModels();
   await AuditEntry.create(
     {
       organisation_id: actor.organisationId,

@@ -18,9 +18,9 @@ import {
   type CalibrationPoint,
 } from "../calibration/fit";
 import { dipsWithSensor, type DipJson } from "./dips";
-import { requestRecompute } from "../worker/recompute";
-import { sqlRows, sqlRun } from "../worker/batch-store";
+import { requestRecompute } from "./recompute-requests";
 import type { CalibrationRequest } from "../validations/calibration";
+import { sqlRows, sqlRun } from "../db/sql";
 
 interface ChannelRow {
   id: string;
@@ -62,7 +62,7 @@ export type CalibrationChannelJson = ReturnType<typeof serialiseChannel>;
 
 /** A channel of the organisation; another organisation's, or one that does not exist, is 404. */
 export async function findCalibrationChannel(organisationId: string, channelId: string, transaction?: Transaction, lock = false): Promise<ChannelRow> {
-  const [row] = await sqlRows<ChannelRow>(`SELECT ${CHANNEL_COLUMNS} FROM ${CHANNEL_FROM} WHERE c.id = $1 AND d.organisation_id = $2${lock ? " FOR UPDATE OF c" : ""}`, [channelId, organisationId], transaction);
+  const [row] = await sqlRows<ChannelRow>(`SELECT ${CHANNEL_COLUMNS} FROM ${CHANNEL_FROM} WHERE c.id = $1 AND d.organisation_id = $2${lock ? " FOR UPDATE OF c" : ""}`, [channelId, organisationId], { transaction });
   if (!row) throw notFound("That channel");
   return row;
 }
@@ -225,7 +225,7 @@ export async function channelCalibration(organisationId: string, channelId: stri
 export async function applyCalibration(actor: Actor, channelId: string, request: CalibrationRequest) {
   return getSequelize().transaction(async (transaction) => {
     const { c, paired, current, fit, residuals } = await fitChannel(actor.organisationId, channelId, request.dip_ids, transaction);
-    await sqlRun(`UPDATE channels SET calibration_offset_m = $2, calibration_scale = $3, updated_at = now() WHERE id = $1`, [c.id, fit.offsetM, fit.scale], transaction);
+    await sqlRun(`UPDATE channels SET calibration_offset_m = $2, calibration_scale = $3, updated_at = now() WHERE id = $1`, [c.id, fit.offsetM, fit.scale], { transaction });
     const [change] = await sqlRows<ChangeRow>(
       `INSERT INTO calibration_changes (organisation_id, channel_id, asset_id, by_user_id, by_label, before_offset_m, before_scale, after_offset_m, after_scale,
                                         fit_mode, dip_ids, residuals, rms_before_m, rms_after_m, note)
@@ -248,7 +248,7 @@ export async function applyCalibration(actor: Actor, channelId: string, request:
         fit.rmsM,
         request.note || null,
       ],
-      transaction,
+      { transaction },
     );
     const recompute = await requestRecompute({ channelId: c.id, reason: "calibration" }, transaction);
     await writeAudit(

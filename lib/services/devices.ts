@@ -1,6 +1,6 @@
 import { Op, type Transaction } from "sequelize";
 import { writeAudit, type Actor } from "./audit";
-import { Asset, Channel, Device, DeviceKey, initModels, Site } from "../db/models";
+import { Asset, Channel, Device, DeviceKey, Site } from "../db/models";
 import { getSequelize } from "../db/sequelize";
 import { HttpError, notFound } from "../http/errors";
 import { generateDeviceKey } from "../auth/device-keys";
@@ -49,7 +49,6 @@ export function serialiseDevice(d: Device, channels: Channel[]) {
 export type DeviceJson = ReturnType<typeof serialiseDevice>;
 
 export async function listDevices(organisationId: string, filter: { site_id?: string } = {}) {
-  initModels();
   const where: Record<string, unknown> = { organisation_id: organisationId };
   if (filter.site_id) where.site_id = filter.site_id;
   const devices = await Device.findAll({ where, order: [["name", "ASC"]], include: [{ model: Channel, as: "channels" }] });
@@ -57,7 +56,6 @@ export async function listDevices(organisationId: string, filter: { site_id?: st
 }
 
 export async function findDevice(organisationId: string, id: string): Promise<{ device: Device; channels: Channel[] }> {
-  initModels();
   const device = await Device.findOne({ where: { id, organisation_id: organisationId } });
   if (!device) throw notFound("That device");
   const channels = await Channel.findAll({ where: { device_id: id }, order: [["index", "ASC"]] });
@@ -66,7 +64,6 @@ export async function findDevice(organisationId: string, id: string): Promise<{ 
 
 /** Keys as the device page shows them: prefix and dates only, never the hash. */
 export async function listDeviceKeys(deviceId: string) {
-  initModels();
   const keys = await DeviceKey.findAll({ where: { device_id: deviceId }, order: [["created_at", "DESC"]] });
   return keys.map((k) => ({ id: k.id, prefix: k.prefix, created_at: k.created_at, revoked_at: k.revoked_at ?? null }));
 }
@@ -113,7 +110,6 @@ function serialTaken(err: unknown): boolean {
 }
 
 export async function createDevice(actor: Actor, input: DeviceInput) {
-  initModels();
   const site = await Site.findOne({ where: { id: input.site_id, organisation_id: actor.organisationId } });
   if (!site) throw new HttpError(422, "invalid", "site_id: no such site in your organisation.", {}, { fields: { site_id: "No such site in your organisation." } });
   const key = generateDeviceKey();

@@ -7,9 +7,9 @@ import { getSequelize } from "../db/sequelize";
 import { HttpError } from "../http/errors";
 import { tankHeight } from "../geometry/tank-volume";
 import { findAsset } from "./assets";
-import { sqlRows } from "../worker/batch-store";
 import type { RecordDipInput } from "../validations/dip";
 import type { Asset } from "../db/models";
+import { sqlRows } from "../db/sql";
 
 /** How far from a dip's time a measurement may lie and still stand for the sensor at that time. */
 export const SENSOR_MATCH_WINDOW_S = 3600;
@@ -31,7 +31,7 @@ export async function channelsOfAsset(assetId: string, transaction?: Transaction
        FROM channels c JOIN devices d ON d.id = c.device_id
       WHERE c.asset_id = $1 ORDER BY d.name, c.index`,
     [assetId],
-    transaction,
+    { transaction },
   );
 }
 
@@ -106,7 +106,7 @@ export async function dipsWithSensor(assetId: string, channelId: string, dipIds:
       WHERE d.asset_id = $1 AND d.id = ANY($4::uuid[])
       ORDER BY d.at`,
     [assetId, channelId, SENSOR_MATCH_WINDOW_S, dipIds],
-    transaction,
+    { transaction },
   );
   return rows.map(serialiseDip);
 }
@@ -135,7 +135,7 @@ export async function insertDips(assetId: string, userId: string | null, dips: r
      ORDER BY v.n
      RETURNING id`,
     [assetId, userId, dips.map((d) => d.at), dips.map((d) => d.level_m), dips.map((d) => d.note)],
-    transaction,
+    { transaction },
   );
   return rows.map((r) => r.id);
 }
@@ -143,7 +143,7 @@ export async function insertDips(assetId: string, userId: string | null, dips: r
 /** Dip times of the asset that are already recorded, among those given (a dip is once per time). */
 export async function existingDipTimes(assetId: string, times: readonly Date[], transaction?: Transaction): Promise<Set<number>> {
   if (times.length === 0) return new Set();
-  const rows = await sqlRows<{ at: Date }>(`SELECT at FROM manual_dips WHERE asset_id = $1 AND at = ANY($2::timestamptz[])`, [assetId, times], transaction);
+  const rows = await sqlRows<{ at: Date }>(`SELECT at FROM manual_dips WHERE asset_id = $1 AND at = ANY($2::timestamptz[])`, [assetId, times], { transaction });
   return new Set(rows.map((r) => new Date(r.at).getTime()));
 }
 

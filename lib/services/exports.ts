@@ -5,7 +5,7 @@ import { HttpError } from "../http/errors";
 import type { CsvValue } from "../csv/write";
 import type { ExportRange } from "../validations/export";
 import { refillPlan } from "../read-models/refill-plan";
-import { sqlRows } from "../worker/batch-store";
+import { sqlRows } from "../db/sql";
 
 export const EXPORT_BATCH_ROWS = 5000;
 

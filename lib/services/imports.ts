@@ -15,8 +15,8 @@ import { IMPORT_KIND_LABELS, MAX_LISTED_ERRORS, MAX_STRAPPING_ROWS, MAX_UPLOAD_B
 import type { SignalProfile } from "../validations/device";
 import { findAsset, updateAsset } from "./assets";
 import { existingDipTimes, insertDips, maxDipLevel } from "./dips";
-import { requestRecompute } from "../worker/recompute";
-import { sqlRows, sqlRun } from "../worker/batch-store";
+import { requestRecompute } from "./recompute-requests";
+import { sqlRows, sqlRun } from "../db/sql";
 
 interface UploadRow {
   id: string;
@@ -159,7 +159,7 @@ function readingSink(deviceId: string, transaction: Transaction): ImportSink<Bac
           WHERE NOT EXISTS (SELECT 1 FROM fresh f WHERE f.channel = i.channel AND f.seq = i.seq)
           ORDER BY i.line`,
         [deviceId, JSON.stringify(input)],
-        transaction,
+        { transaction },
       );
       return refused.map((r) => ({ line: r.line, message: `seq ${r.seq} on channel ${r.channel} is already stored for this device` }));
     },
@@ -185,7 +185,7 @@ function temperatureSink(siteId: string, transaction: Transaction): ImportSink<T
          SELECT $1, v.at, v.air_temp_c, 'import' FROM unnest($2::timestamptz[], $3::float8[]) AS v(at, air_temp_c)
          ON CONFLICT (site_id, at, source) DO NOTHING RETURNING at`,
         [siteId, rows.map((r) => r.row.at), rows.map((r) => r.row.air_temp_c)],
-        transaction,
+        { transaction },
       );
       const fresh = new Set(stored.map((s) => new Date(s.at).getTime()));
       return rows.filter((r) => !fresh.has(r.row.at.getTime())).map((r) => ({ line: r.line, message: `an imported temperature at ${r.row.at.toISOString()} is already stored for this site` }));
@@ -246,7 +246,7 @@ async function finishUpload(uploadId: string, f: Finish, transaction?: Transacti
                         errors = $9::jsonb, finished_at = now()
       WHERE id = $1`,
     [uploadId, f.status, f.rowsImported, f.message, f.outcome.bytesRead, f.outcome.linesRead, f.outcome.rowsValid, f.outcome.errorCount, JSON.stringify(f.outcome.errors)],
-    transaction,
+    { transaction },
   );
 }
 
@@ -270,7 +270,7 @@ async function planFor(actor: Actor, upload: UploadJson, transaction: Transactio
         `SELECT d.profile, d.timer_bits, coalesce((SELECT array_agg(c.index ORDER BY c.index) FROM channels c WHERE c.device_id = d.id), '{}') AS channels
            FROM devices d WHERE d.id = $1 AND d.organisation_id = $2`,
         [id, actor.organisationId],
-        transaction,
+        { transaction },
       );
       if (!device) throw notFound("That device");
       return {

@@ -1,23 +1,6 @@
-import type { ClientBase } from "pg";
 import { QUEUE_INSERTED, RETURNING_QUEUED_COLUMNS } from "../worker/reading-queue";
-import { getSequelize } from "../db/sequelize";
+import { sqlRows } from "../db/sql";
 
-/**
- * The ingest path runs the same two statements for every request, so it uses named (prepared)
- * statements on a pooled connection: PostgreSQL parses and plans each once per connection.
- */
-async function runPrepared<T>(name: string, text: string, values: unknown[]): Promise<T[]> {
-  const manager = getSequelize().connectionManager as unknown as {
-    getConnection(options?: object): Promise<ClientBase>;
-    releaseConnection(connection: ClientBase): Promise<void>;
-  };
-  const connection = await manager.getConnection({ type: "SELECT" });
-  try {
-    return (await connection.query({ name, text, values })).rows as T[];
-  } finally {
-    await manager.releaseConnection(connection);
-  }
-}
 import type { SignalProfile } from "../validations/device";
 import type { ReadingInput } from "../validations/reading";
 
@@ -31,13 +14,16 @@ export interface KeyedDevice {
 
 /** The device behind a key prefix, when the key is live; the caller compares the hash in constant time. */
 export async function findDeviceByKeyPrefix(prefix: string): Promise<KeyedDevice | null> {
-  const rows = await runPrepared<KeyedDevice>(
-    "halftrip_device_by_key_prefix",
+  // Named (prepared) statements: the ingest path runs the same two for every request, and PostgreSQL
+  // parses and plans each once per connection. The key look-up reads the primary: a device whose key
+  // was just issued or revoked must be seen so at once.
+  const rows = await sqlRows<KeyedDevice>(
     `SELECT d.id, d.profile, d.timer_bits, k.key_hash,
             coalesce((SELECT array_agg(c.index ORDER BY c.index) FROM channels c WHERE c.device_id = d.id), '{}') AS channels
        FROM device_keys k JOIN devices d ON d.id = k.device_id
       WHERE k.prefix = $1 AND k.revoked_at IS NULL`,
     [prefix],
+    { name: "halftrip_device_by_key_prefix", primary: true },
   );
   return rows[0] ?? null;
 }
@@ -72,8 +58,7 @@ export async function storeReadings(deviceId: string, readings: ReadingInput[], 
     battery_v: r.battery_v ?? null,
     rssi_dbm: r.rssi_dbm ?? null,
   }));
-  const [result] = await runPrepared<{ rate_count: number; max_requests_per_min: number; window_left_s: number; accepted: string }>(
-    "halftrip_store_readings",
+  const [result] = await sqlRows<{ rate_count: number; max_requests_per_min: number; window_left_s: number; accepted: string }>(
     `WITH rl AS (
        UPDATE devices SET
          rate_window_start = CASE WHEN rate_window_start IS NULL OR rate_window_start <= now() - interval '1 minute' THEN now() ELSE rate_window_start END,
@@ -106,6 +91,7 @@ export async function storeReadings(deviceId: string, readings: ReadingInput[], 
      ${QUEUE_INSERTED}
      SELECT rl.rate_count, rl.max_requests_per_min, rl.window_left_s, (SELECT count(*) FROM queued) AS accepted FROM rl`,
     [deviceId, JSON.stringify(rows), serverTime.toISOString(), battery, rssi],
+    { name: "halftrip_store_readings" },
   );
   if (!result) return { limited: false, retryAfterS: 0, accepted: 0 };
   const limited = result.rate_count > result.max_requests_per_min;

@@ -15,7 +15,8 @@ import { groupIntoMails, planNotifications, type OnCallPerson, type PlannedNotic
 import { ALARM_PRIORITIES, type AlarmPriority } from "../alarms/state-machine";
 import { composeAlarmMail, type AlarmMailItem } from "../mail/alarm-mail";
 import { appUrl, sendMail } from "../mail/send-mail";
-import { type AlarmDbRow, insertAlarmEvents, rows, saveAlarm, toRecord } from "./alarm-store";
+import { type AlarmDbRow, insertAlarmEvents, saveAlarm, toRecord } from "./alarm-store";
+import { sqlRows } from "../db/sql";
 
 export const ACK_LINK_PURPOSE = "alarm-ack";
 /** How long an acknowledge link works (Halftrip's choice: a day covers a night shift and the morning after). */
@@ -77,14 +78,14 @@ interface OutgoingNotice extends PlannedNotice {
 
 /** Composes and sends one e-mail; returns the error text when it failed. */
 async function deliver(notices: readonly OutgoingNotice[], recipientName: string, transaction: Transaction): Promise<string | null> {
-  const alarms = await rows<MailAlarmRow>(
+  const alarms = await sqlRows<MailAlarmRow>(
     `SELECT al.id, al.organisation_id, al.kind, al.priority, al.value, al.setpoint, al.unit, al.activated_at, al.asset_id,
             a.name AS asset_name, ch.index AS channel_index, d.name AS device_name, s.name AS site_name, s.time_zone
      FROM alarms al JOIN sites s ON s.id = al.site_id LEFT JOIN assets a ON a.id = al.asset_id
      LEFT JOIN channels ch ON ch.id = al.channel_id LEFT JOIN devices d ON d.id = ch.device_id
      WHERE al.id IN (:ids)`,
     { ids: notices.map((n) => n.alarmId) },
-    transaction,
+    { transaction },
   );
   const byId = new Map(alarms.map((a) => [a.id, a]));
   const items: AlarmMailItem[] = notices.map((n) => {
@@ -124,12 +125,12 @@ async function deliver(notices: readonly OutgoingNotice[], recipientName: string
 
 /** Marks the notices sent (or failed) and records each as an event of its alarm. */
 async function recordDelivery(notices: readonly OutgoingNotice[], organisationId: string, mailId: string, error: string | null, transaction: Transaction) {
-  await rows(
+  await sqlRows(
     `UPDATE alarm_notifications SET attempts = attempts + 1, mail_id = :mailId,
        sent_at = CASE WHEN :failed THEN NULL ELSE now() END, send_error = :error
      WHERE id IN (:ids) RETURNING id`,
     { mailId, failed: error !== null, error, ids: notices.map((n) => n.notificationId) },
-    transaction,
+    { transaction },
   );
   await insertAlarmEvents(
     notices.map((n) => ({
@@ -158,7 +159,7 @@ async function recordDelivery(notices: readonly OutgoingNotice[], organisationId
  */
 export async function runNotifications(now: Date = new Date()): Promise<NotifyResult> {
   const result: NotifyResult = { mails: 0, notices: 0, failed: 0 };
-  const candidates = await rows<CandidateRow>(
+  const candidates = await sqlRows<CandidateRow>(
     `SELECT id, site_id, episode, state, activated_at FROM alarms
      WHERE state IN ('unacknowledged', 'returned_unacknowledged') AND episode > 0
        AND activated_at >= CAST(:now AS timestamptz) - make_interval(hours => :maxAge)`,
@@ -167,15 +168,15 @@ export async function runNotifications(now: Date = new Date()): Promise<NotifyRe
   if (candidates.length > 0) {
     const siteIds = [...new Set(candidates.map((c) => c.site_id))];
     const [onCallRows, siteRows, sentRows] = await Promise.all([
-      rows<OnCallRow>(
+      sqlRows<OnCallRow>(
         `SELECT oc.site_id, oc.position, u.id AS user_id, u.email, u.name, u.role, u.status, u.organisation_id AS user_organisation_id,
                 s.organisation_id AS site_organisation_id
          FROM on_call_entries oc JOIN users u ON u.id = oc.user_id JOIN sites s ON s.id = oc.site_id
          WHERE oc.site_id IN (:siteIds) ORDER BY oc.site_id, oc.position`,
         { siteIds },
       ),
-      rows<{ id: string; escalation_delay_min: number }>(`SELECT id, escalation_delay_min FROM sites WHERE id IN (:siteIds)`, { siteIds }),
-      rows<{ alarm_id: string; episode: number; user_id: string; sent_at: Date | null }>(
+      sqlRows<{ id: string; escalation_delay_min: number }>(`SELECT id, escalation_delay_min FROM sites WHERE id IN (:siteIds)`, { siteIds }),
+      sqlRows<{ alarm_id: string; episode: number; user_id: string; sent_at: Date | null }>(
         `SELECT alarm_id, episode, user_id, sent_at FROM alarm_notifications WHERE alarm_id IN (:ids)`,
         { ids: candidates.map((c) => c.id) },
       ),
@@ -218,13 +219,13 @@ async function sendPlannedMail(notices: readonly PlannedNotice[], recipientName:
     for (const n of notices) {
       const notificationId = randomUUID();
       // Another worker may have claimed the same notice a moment ago: the unique key settles it.
-      const claimed = await rows<{ id: string; organisation_id: string }>(
+      const claimed = await sqlRows<{ id: string; organisation_id: string }>(
         `INSERT INTO alarm_notifications (id, organisation_id, alarm_id, episode, user_id, email, position, reason, expires_at)
          SELECT :notificationId, al.organisation_id, al.id, :episode, :userId, :email, :position, :reason, :expiresAt FROM alarms al WHERE al.id = :alarmId
          ON CONFLICT (alarm_id, episode, user_id) DO NOTHING
          RETURNING id, organisation_id`,
         { notificationId, episode: n.episode, userId: n.userId, email: n.email, position: n.position, reason: n.reason, expiresAt, alarmId: n.alarmId },
-        transaction,
+        { transaction },
       );
       if (claimed.length === 0) continue;
       organisationId = claimed[0].organisation_id;
@@ -256,14 +257,14 @@ interface UnsentRow {
 async function retryFailed(): Promise<NotifyResult> {
   const result: NotifyResult = { mails: 0, notices: 0, failed: 0 };
   await getSequelize().transaction(async (transaction) => {
-    const unsent = await rows<UnsentRow>(
+    const unsent = await sqlRows<UnsentRow>(
       `SELECT n.id, n.organisation_id, n.alarm_id, n.episode, n.user_id, n.email, n.position, n.reason, n.expires_at, al.site_id, u.name
        FROM alarm_notifications n JOIN alarms al ON al.id = n.alarm_id AND al.episode = n.episode JOIN users u ON u.id = n.user_id
        WHERE n.sent_at IS NULL AND n.attempts > 0 AND n.attempts < :max AND n.expires_at > now()
          AND al.state IN ('unacknowledged', 'returned_unacknowledged')
        ORDER BY n.created_at FOR UPDATE OF n SKIP LOCKED`,
       { max: MAX_SEND_ATTEMPTS },
-      transaction,
+      { transaction },
     );
     const groups = new Map<string, UnsentRow[]>();
     for (const r of unsent) groups.set(`${r.user_id}:${r.site_id}`, [...(groups.get(`${r.user_id}:${r.site_id}`) ?? []), r]);
@@ -331,14 +332,14 @@ export type AckLinkLookup =
 async function findNotification(token: string, viewerOrganisationId: string | null, now: Date, transaction?: Transaction): Promise<AckLinkLookup & { row?: NotificationRow }> {
   const check = verifySignedToken(token, ACK_LINK_PURPOSE, now);
   if (!check.ok) return check;
-  const [row] = await rows<NotificationRow>(
+  const [row] = await sqlRows<NotificationRow>(
     `SELECT n.id, n.organisation_id, n.alarm_id, n.episode, n.user_id, n.email, n.expires_at, n.used_at,
             u.name AS user_name, u.role AS user_role, u.status AS user_status, u.organisation_id AS user_organisation_id,
             al.organisation_id AS alarm_organisation_id
      FROM alarm_notifications n JOIN users u ON u.id = n.user_id JOIN alarms al ON al.id = n.alarm_id
      WHERE n.id = :id ${transaction ? "FOR UPDATE OF n" : ""}`,
     { id: check.id },
-    transaction,
+    { transaction },
   );
   if (!row) return { ok: false, reason: "unknown" };
   if (row.organisation_id !== row.alarm_organisation_id || row.organisation_id !== row.user_organisation_id) return { ok: false, reason: "other_organisation" };
@@ -382,7 +383,7 @@ export async function acknowledgeByLink(token: string, comment: string | null, v
   return getSequelize().transaction(async (transaction) => {
     const found = await findNotification(token, viewerOrganisationId, now, transaction);
     if (!found.ok) return found;
-    const [alarm] = await rows<AlarmDbRow>(`SELECT * FROM alarms WHERE id = :id FOR UPDATE`, { id: found.alarmId }, transaction);
+    const [alarm] = await sqlRows<AlarmDbRow>(`SELECT * FROM alarms WHERE id = :id FOR UPDATE`, { id: found.alarmId }, { transaction });
     const applied = applyAlarmInput(toRecord(alarm), { type: "acknowledge" }, { at: now, cause: "acknowledged from the e-mail link" });
     if (!applied.ok) return { ok: false, reason: "not_acknowledgeable", message: applied.message };
     await saveAlarm(alarm.id, applied.result.record, { acknowledged: { at: now, userId: found.recipient.id } }, transaction);
@@ -398,7 +399,7 @@ export async function acknowledgeByLink(token: string, comment: string | null, v
       })),
       transaction,
     );
-    await rows(`UPDATE alarm_notifications SET used_at = :now WHERE id = :id RETURNING id`, { now, id: found.notificationId }, transaction);
+    await sqlRows(`UPDATE alarm_notifications SET used_at = :now WHERE id = :id RETURNING id`, { now, id: found.notificationId }, { transaction });
     await writeAudit(
       { organisationId: alarm.organisation_id, userId: found.recipient.id, label: found.recipient.email },
       "alarm.acknowledge",

@@ -7,7 +7,7 @@ import { HttpError } from "../http/errors";
 import { can, type Role } from "../auth/permissions";
 import type { PutOnCallInput } from "../validations/on-call";
 import { findSite } from "./sites";
-import { rows } from "./alarm-store";
+import { sqlRows } from "../db/sql";
 
 interface EntryRow {
   position: number;
@@ -19,7 +19,7 @@ interface EntryRow {
 }
 
 async function entries(siteId: string) {
-  const found = await rows<EntryRow>(
+  const found = await sqlRows<EntryRow>(
     `SELECT oc.position, u.id AS user_id, u.email, u.name, u.role, u.status
      FROM on_call_entries oc JOIN users u ON u.id = oc.user_id WHERE oc.site_id = :siteId ORDER BY oc.position`,
     { siteId },
@@ -29,7 +29,7 @@ async function entries(siteId: string) {
 
 /** People who may be put on call: the organisation's active users whose role may acknowledge alarms. */
 async function candidates(organisationId: string) {
-  const users = await rows<{ id: string; email: string; name: string; role: Role }>(
+  const users = await sqlRows<{ id: string; email: string; name: string; role: Role }>(
     `SELECT id, email, name, role FROM users WHERE organisation_id = :organisationId AND status = 'active' ORDER BY email`,
     { organisationId },
   );
@@ -53,7 +53,7 @@ export type OnCallJson = Awaited<ReturnType<typeof getOnCall>>;
 export async function putOnCall(actor: Actor, siteId: string, input: PutOnCallInput) {
   await findSite(actor.organisationId, siteId);
   const users = input.user_ids.length
-    ? await rows<{ id: string; email: string; role: Role; status: string }>(
+    ? await sqlRows<{ id: string; email: string; role: Role; status: string }>(
         `SELECT id, email, role, status FROM users WHERE organisation_id = :organisationId AND id IN (:ids)`,
         { organisationId: actor.organisationId, ids: input.user_ids },
       )
@@ -70,10 +70,10 @@ export async function putOnCall(actor: Actor, siteId: string, input: PutOnCallIn
     throw new HttpError(422, "invalid", Object.entries(fields).map(([k, v]) => `${k}: ${v}`).join("; "), {}, { fields });
   }
   await getSequelize().transaction(async (transaction) => {
-    await rows(`SELECT id FROM sites WHERE id = :siteId FOR UPDATE`, { siteId }, transaction);
-    await rows(`DELETE FROM on_call_entries WHERE site_id = :siteId RETURNING position`, { siteId }, transaction);
+    await sqlRows(`SELECT id FROM sites WHERE id = :siteId FOR UPDATE`, { siteId }, { transaction });
+    await sqlRows(`DELETE FROM on_call_entries WHERE site_id = :siteId RETURNING position`, { siteId }, { transaction });
     for (const [i, userId] of input.user_ids.entries()) {
-      await rows(`INSERT INTO on_call_entries (site_id, position, user_id) VALUES (:siteId, :position, :userId) RETURNING position`, { siteId, position: i + 1, userId }, transaction);
+      await sqlRows(`INSERT INTO on_call_entries (site_id, position, user_id) VALUES (:siteId, :position, :userId) RETURNING position`, { siteId, position: i + 1, userId }, { transaction });
     }
     await writeAudit(actor, "on_call.update", { type: "site", id: siteId }, { emails: input.user_ids.map((id) => byId.get(id)?.email) }, transaction);
   });

@@ -1,7 +1,6 @@
-import { initModels, Organisation } from "../db/models";
+import { Organisation } from "../db/models";
 
 export async function fetchOrganisationName(organisationId: string): Promise<string> {
-  initModels();
   const org = await Organisation.findByPk(organisationId);
   return org?.name ?? "";
 }

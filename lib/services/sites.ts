@@ -1,10 +1,10 @@
-import { QueryTypes } from "sequelize";
 import { writeAudit, type Actor } from "./audit";
-import { initModels, Site } from "../db/models";
+import { Site } from "../db/models";
 import { getSequelize } from "../db/sequelize";
+import { sqlRows } from "../db/sql";
 import { HttpError, notFound } from "../http/errors";
 import type { SiteInput } from "../validations/site";
-import { requestSiteRecompute } from "../worker/recompute";
+import { requestSiteRecompute } from "./recompute-requests";
 
 export function serialiseSite(s: Site) {
   return {
@@ -24,13 +24,11 @@ export function serialiseSite(s: Site) {
 export type SiteJson = ReturnType<typeof serialiseSite>;
 
 export async function listSites(organisationId: string) {
-  initModels();
   const sites = await Site.findAll({ where: { organisation_id: organisationId }, order: [["name", "ASC"]] });
   return sites.map(serialiseSite);
 }
 
 export async function findSite(organisationId: string, id: string): Promise<Site> {
-  initModels();
   const site = await Site.findOne({ where: { id, organisation_id: organisationId } });
   if (!site) throw notFound("That site");
   return site;
@@ -38,15 +36,14 @@ export async function findSite(organisationId: string, id: string): Promise<Site
 
 async function assertTemperatureChannel(organisationId: string, channelId: string | null | undefined) {
   if (!channelId) return;
-  const rows = await getSequelize().query(
+  const rows = await sqlRows(
     `SELECT 1 FROM channels c JOIN devices d ON d.id = c.device_id WHERE c.id = :channelId AND d.organisation_id = :organisationId`,
-    { replacements: { channelId, organisationId }, type: QueryTypes.SELECT },
+    { channelId, organisationId },
   );
   if (!rows.length) throw new HttpError(422, "invalid", "temperature_channel_id: no such channel in your organisation.", {}, { fields: { temperature_channel_id: "No such channel in your organisation." } });
 }
 
 export async function createSite(actor: Actor, input: SiteInput) {
-  initModels();
   await assertTemperatureChannel(actor.organisationId, input.temperature_channel_id);
   return getSequelize().transaction(async (transaction) => {
     const site = await Site.create({ ...input, organisation_id: actor.organisationId }, { transaction });

@@ -1,6 +1,6 @@
 import { Op } from "sequelize";
 import { writeAudit, type Actor } from "./audit";
-import { initModels, Invite, User } from "../db/models";
+import { Invite, User } from "../db/models";
 import { getSequelize } from "../db/sequelize";
 import { hashPassword } from "../auth/passwords";
 import { createSignedToken, verifySignedToken } from "../auth/invite-token";
@@ -25,14 +25,12 @@ function toRow(u: User): UserRow {
 }
 
 export async function listUsers(organisationId: string): Promise<UserRow[]> {
-  initModels();
   const users = await User.findAll({ where: { organisation_id: organisationId }, order: [["email", "ASC"]] });
   return users.map(toRow);
 }
 
 /** Creates the invited user and a single-use invite; returns the link token to e-mail. */
 export async function inviteUser(actor: Actor, input: InviteUserInput): Promise<{ user: UserRow; token: string }> {
-  initModels();
   return getSequelize().transaction(async (transaction) => {
     const existing = await User.findOne({ where: { email: { [Op.iLike]: input.email } }, transaction });
     if (existing) throw conflict("A user with this e-mail already exists.");
@@ -48,7 +46,6 @@ export async function inviteUser(actor: Actor, input: InviteUserInput): Promise<
 }
 
 export async function updateUser(actor: Actor, id: string, patch: { role?: Role; status?: "active" | "deactivated"; name?: string }) {
-  initModels();
   return getSequelize().transaction(async (transaction) => {
     const user = await User.findOne({ where: { id, organisation_id: actor.organisationId }, transaction, lock: true });
     if (!user) throw notFound("That user");
@@ -72,7 +69,6 @@ export type InviteLookup =
 export async function lookUpInvite(token: string): Promise<InviteLookup> {
   const check = verifySignedToken(token, INVITE_PURPOSE);
   if (!check.ok) return check;
-  initModels();
   const invite = await Invite.findByPk(check.id);
   if (!invite) return { ok: false, reason: "unknown" };
   if (invite.used_at) return { ok: false, reason: "used" };

@@ -3,8 +3,7 @@
 // per batch, never one per measurement. Idempotent: each alarm remembers how far it evaluated, so a
 // batch seen twice, or a sweep that overlaps the last one, changes nothing.
 
-import { QueryTypes, type Transaction } from "sequelize";
-import { getSequelize } from "../db/sequelize";
+import type { Transaction } from "sequelize";
 import {
   DEFAULT_PRIORITIES,
   RATE_ALARM_SETTINGS,
@@ -21,7 +20,8 @@ import {
 import type { LevelSample, SetpointKey, SetpointState } from "../alarms/setpoints";
 import type { AlarmPriority } from "../alarms/state-machine";
 import type { HealthFlagKind } from "./compute/types";
-import { type AlarmDbRow, type EventToWrite, insertAlarmEvents, rows, toRecord } from "../services/alarm-store";
+import { type AlarmDbRow, type EventToWrite, insertAlarmEvents, toRecord } from "../services/alarm-store";
+import { sqlRows, sqlRun } from "../db/sql";
 
 /** A usable level of a tank from one measurement. */
 export interface AssetLevelSample {
@@ -63,14 +63,10 @@ interface StageUpdate {
   evaluatedUntil: Date | null;
 }
 
-async function bindRows<T extends object>(sql: string, bind: unknown[], transaction?: Transaction): Promise<T[]> {
-  return getSequelize().query<T>(sql, { bind, type: QueryTypes.SELECT, transaction });
-}
-
 /** Creates the missing alarm rows of the tanks' setpoints and rate-of-change limits (in normal). */
 export async function ensureLevelAlarmRows(assetIds: readonly string[], transaction: Transaction): Promise<void> {
   if (assetIds.length === 0) return;
-  await bindRows(
+  await sqlRows(
     `INSERT INTO alarms (organisation_id, site_id, asset_id, kind, priority, latching, unit)
      SELECT a.organisation_id, a.site_id, sp.asset_id, sp.key, sp.priority, sp.latching, 'm'
      FROM alarm_setpoints sp JOIN assets a ON a.id = sp.asset_id WHERE sp.asset_id = ANY($1::uuid[])
@@ -80,7 +76,7 @@ export async function ensureLevelAlarmRows(assetIds: readonly string[], transact
      ON CONFLICT (asset_id, kind) WHERE channel_id IS NULL DO NOTHING
      RETURNING id`,
     [assetIds],
-    transaction,
+    { transaction },
   );
 }
 
@@ -88,7 +84,7 @@ export async function ensureLevelAlarmRows(assetIds: readonly string[], transact
 async function saveStageUpdates(updates: readonly StageUpdate[], transaction: Transaction): Promise<number> {
   if (updates.length === 0) return 0;
   const u = updates;
-  await getSequelize().query(
+  await sqlRun(
     `UPDATE alarms al SET state = v.state, condition_active = v.condition_active, shelved_until = v.shelved_until,
        episode = v.episode, activations = v.activations, activated_at = v.activated_at, cleared_at = v.cleared_at,
        value = v.value, setpoint = v.setpoint, last_change_at = v.last_change_at,
@@ -101,26 +97,23 @@ async function saveStageUpdates(updates: readonly StageUpdate[], transaction: Tr
                  $9::float8[], $10::float8[], $11::timestamptz[], $12::jsonb[], $13::timestamptz[], $14::boolean[])
        AS v(id, state, condition_active, shelved_until, episode, activations, activated_at, cleared_at, value, setpoint, last_change_at, eval_state, evaluated_until, new_episode)
      WHERE al.id = v.id`,
-    {
-      bind: [
-        u.map((x) => x.row.id),
-        u.map((x) => x.record.snapshot.state),
-        u.map((x) => x.record.snapshot.conditionActive),
-        u.map((x) => x.record.snapshot.shelvedUntil),
-        u.map((x) => x.record.episode),
-        u.map((x) => x.record.activations),
-        u.map((x) => x.record.activatedAt),
-        u.map((x) => x.record.clearedAt),
-        u.map((x) => x.record.value),
-        u.map((x) => x.record.setpoint),
-        u.map((x) => x.record.lastChangeAt),
-        u.map((x) => (x.evalState === undefined ? null : JSON.stringify(x.evalState))),
-        u.map((x) => x.evaluatedUntil),
-        u.map((x) => x.record.episode > x.row.episode),
-      ],
-      type: QueryTypes.RAW,
-      transaction,
-    },
+    [
+      u.map((x) => x.row.id),
+      u.map((x) => x.record.snapshot.state),
+      u.map((x) => x.record.snapshot.conditionActive),
+      u.map((x) => x.record.snapshot.shelvedUntil),
+      u.map((x) => x.record.episode),
+      u.map((x) => x.record.activations),
+      u.map((x) => x.record.activatedAt),
+      u.map((x) => x.record.clearedAt),
+      u.map((x) => x.record.value),
+      u.map((x) => x.record.setpoint),
+      u.map((x) => x.record.lastChangeAt),
+      u.map((x) => (x.evalState === undefined ? null : JSON.stringify(x.evalState))),
+      u.map((x) => x.evaluatedUntil),
+      u.map((x) => x.record.episode > x.row.episode),
+    ],
+    { transaction },
   );
   const events: EventToWrite[] = u.flatMap((x) =>
     x.events.map((event) => ({ alarmId: x.row.id, organisationId: x.row.organisation_id, event, actorLabel: "worker" })),
@@ -149,17 +142,17 @@ export async function evaluateLevelAlarms(samples: readonly AssetLevelSample[], 
   const byAsset = groupBy(samples, (s) => s.assetId);
   const assetIds = [...byAsset.keys()].sort();
   if (assetIds.length === 0) return { alarmsEvaluated: 0, events: 0 };
-  const settings = await bindRows<SettingsDbRow>(
+  const settings = await sqlRows<SettingsDbRow>(
     `SELECT asset_id, organisation_id, roc_limit_m_per_h, roc_priority, roc_enabled FROM asset_alarm_settings
      WHERE asset_id = ANY($1::uuid[]) ORDER BY asset_id FOR UPDATE`,
     [assetIds],
-    transaction,
+    { transaction },
   );
   if (settings.length === 0) return { alarmsEvaluated: 0, events: 0 };
   const ids = settings.map((s) => s.asset_id);
   await ensureLevelAlarmRows(ids, transaction);
-  const setpoints = await bindRows<SetpointDbRow>(`SELECT * FROM alarm_setpoints WHERE asset_id = ANY($1::uuid[])`, [ids], transaction);
-  const alarms = await bindRows<AlarmDbRow>(`SELECT * FROM alarms WHERE asset_id = ANY($1::uuid[]) AND channel_id IS NULL ORDER BY id FOR UPDATE`, [ids], transaction);
+  const setpoints = await sqlRows<SetpointDbRow>(`SELECT * FROM alarm_setpoints WHERE asset_id = ANY($1::uuid[])`, [ids], { transaction });
+  const alarms = await sqlRows<AlarmDbRow>(`SELECT * FROM alarms WHERE asset_id = ANY($1::uuid[]) AND channel_id IS NULL ORDER BY id FOR UPDATE`, [ids], { transaction });
   const setpointOf = new Map(setpoints.map((s) => [`${s.asset_id}:${s.key}`, s]));
   const settingsOf = new Map(settings.map((s) => [s.asset_id, s]));
   const history = await rateHistory(settings, byAsset, transaction);
@@ -185,11 +178,11 @@ export async function evaluateLevelAlarms(samples: readonly AssetLevelSample[], 
     }
   }
   const last = new Map(assetIds.map((id) => [id, new Date(Math.max(...(byAsset.get(id) ?? []).map((s) => s.at.getTime())))]));
-  await bindRows(
+  await sqlRows(
     `UPDATE asset_alarm_settings s SET evaluated_until = greatest(s.evaluated_until, v.at)
      FROM unnest($1::uuid[], $2::timestamptz[]) AS v(asset_id, at) WHERE s.asset_id = v.asset_id`,
     [ids, ids.map((id) => last.get(id) ?? null)],
-    transaction,
+    { transaction },
   );
   return { alarmsEvaluated: updates.length, events: await saveStageUpdates(updates, transaction) };
 }
@@ -208,7 +201,7 @@ async function rateHistory(settings: readonly SettingsDbRow[], byAsset: Readonly
   const watched = settings.filter((s) => s.roc_enabled && s.roc_limit_m_per_h !== null);
   if (watched.length === 0) return out;
   const firsts = watched.map((s) => Math.min(...(byAsset.get(s.asset_id) ?? []).map((x) => x.at.getTime())));
-  const found = await bindRows<{ asset_id: string; at: Date; level_m: number }>(
+  const found = await sqlRows<{ asset_id: string; at: Date; level_m: number }>(
     `SELECT v.asset_id, m.at, m.level_m
      FROM unnest($1::uuid[], $2::timestamptz[]) AS v(asset_id, first_at)
      JOIN channels ch ON ch.asset_id = v.asset_id
@@ -216,7 +209,7 @@ async function rateHistory(settings: readonly SettingsDbRow[], byAsset: Readonly
      WHERE m.status IN ('ok', 'noisy') AND m.level_m IS NOT NULL
      ORDER BY m.at`,
     [watched.map((s) => s.asset_id), firsts.map((ms) => new Date(ms)), RATE_ALARM_SETTINGS.windowS],
-    transaction,
+    { transaction },
   );
   for (const r of found) {
     const list = out.get(r.asset_id) ?? [];
@@ -240,7 +233,7 @@ interface FlagDbRow {
 async function applyFlagRows(flags: readonly FlagDbRow[], extraAlarmIds: readonly string[], transaction: Transaction): Promise<StageCounts> {
   const keys = [...new Map(flags.map((f) => [`${f.channel_id}:${f.flag}`, f])).values()];
   if (keys.length) {
-    await bindRows(
+    await sqlRows(
       `INSERT INTO alarms (organisation_id, site_id, asset_id, channel_id, kind, priority)
        SELECT d.organisation_id, d.site_id, ch.asset_id, v.channel_id, v.flag, v.priority
        FROM unnest($1::uuid[], $2::text[], $3::text[]) AS v(channel_id, flag, priority)
@@ -248,16 +241,16 @@ async function applyFlagRows(flags: readonly FlagDbRow[], extraAlarmIds: readonl
        ON CONFLICT (channel_id, kind) WHERE channel_id IS NOT NULL DO NOTHING
        RETURNING id`,
       [keys.map((k) => k.channel_id), keys.map((k) => k.flag), keys.map((k) => DEFAULT_PRIORITIES[k.flag])],
-      transaction,
+      { transaction },
     );
   }
-  const alarms = await bindRows<AlarmDbRow>(
+  const alarms = await sqlRows<AlarmDbRow>(
     `SELECT al.* FROM alarms al
      WHERE al.channel_id IS NOT NULL
        AND ((al.channel_id, al.kind) IN (SELECT * FROM unnest($1::uuid[], $2::text[])) OR al.id = ANY($3::uuid[]))
      ORDER BY al.id FOR UPDATE OF al`,
     [keys.map((k) => k.channel_id), keys.map((k) => k.flag), extraAlarmIds],
-    transaction,
+    { transaction },
   );
   const flagsOf = groupBy(flags, (f) => `${f.channel_id}:${f.flag}`);
   const updates: StageUpdate[] = [];
@@ -276,11 +269,11 @@ async function applyFlagRows(flags: readonly FlagDbRow[], extraAlarmIds: readonl
 /** Health flags a batch wrote (inside its transaction, where now() is the transaction's start). */
 export async function evaluateHealthAlarmsForChannels(channelIds: readonly string[], transaction: Transaction): Promise<StageCounts> {
   if (channelIds.length === 0) return { alarmsEvaluated: 0, events: 0 };
-  const flags = await bindRows<FlagDbRow>(
+  const flags = await sqlRows<FlagDbRow>(
     `SELECT id, channel_id, flag, since, cleared_at, magnitude, updated_at FROM health_flags
      WHERE channel_id = ANY($1::uuid[]) AND (cleared_at IS NULL OR updated_at >= now())`,
     [channelIds],
-    transaction,
+    { transaction },
   );
   return applyFlagRows(flags, [], transaction);
 }
@@ -296,14 +289,14 @@ const CURSOR_OVERLAP_MS = 10 * 60_000;
  * worker's cycle as well as after batches.
  */
 export async function sweepHealthAlarms(transaction: Transaction): Promise<StageCounts> {
-  await bindRows(`INSERT INTO alarm_stage_cursors (name, at) VALUES ($1, '-infinity') ON CONFLICT (name) DO NOTHING RETURNING name`, [HEALTH_CURSOR], transaction);
-  const [cursor] = await bindRows<{ at: Date | string }>(`SELECT at FROM alarm_stage_cursors WHERE name = $1 FOR UPDATE`, [HEALTH_CURSOR], transaction);
-  const active = await bindRows<{ id: string; channel_id: string; kind: HealthFlagKind }>(
+  await sqlRows(`INSERT INTO alarm_stage_cursors (name, at) VALUES ($1, '-infinity') ON CONFLICT (name) DO NOTHING RETURNING name`, [HEALTH_CURSOR], { transaction });
+  const [cursor] = await sqlRows<{ at: Date | string }>(`SELECT at FROM alarm_stage_cursors WHERE name = $1 FOR UPDATE`, [HEALTH_CURSOR], { transaction });
+  const active = await sqlRows<{ id: string; channel_id: string; kind: HealthFlagKind }>(
     `SELECT id, channel_id, kind FROM alarms WHERE channel_id IS NOT NULL AND condition_active`,
     [],
-    transaction,
+    { transaction },
   );
-  const flags = await bindRows<FlagDbRow>(
+  const flags = await sqlRows<FlagDbRow>(
     `SELECT id, channel_id, flag, since, cleared_at, magnitude, updated_at FROM health_flags
      WHERE cleared_at IS NULL OR updated_at > $1::timestamptz
      UNION
@@ -313,22 +306,22 @@ export async function sweepHealthAlarms(transaction: Transaction): Promise<Stage
        ORDER BY f.channel_id, f.flag, f.since DESC
      ) latest`,
     [cursor.at, active.map((a) => a.channel_id), active.map((a) => a.kind)],
-    transaction,
+    { transaction },
   );
   const counts = await applyFlagRows(flags, active.map((a) => a.id), transaction);
   const newest = flags.reduce((max, f) => Math.max(max, new Date(f.updated_at).getTime()), -Infinity);
   if (Number.isFinite(newest)) {
-    await bindRows(`UPDATE alarm_stage_cursors SET at = greatest(at, $2::timestamptz) WHERE name = $1 RETURNING name`, [HEALTH_CURSOR, new Date(newest - CURSOR_OVERLAP_MS)], transaction);
+    await sqlRows(`UPDATE alarm_stage_cursors SET at = greatest(at, $2::timestamptz) WHERE name = $1 RETURNING name`, [HEALTH_CURSOR, new Date(newest - CURSOR_OVERLAP_MS)], { transaction });
   }
   return counts;
 }
 
 /** Shelved alarms whose expiry has passed return by themselves. */
 export async function expireShelves(now: Date, transaction: Transaction): Promise<StageCounts> {
-  const due = await rows<AlarmDbRow>(
+  const due = await sqlRows<AlarmDbRow>(
     `SELECT * FROM alarms WHERE state = 'shelved' AND shelved_until <= :now ORDER BY id FOR UPDATE SKIP LOCKED`,
     { now },
-    transaction,
+    { transaction },
   );
   const updates: StageUpdate[] = [];
   for (const row of due) {

@@ -2,9 +2,8 @@
 // statement per table per batch, arrays passed as parameters and unnested in SQL, never a query per
 // reading.
 
-import { QueryTypes, type Transaction } from "sequelize";
-import { getSequelize } from "../db/sequelize";
-import { decodeBinaryArray, queryArrayRow, sendArray } from "./binary-arrays";
+import type { Transaction } from "sequelize";
+import { decodeBase64Row, decodeBinaryArray, sendArray } from "./binary-arrays";
 import { QUEUED_READING_COLUMNS } from "./reading-queue";
 import type { TankGeometry } from "../geometry/tank-volume";
 import { parseChannelState } from "./compute/channel-state";
@@ -13,14 +12,7 @@ import type { NewTemperatureSample, SessionRow, StoredChannelState } from "./com
 import { PIPELINE_SETTINGS } from "./compute/settings";
 import type { TemperatureSample } from "./compute/air-temperature";
 import type { AssetKind, ChannelConfig, ReadingRow, SignalProfile } from "./compute/types";
-
-export async function sqlRows<T extends object>(sql: string, bind: unknown[], transaction?: Transaction): Promise<T[]> {
-  return getSequelize().query<T>(sql, { bind, type: QueryTypes.SELECT, transaction });
-}
-
-export async function sqlRun(sql: string, bind: unknown[], transaction?: Transaction): Promise<void> {
-  await getSequelize().query(sql, { bind, type: QueryTypes.RAW, transaction });
-}
+import { sqlRows, sqlRun } from "../db/sql";
 
 // ── Readings ────────────────────────────────────────────────────────────────────────────────────
 
@@ -75,8 +67,8 @@ export const readingsAsArrays = (source: string) => `SELECT ${READING_ARRAYS} FR
 
 /** Readings of a statement built with readingsAsArrays, in time order (then id); ids and microsecond times stay below 2^53. */
 export async function fetchReadings(sql: string, bind: unknown[], transaction: Transaction): Promise<ReadingRow[]> {
-  const row = await queryArrayRow(transaction, sql, bind);
-  const readings = row ? readingsFromColumns(row) : [];
+  const [row] = await sqlRows<Record<string, string | null>>(sql, bind, { transaction });
+  const readings = row ? readingsFromColumns(decodeBase64Row(row)) : [];
   for (let i = 1; i < readings.length; i++) {
     if (byTimeThenId(readings[i - 1], readings[i]) > 0) return readings.sort(byTimeThenId);
   }
@@ -169,12 +161,12 @@ function toChannelConfig(r: ChannelDbRow): ChannelConfig {
 /** Every channel of the given devices, as the pipeline needs them. */
 export async function loadChannelsOfDevices(deviceIds: string[], transaction?: Transaction): Promise<ChannelConfig[]> {
   if (deviceIds.length === 0) return [];
-  const rows = await sqlRows<ChannelDbRow>(`${CHANNEL_SELECT} WHERE c.device_id = ANY($1::uuid[])`, [deviceIds], transaction);
+  const rows = await sqlRows<ChannelDbRow>(`${CHANNEL_SELECT} WHERE c.device_id = ANY($1::uuid[])`, [deviceIds], { transaction });
   return rows.map(toChannelConfig);
 }
 
 export async function loadChannel(channelId: string, transaction?: Transaction): Promise<ChannelConfig | null> {
-  const rows = await sqlRows<ChannelDbRow>(`${CHANNEL_SELECT} WHERE c.id = $1`, [channelId], transaction);
+  const rows = await sqlRows<ChannelDbRow>(`${CHANNEL_SELECT} WHERE c.id = $1`, [channelId], { transaction });
   return rows.length ? toChannelConfig(rows[0]) : null;
 }
 
@@ -185,7 +177,7 @@ export async function loadTemperatureChannelSites(channelIds: string[], transact
   const rows = await sqlRows<{ id: string; temperature_channel_id: string }>(
     `SELECT id, temperature_channel_id FROM sites WHERE temperature_channel_id = ANY($1::uuid[])`,
     [channelIds],
-    transaction,
+    { transaction },
   );
   for (const r of rows) map.set(r.temperature_channel_id, [...(map.get(r.temperature_channel_id) ?? []), r.id]);
   return map;
@@ -199,7 +191,7 @@ export async function loadTemperatureSamples(siteIds: string[], from: Date, to: 
     `SELECT site_id, at, air_temp_c FROM temperature_samples
      WHERE site_id = ANY($1::uuid[]) AND at BETWEEN $2::timestamptz - make_interval(secs => $4) AND $3::timestamptz + make_interval(secs => $4)`,
     [siteIds, from, to, PIPELINE_SETTINGS.tempInterpolationMaxGapS],
-    transaction,
+    { transaction },
   );
   for (const r of rows) {
     const list = map.get(r.site_id) ?? [];
@@ -224,11 +216,11 @@ export async function lockChannelStates(channelIds: string[], transaction: Trans
   const map = new Map<string, LockedChannelState>();
   if (channelIds.length === 0) return map;
   const sorted = [...new Set(channelIds)].sort();
-  await sqlRun(`INSERT INTO channel_state (channel_id) SELECT unnest($1::uuid[]) ON CONFLICT DO NOTHING`, [sorted], transaction);
+  await sqlRun(`INSERT INTO channel_state (channel_id) SELECT unnest($1::uuid[]) ON CONFLICT DO NOTHING`, [sorted], { transaction });
   const rows = await sqlRows<{ channel_id: string; state: unknown; offline_since: Date | null; version: string }>(
     `SELECT channel_id, state, offline_since, version FROM channel_state WHERE channel_id = ANY($1::uuid[]) ORDER BY channel_id FOR UPDATE`,
     [sorted],
-    transaction,
+    { transaction },
   );
   for (const r of rows) map.set(r.channel_id, { state: parseChannelState(r.state), offlineSince: r.offline_since, version: Number(r.version) });
   return map;
@@ -244,7 +236,7 @@ export async function upsertSessions(sessions: readonly SessionRow[], transactio
      SELECT * FROM unnest($1::uuid[], $2::uuid[], $3::timestamptz[], $4::timestamptz[], $5::float8[])
      ON CONFLICT (channel_id, started_at) DO UPDATE SET ended_at = excluded.ended_at, duration_s = excluded.duration_s`,
     [sessions.map((s) => s.assetId), sessions.map((s) => s.channelId), sessions.map((s) => s.start), sessions.map((s) => s.end), sessions.map((s) => s.durationS)],
-    transaction,
+    { transaction },
   );
 }
 
@@ -259,7 +251,7 @@ export async function insertTemperatureSamples(samples: readonly NewTemperatureS
      SELECT site_id, at, air_temp_c, 'channel' FROM unnest($1::uuid[], $2::timestamptz[], $3::float8[]) AS v(site_id, at, air_temp_c)
      ON CONFLICT (site_id, at, source) DO UPDATE SET air_temp_c = excluded.air_temp_c`,
     [list.map((s) => s.siteId), list.map((s) => new Date(s.atMs)), list.map((s) => s.airTempC)],
-    transaction,
+    { transaction },
   );
 }
 
@@ -271,7 +263,7 @@ export async function applyFlagChanges(flags: FlagChanges, offlineCleared: reado
        FROM unnest($1::uuid[], $2::text[], $3::timestamptz[]) AS v(channel_id, flag, at)
        WHERE f.channel_id = v.channel_id AND f.flag = v.flag AND f.cleared_at IS NULL`,
       [clears.map((c) => c.channelId), clears.map((c) => c.flag), clears.map((c) => c.at)],
-      transaction,
+      { transaction },
     );
   }
   if (flags.intervals.length) {
@@ -280,7 +272,7 @@ export async function applyFlagChanges(flags: FlagChanges, offlineCleared: reado
       `INSERT INTO health_flags (channel_id, flag, since, cleared_at, magnitude, details)
        SELECT * FROM unnest($1::uuid[], $2::text[], $3::timestamptz[], $4::timestamptz[], $5::float8[], $6::jsonb[])`,
       [f.map((x) => x.channelId), f.map((x) => x.flag), f.map((x) => x.since), f.map((x) => x.clearedAt), f.map((x) => x.magnitude), f.map((x) => JSON.stringify(x.details))],
-      transaction,
+      { transaction },
     );
   }
   if (flags.opens.length) {
@@ -291,7 +283,7 @@ export async function applyFlagChanges(flags: FlagChanges, offlineCleared: reado
        ON CONFLICT (channel_id, flag) WHERE cleared_at IS NULL
        DO UPDATE SET magnitude = excluded.magnitude, details = health_flags.details || excluded.details, updated_at = now()`,
       [f.map((x) => x.channelId), f.map((x) => x.flag), f.map((x) => x.since), f.map((x) => x.magnitude), f.map((x) => JSON.stringify(x.details))],
-      transaction,
+      { transaction },
     );
   }
 }

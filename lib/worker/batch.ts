@@ -13,19 +13,9 @@ import { QUEUED_READING_COLUMNS } from "./reading-queue";
 import { channelKey, processBatch, processBatchInSteps, type ProcessedBatch } from "./compute/batch";
 import type { ChannelState } from "./compute/channel-state";
 import type { ChannelConfig, ReadingRow } from "./compute/types";
-import {
-  loadChannelsOfDevices,
-  loadTemperatureChannelSites,
-  loadTemperatureSamples,
-  lockChannelStates,
-  fetchReadings,
-  MICROS_TO_TIMESTAMPTZ,
-  readingsAsArrays,
-  sqlRows,
-  sqlRun,
-  type LockedChannelState,
-} from "./batch-store";
+import { loadChannelsOfDevices, loadTemperatureChannelSites, loadTemperatureSamples, lockChannelStates, fetchReadings, MICROS_TO_TIMESTAMPTZ, readingsAsArrays, type LockedChannelState } from "./batch-store";
 import { encodeBatch, writeEncodedBatch, type EncodedBatch } from "./encode";
+import { sqlRows, sqlRun } from "../db/sql";
 
 /**
  * A step that runs inside the batch's transaction after its measurements and flags are written:
@@ -78,7 +68,7 @@ async function lockCarriedAndRelease(channelIds: string[], transaction: Transact
     `SELECT json_agg(x ORDER BY x.channel_id) AS rows, pg_advisory_unlock($2) AS released
      FROM (SELECT channel_id, version FROM channel_state WHERE channel_id = ANY($1::uuid[]) ORDER BY channel_id FOR UPDATE) x`,
     [[...channelIds].sort(), CLAIM_LOCK_KEY],
-    transaction,
+    { transaction },
   );
   return new Map((row?.rows ?? []).map((r) => [r.channel_id, Number(r.version)]));
 }
@@ -125,7 +115,7 @@ interface Claimed {
 /** Lets pending database replies be handled before computing goes on. */
 const yieldToIo = () => new Promise<void>((resolve) => setImmediate(resolve));
 
-const releaseClaimLock = (transaction: Transaction) => sqlRun(`SELECT pg_advisory_unlock($1)`, [CLAIM_LOCK_KEY], transaction);
+const releaseClaimLock = (transaction: Transaction) => sqlRun(`SELECT pg_advisory_unlock($1)`, [CLAIM_LOCK_KEY], { transaction });
 
 /**
  * Opens a batch's transaction, takes the claim lock and claims waiting readings (those after `after`
@@ -139,8 +129,8 @@ async function claimNextBatch(batchSize: number, after: ReadingRow | null = null
   try {
     // A crash of the database can lose only whole batches, which roll back with their queue deletions.
     // JIT compilation would cost more than these short, wide statements take to run.
-    await sqlRun(`SET LOCAL synchronous_commit = off; SET LOCAL jit = off`, [], transaction);
-    await sqlRun(`SELECT pg_advisory_lock($1)`, [CLAIM_LOCK_KEY], transaction);
+    await sqlRun(`SET LOCAL synchronous_commit = off; SET LOCAL jit = off`, [], { transaction });
+    await sqlRun(`SELECT pg_advisory_lock($1)`, [CLAIM_LOCK_KEY], { transaction });
     locked = true;
     // Readings that came in late behind the batch in flight are claimed once those after it are done.
     let readings = await claimBatch(batchSize, transaction, after);

@@ -2,9 +2,6 @@
 // moves whole columns of a batch this way: PostgreSQL turning 25 000 floats, uuids and times into text
 // and back cost more than the statements that use them.
 
-import { QueryTypes, type Transaction } from "sequelize";
-import { getSequelize } from "../db/sequelize";
-
 export type BinaryType = "float8" | "int8" | "int4" | "int2" | "bool" | "uuid" | "timestamptz" | "text" | "bytea";
 
 const ELEMENT_OID: Record<BinaryType, number> = { float8: 701, int8: 20, int4: 23, int2: 21, bool: 16, uuid: 2950, timestamptz: 1184, text: 25, bytea: 17 };
@@ -285,10 +282,8 @@ export function decodeBinaryArray<T extends BinaryType>(buf: Buffer | null, type
  */
 export const sendArray = (expression: string) => `encode(array_send(${expression}), 'base64')`;
 
-/** The one row of a statement whose columns are all `sendArray(…)`, as binary arrays (null stays null). */
-export async function queryArrayRow(transaction: Transaction, text: string, bind: unknown[]): Promise<Record<string, Buffer | null> | null> {
-  const [row] = await getSequelize().query<Record<string, string | null>>(text, { bind, type: QueryTypes.SELECT, transaction });
-  if (!row) return null;
+/** A row of base64-encoded `sendArray(…)` columns as binary arrays (null stays null). */
+export function decodeBase64Row(row: Record<string, string | null>): Record<string, Buffer | null> {
   const out: Record<string, Buffer | null> = {};
   for (const [key, value] of Object.entries(row)) out[key] = value === null ? null : Buffer.from(value, "base64");
   return out;

@@ -4,11 +4,12 @@
 // writes then wait neither for each other nor for the worker's other work between round trips.
 
 import type { Transaction } from "sequelize";
-import { binaryArray, binaryColumn, ColumnWriter, decodeBinaryArray, queryArrayRow, sendArray, type BinaryType } from "./binary-arrays";
+import { binaryArray, binaryColumn, ColumnWriter, decodeBase64Row, decodeBinaryArray, sendArray, type BinaryType } from "./binary-arrays";
 import type { ChannelState } from "./compute/channel-state";
 import type { ProcessedBatch } from "./compute/batch";
 import type { ChannelConfig, Measurement } from "./compute/types";
-import { applyFlagChanges, insertTemperatureSamples, sqlRun, upsertSessions } from "./batch-store";
+import { applyFlagChanges, insertTemperatureSamples, upsertSessions } from "./batch-store";
+import { sqlRows, sqlRun } from "../db/sql";
 
 // ── Measurements and rollups ────────────────────────────────────────────────────────────────────
 
@@ -364,22 +365,22 @@ export async function writeEncodedBatch(e: EncodedBatch, transaction: Transactio
   await insertTemperatureSamples(batch.newTemperatureSamples, transaction);
   let written = { inserted: e.ordered.length, buckets: e.buckets };
   if (e.ordered.length) {
-    await sqlRun(`SAVEPOINT batch_measurements`, [], transaction);
+    await sqlRun(`SAVEPOINT batch_measurements`, [], { transaction });
     try {
-      await sqlRun(WRITE_ALL, [...e.measurementColumns, ...e.rollupColumns, ...e.states], transaction);
-      await sqlRun(`RELEASE SAVEPOINT batch_measurements`, [], transaction);
+      await sqlRun(WRITE_ALL, [...e.measurementColumns, ...e.rollupColumns, ...e.states], { transaction });
+      await sqlRun(`RELEASE SAVEPOINT batch_measurements`, [], { transaction });
     } catch (err) {
       if (!isUniqueViolation(err)) throw err;
-      await sqlRun(`ROLLBACK TO SAVEPOINT batch_measurements`, [], transaction);
-      const row = await queryArrayRow(transaction, INSERT_NEW_MEASUREMENTS, e.measurementColumns);
-      const ids = new Set(decodeBinaryArray(row?.ids ?? null, "int8"));
+      await sqlRun(`ROLLBACK TO SAVEPOINT batch_measurements`, [], { transaction });
+      const [row] = await sqlRows<{ ids: string | null }>(INSERT_NEW_MEASUREMENTS, e.measurementColumns, { transaction });
+      const ids = new Set(decodeBinaryArray(row ? decodeBase64Row(row).ids : null, "int8"));
       const rollups = rollUp(e.ordered.filter((m) => ids.has(m.reading.id)));
-      if (rollups.length) await sqlRun(UPSERT_ROLLUPS, rollupColumns(rollups), transaction);
-      await sqlRun(UPDATE_STATES, e.states, transaction);
+      if (rollups.length) await sqlRun(UPSERT_ROLLUPS, rollupColumns(rollups), { transaction });
+      await sqlRun(UPDATE_STATES, e.states, { transaction });
       written = { inserted: ids.size, buckets: rollups.length };
     }
   } else if (batch.states.size) {
-    await sqlRun(UPDATE_STATES, e.states, transaction);
+    await sqlRun(UPDATE_STATES, e.states, { transaction });
   }
   await upsertSessions(batch.sessions, transaction);
   await applyFlagChanges(batch.flags, batch.offlineCleared, transaction);

@@ -9,7 +9,7 @@
 
 import { PIPELINE_SETTINGS } from "./compute/settings";
 import { getSequelize } from "../db/sequelize";
-import { sqlRows } from "./batch-store";
+import { sqlRows } from "../db/sql";
 
 /** Reason of the recompute requests this stage files. */
 export const LATE_TEMPERATURE_REASON = "late temperature samples";
@@ -84,7 +84,7 @@ RETURNING channel_id`;
 /** Files a recompute for each channel measured without the temperature samples that now cover it; returns how many. */
 export async function fileLateTemperatureRecomputes(): Promise<number> {
   return getSequelize().transaction(async (transaction) => {
-    const spans = await sqlRows<{ site_id: string; from_at: Date; to_at: Date }>(CLAIM_SPANS, [MAX_SPANS, RECHECK_AFTER_S], transaction);
+    const spans = await sqlRows<{ site_id: string; from_at: Date; to_at: Date }>(CLAIM_SPANS, [MAX_SPANS, RECHECK_AFTER_S], { transaction });
     if (spans.length === 0) return 0;
     const filed = await sqlRows<{ channel_id: string }>(
       FILE_RECOMPUTES,
@@ -96,7 +96,7 @@ export async function fileLateTemperatureRecomputes(): Promise<number> {
         PIPELINE_SETTINGS.tempNearestMaxS,
         LATE_TEMPERATURE_REASON,
       ],
-      transaction,
+      { transaction },
     );
     return filed.length;
   });

@@ -6,7 +6,7 @@ import { detectDrift } from "../signal/cusum";
 import { tankCapacity, type TankGeometry } from "../geometry/tank-volume";
 import { forecastTank } from "./compute/forecast";
 import { PIPELINE_SETTINGS } from "./compute/settings";
-import { sqlRows, sqlRun } from "./batch-store";
+import { sqlRows, sqlRun } from "../db/sql";
 
 /** Creates this month's and the next two months' partitions of readings and measurements. */
 export async function ensurePartitions(): Promise<void> {
@@ -21,7 +21,7 @@ export async function ensurePartitions(): Promise<void> {
  */
 export async function markOfflineChannels(): Promise<number> {
   return getSequelize().transaction(async (transaction) => {
-    await sqlRun(`INSERT INTO channel_state (channel_id) SELECT id FROM channels ON CONFLICT DO NOTHING`, [], transaction);
+    await sqlRun(`INSERT INTO channel_state (channel_id) SELECT id FROM channels ON CONFLICT DO NOTHING`, [], { transaction });
     const rows = await sqlRows<{ n: number }>(
       `WITH due AS (
          SELECT s.channel_id, s.last_at, d.expected_interval_s,
@@ -39,7 +39,7 @@ export async function markOfflineChannels(): Promise<number> {
        )
        SELECT count(*)::int AS n FROM flagged`,
       [],
-      transaction,
+      { transaction },
     );
     return rows[0]?.n ?? 0;
   });
@@ -90,7 +90,7 @@ export async function evaluateManualDips(): Promise<number> {
        ORDER BY d.at LIMIT 500
        FOR UPDATE OF d SKIP LOCKED`,
       [windowS],
-      transaction,
+      { transaction },
     );
     const now = Date.now();
     const touched = new Set<string>();
@@ -103,7 +103,7 @@ export async function evaluateManualDips(): Promise<number> {
       await sqlRun(
         `UPDATE manual_dips SET channel_id = $2, measured_level_m = $3, residual_m = $4, evaluated_at = now() WHERE id = $1`,
         [dip.id, dip.channel_id, measured, measured === null ? null : measured - dip.level_m],
-        transaction,
+        { transaction },
       );
       evaluated += 1;
       if (measured !== null && dip.channel_id) touched.add(dip.channel_id);
@@ -112,7 +112,7 @@ export async function evaluateManualDips(): Promise<number> {
       const dips = await sqlRows<{ at: Date; residual_m: number }>(
         `SELECT at, residual_m FROM (SELECT at, residual_m FROM manual_dips WHERE channel_id = $1 AND residual_m IS NOT NULL ORDER BY at DESC LIMIT 50) x ORDER BY at`,
         [channelId],
-        transaction,
+        { transaction },
       );
       const verdict = detectDrift(
         dips.map((x) => ({ at: x.at, value: x.residual_m })),
@@ -123,13 +123,13 @@ export async function evaluateManualDips(): Promise<number> {
           `INSERT INTO health_flags (channel_id, flag, since, magnitude, details) VALUES ($1, 'drift', $2, $3, $4::jsonb)
            ON CONFLICT (channel_id, flag) WHERE cleared_at IS NULL DO UPDATE SET magnitude = excluded.magnitude, details = excluded.details, updated_at = now()`,
           [channelId, verdict.onsetAt, verdict.magnitude, JSON.stringify({ reference: "manual_dips", direction: verdict.direction, detected_at: verdict.detectedAt, sigma_m: verdict.sigma, dips: dips.length })],
-          transaction,
+          { transaction },
         );
       } else if (verdict && !verdict.drifting) {
         await sqlRun(
           `UPDATE health_flags SET cleared_at = greatest(since, $2), updated_at = now() WHERE channel_id = $1 AND flag = 'drift' AND cleared_at IS NULL AND details->>'reference' = 'manual_dips'`,
           [channelId, dips[dips.length - 1].at],
-          transaction,
+          { transaction },
         );
       }
     }

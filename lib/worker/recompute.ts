@@ -1,64 +1,14 @@
 // Recompute: after a channel's calibration or an asset's geometry or mounting changes, the worker
 // rebuilds that channel's measurements, rollups, bay sessions and health flags from its readings.
-// Routes only file a request; the worker drains them in the background. A channel is rebuilt in one
-// transaction from a fresh state, so doing it twice gives the same rows.
+// Use cases only file a request (lib/services/recompute-requests.ts); the worker drains them here. A
+// channel is rebuilt in one transaction from a fresh state, so doing it twice gives the same rows.
 
-import type { Transaction } from "sequelize";
 import { getSequelize } from "../db/sequelize";
 import { channelKey, processBatch } from "./compute/batch";
 import { initialChannelState, type ChannelState } from "./compute/channel-state";
-import {
-  loadChannel,
-  loadTemperatureChannelSites,
-  loadTemperatureSamples,
-  lockChannelStates,
-  fetchReadings,
-  MICROS_TO_TIMESTAMPTZ,
-  readingsAsArrays,
-  sqlRows,
-  sqlRun,
-} from "./batch-store";
+import { loadChannel, loadTemperatureChannelSites, loadTemperatureSamples, lockChannelStates, fetchReadings, MICROS_TO_TIMESTAMPTZ, readingsAsArrays } from "./batch-store";
 import { writeProcessedBatch } from "./encode";
-
-export interface RecomputeRequestInput {
-  channelId?: string | null;
-  assetId?: string | null;
-  reason: string;
-}
-
-/** Files a recompute for a channel, or for every channel of an asset; the worker picks it up. */
-export async function requestRecompute({ channelId = null, assetId = null, reason }: RecomputeRequestInput, transaction?: Transaction): Promise<{ id: number }> {
-  if (!channelId && !assetId) throw new RangeError("requestRecompute needs a channelId or an assetId");
-  const [row] = await sqlRows<{ id: string }>(
-    `INSERT INTO recompute_requests (channel_id, asset_id, reason) VALUES ($1, $2, $3) RETURNING id`,
-    [channelId, assetId, reason],
-    transaction,
-  );
-  return { id: Number(row.id) };
-}
-
-/**
- * Files a recompute for each channel with an asset on the site's devices (their air temperature comes
- * from the site). A new temperature channel goes first: rebuilding it stores its readings as the site's
- * samples before the other channels are rebuilt with them. Returns the requests' ids.
- */
-export async function requestSiteRecompute(
-  siteId: string,
-  { reason, temperatureChannelId = null }: { reason: string; temperatureChannelId?: string | null },
-  transaction?: Transaction,
-): Promise<number[]> {
-  const ids = temperatureChannelId ? [(await requestRecompute({ channelId: temperatureChannelId, reason }, transaction)).id] : [];
-  const rows = await sqlRows<{ id: string }>(
-    `INSERT INTO recompute_requests (channel_id, reason)
-     SELECT c.id, $2 FROM channels c JOIN devices d ON d.id = c.device_id
-     WHERE d.site_id = $1 AND c.asset_id IS NOT NULL AND c.id IS DISTINCT FROM $3::uuid
-     ORDER BY c.id
-     RETURNING id`,
-    [siteId, reason, temperatureChannelId],
-    transaction,
-  );
-  return [...ids, ...rows.map((r) => Number(r.id))];
-}
+import { sqlRows, sqlRun } from "../db/sql";
 
 const REPLAY_CHUNK = 5000;
 
@@ -72,26 +22,26 @@ export async function recomputeChannel(channelId: string): Promise<number> {
     const d = channel.device.id;
 
     // Measurements taken while the channel served another asset stay as they were.
-    await sqlRun(`DELETE FROM measurements WHERE channel_id = $1 AND asset_id IS NOT DISTINCT FROM $2`, [channelId, assetId], transaction);
+    await sqlRun(`DELETE FROM measurements WHERE channel_id = $1 AND asset_id IS NOT DISTINCT FROM $2`, [channelId, assetId], { transaction });
     if (assetId) {
-      await sqlRun(`DELETE FROM measurement_rollups WHERE channel_id = $1 AND asset_id = $2`, [channelId, assetId], transaction);
-      await sqlRun(`DELETE FROM occupancy_sessions WHERE channel_id = $1 AND asset_id = $2`, [channelId, assetId], transaction);
-      await sqlRun(`UPDATE manual_dips SET evaluated_at = NULL, measured_level_m = NULL, residual_m = NULL, channel_id = NULL WHERE asset_id = $1`, [assetId], transaction);
-      await sqlRun(`DELETE FROM tank_forecasts WHERE asset_id = $1`, [assetId], transaction);
+      await sqlRun(`DELETE FROM measurement_rollups WHERE channel_id = $1 AND asset_id = $2`, [channelId, assetId], { transaction });
+      await sqlRun(`DELETE FROM occupancy_sessions WHERE channel_id = $1 AND asset_id = $2`, [channelId, assetId], { transaction });
+      await sqlRun(`UPDATE manual_dips SET evaluated_at = NULL, measured_level_m = NULL, residual_m = NULL, channel_id = NULL WHERE asset_id = $1`, [assetId], { transaction });
+      await sqlRun(`DELETE FROM tank_forecasts WHERE asset_id = $1`, [assetId], { transaction });
     }
     // Crosstalk depends on timing only, and the open offline flag on the present silence: both stay.
     await sqlRun(
       `DELETE FROM health_flags WHERE channel_id = $1 AND flag <> 'crosstalk_risk' AND NOT (flag = 'offline' AND cleared_at IS NULL)`,
       [channelId],
-      transaction,
+      { transaction },
     );
     const crosstalk = await sqlRows<{ since: Date }>(
       `SELECT since FROM health_flags WHERE channel_id = $1 AND flag = 'crosstalk_risk' AND cleared_at IS NULL`,
       [channelId],
-      transaction,
+      { transaction },
     );
     let state: ChannelState = { ...initialChannelState(), open: crosstalk.length ? { crosstalk_risk: { sinceMs: crosstalk[0].since.getTime() } } : {} };
-    await sqlRun(`UPDATE channel_state SET state = $2::jsonb, last_at = NULL, last_reading_id = NULL, version = version + 1 WHERE channel_id = $1`, [channelId, JSON.stringify(state)], transaction);
+    await sqlRun(`UPDATE channel_state SET state = $2::jsonb, last_at = NULL, last_reading_id = NULL, version = version + 1 WHERE channel_id = $1`, [channelId, JSON.stringify(state)], { transaction });
 
     const channels = new Map([[channelKey(d, channel.index), channel]]);
     const temperatureChannelSites = await loadTemperatureChannelSites([channelId], transaction);
@@ -135,14 +85,14 @@ export async function drainRecomputeRequests(maxRequests = 50): Promise<Recomput
       const [request] = await sqlRows<{ id: string; channel_id: string | null; asset_id: string | null }>(
         `SELECT id, channel_id, asset_id FROM recompute_requests WHERE done_at IS NULL ORDER BY id LIMIT 1 FOR UPDATE SKIP LOCKED`,
         [],
-        transaction,
+        { transaction },
       );
       if (!request) return false;
       const startedAt = new Date();
-      await sqlRun(`UPDATE recompute_requests SET started_at = $2 WHERE id = $1`, [request.id, startedAt], transaction);
+      await sqlRun(`UPDATE recompute_requests SET started_at = $2 WHERE id = $1`, [request.id, startedAt], { transaction });
       const channelIds = request.channel_id
         ? [request.channel_id]
-        : (await sqlRows<{ id: string }>(`SELECT id FROM channels WHERE asset_id = $1 ORDER BY id`, [request.asset_id], transaction)).map((r) => r.id);
+        : (await sqlRows<{ id: string }>(`SELECT id FROM channels WHERE asset_id = $1 ORDER BY id`, [request.asset_id], { transaction })).map((r) => r.id);
       let measurements = 0;
       let error: string | null = null;
       for (const id of channelIds) {
@@ -158,7 +108,7 @@ export async function drainRecomputeRequests(maxRequests = 50): Promise<Recomput
          WHERE id = $1 OR (id IN (SELECT id FROM recompute_requests WHERE done_at IS NULL AND started_at IS NULL AND requested_at <= $2
                               AND channel_id IS NOT DISTINCT FROM $6 AND asset_id IS NOT DISTINCT FROM $7 FOR UPDATE SKIP LOCKED) AND $5::text IS NULL)`,
         [request.id, startedAt, channelIds.length, measurements, error, request.channel_id, request.asset_id],
-        transaction,
+        { transaction },
       );
       result.requests += 1;
       result.channels += channelIds.length;

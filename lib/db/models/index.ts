@@ -1,4 +1,4 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from "sequelize";
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
 import { getSequelize } from "../sequelize";
 import type { Role } from "../../auth/permissions";
 import { initFleetModels } from "./fleet";
@@ -43,12 +43,7 @@ export class AuditEntry extends Model<InferAttributes<AuditEntry>, InferCreation
   declare at: CreationOptional<Date>;
 }
 
-let initialised = false;
-
-/** Registers every model on the shared instance once; cheap to call from any entry point. */
-export function initModels() {
-  if (initialised) return;
-  const sequelize = getSequelize();
+function defineModels(sequelize: Sequelize) {
   const uuidPk = () => ({ type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 });
 
   Organisation.init({ id: uuidPk(), name: { type: DataTypes.TEXT, allowNull: false } }, { sequelize, tableName: "organisations" });
@@ -99,5 +94,8 @@ export function initModels() {
   );
 
   initFleetModels(sequelize);
-  initialised = true;
 }
+
+// Once per process, when this module is first loaded: importing a model is all it takes to use it.
+// Creating the instance opens no connection.
+defineModels(getSequelize());

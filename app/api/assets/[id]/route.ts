@@ -1,6 +1,6 @@
 import { actorOf, requirePermission } from "@/lib/auth/session";
 import { findAsset, serialiseAsset, updateAsset } from "@/lib/services/assets";
-import { requestRecompute } from "@/lib/worker/recompute";
+import { requestRecompute } from "@/lib/services/recompute-requests";
 import { parseJsonBody } from "@/lib/http/errors";
 import { idParam, type IdContext } from "@/lib/http/params";
 import { route } from "@/lib/http/route";
