@@ -1,5 +1,6 @@
 import { getToken } from "next-auth/jwt";
 import { NextResponse, type NextRequest } from "next/server";
+import { authSecret } from "./lib/auth/auth-config";
 
 // Cheap first gate (no database): signed-out page requests go to sign-in. Route handlers and pages still
 // check the session and role themselves through requirePermission/requirePageUser.
@@ -8,7 +9,7 @@ const PUBLIC_PREFIXES = ["/sign-in", "/invite/", "/ack/", "/_next/", "/favicon",
 export async function proxy(req: NextRequest) {
   const { pathname, search } = req.nextUrl;
   if (PUBLIC_PREFIXES.some((p) => pathname.startsWith(p))) return NextResponse.next();
-  const token = await getToken({ req, secret: process.env.AUTH_SECRET ?? process.env.NEXTAUTH_SECRET });
+  const token = await getToken({ req, secret: authSecret() });
   if (token) return NextResponse.next();
   const url = req.nextUrl.clone();
   url.pathname = "/sign-in";

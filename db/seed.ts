@@ -1,5 +1,6 @@
 import { Organisation, User } from "../lib/db/models";
 import { getSequelize } from "../lib/db/sequelize";
+import { env } from "../lib/env";
 import { hashPassword } from "../lib/auth/passwords";
 import { writeAudit } from "../lib/services/audit";
 import { DEMO_ACCOUNTS, DEMO_ORGANISATION, DEMO_PASSWORD } from "./seeds/demo-accounts";
@@ -8,7 +9,7 @@ import { seedDemoAlarms } from "./seeds/demo-alarms";
 
 // Seeds the demo scenario into an empty database. Refuses in production unless explicitly asked.
 async function main() {
-  if (process.env.NODE_ENV === "production" && process.env.HALFTRIP_DEMO !== "1") {
+  if (!env.demoAllowed) {
     process.stdout.write("[halftrip] production: demo data is not seeded\n");
     return;
   }

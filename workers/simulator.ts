@@ -1,5 +1,6 @@
 import fs from "node:fs";
 import path from "node:path";
+import { env } from "../lib/env";
 import { demoKeysFilePath, parseKeysFile, simulatorStateFilePath, type SimDevice } from "./simulation/keys-file";
 import {
   advanceDevice,
@@ -17,11 +18,9 @@ import type { ScenarioClock } from "./simulation/scenario";
 // the history (store-and-forward batches with `at` set), then live. Run: npx tsx workers/simulator.ts
 
 const ROOT = process.cwd();
-const BASE_URL = (process.env.SIM_BASE_URL ?? `http://127.0.0.1:${process.env.PORT ?? 3000}`).replace(/\/$/, "");
-const LIVE_INTERVAL_MS = Math.max(5, Number(process.env.SIM_INTERVAL_S ?? 30)) * 1000;
-const BACKFILL_DAYS = Math.max(0, Number(process.env.SIM_BACKFILL_DAYS ?? 14));
-const KEYS_FILE = demoKeysFilePath(process.env, ROOT);
-const STATE_FILE = simulatorStateFilePath(process.env, ROOT);
+const { baseUrl: BASE_URL, intervalMs: LIVE_INTERVAL_MS, backfillDays: BACKFILL_DAYS } = env.simulator;
+const KEYS_FILE = demoKeysFilePath(env.dataFiles, ROOT);
+const STATE_FILE = simulatorStateFilePath(env.dataFiles, ROOT);
 const REQUEST_TIMEOUT_MS = 30_000;
 // Stay under the devices' default limit of 120 requests a minute while racing through history.
 const MIN_REQUEST_GAP_MS = 600;

@@ -3,14 +3,13 @@ import { randomUUID } from "node:crypto";
 import { SMTPServer } from "smtp-server";
 import { simpleParser } from "mailparser";
 import type { CaughtMessage } from "../lib/mail/sink-client";
+import { env } from "../lib/env";
 
 // A local stand-in for the hosted mail service: accepts every message on 127.0.0.1, keeps the last
 // MAX_KEPT in memory and serves them as JSON to the admin page and to the tests.
-const SMTP_PORT = Number(process.env.SMTP_SINK_PORT ?? 2525);
-const HTTP_PORT = Number(process.env.SMTP_SINK_HTTP_PORT ?? 2580);
-const MAX_KEPT = 2000;
 // Loopback by default; a container deployment sets SMTP_SINK_HOST=0.0.0.0.
-const HOST = process.env.SMTP_SINK_HOST ?? "127.0.0.1";
+const { smtpPort: SMTP_PORT, httpPort: HTTP_PORT, host: HOST } = env.mailSink;
+const MAX_KEPT = 2000;
 
 const messages: CaughtMessage[] = [];
 

@@ -5,6 +5,7 @@ import v8 from "node:v8";
 import vm from "node:vm";
 import cron from "node-cron";
 import { getSequelize } from "../lib/db/sequelize";
+import { env, requireSettings } from "../lib/env";
 import type { BatchHook } from "../lib/worker/batch";
 import { runCycle, type CycleHook, type CycleResult } from "../lib/worker/cycle";
 import { ensurePartitions } from "../lib/worker/maintenance";
@@ -16,17 +17,14 @@ const batchHooks: BatchHook[] = [alarmBatchHook];
 const cycleHooks: CycleHook[] = [alarmCycleHook, notifyCycleHook];
 
 const once = process.argv.includes("--once");
-const batchSize = Number(process.env.WORKER_BATCH_SIZE ?? 40_000);
-const intervalS = Number(process.env.WORKER_INTERVAL_S ?? 10);
-const schedule = process.env.WORKER_CRON ?? `*/${intervalS} * * * * *`;
-const quiet = process.env.WORKER_QUIET === "1";
+const { batchSize, schedule, quiet, heapCollectAboveBytes } = env.worker;
 const PARTITION_EVERY_MS = 24 * 3600 * 1000;
 
 let lastPartitionCheck = 0;
 
 // V8 lets the heap grow far past what a batch needs before it collects; a full collection when a
 // batch leaves more than this behind keeps the worker's resident memory near its working set.
-const HEAP_COLLECT_ABOVE_BYTES = Number(process.env.WORKER_HEAP_MB ?? 80) * 2 ** 20;
+const HEAP_COLLECT_ABOVE_BYTES = heapCollectAboveBytes;
 v8.setFlagsFromString("--expose-gc");
 const collectGarbage = vm.runInNewContext("gc") as (options: { type: "major"; execution: "async" }) => Promise<void>;
 let collecting = false;
@@ -82,6 +80,8 @@ async function runOnce() {
 }
 
 async function main() {
+  // Ack links are signed and alarms e-mailed: in production a missing setting stops the worker here.
+  requireSettings("databaseUrl", "authSecret", "smtpUrl", "appUrl");
   if (once) {
     await runOnce();
     await getSequelize().close();

@@ -8,6 +8,7 @@ import { deviceKeyMatches, prefixOfDeviceKey } from "../../lib/auth/device-keys"
 import { createAssetSchema } from "../../lib/validations/asset";
 import { createDeviceSchema } from "../../lib/validations/device";
 import { createSiteSchema } from "../../lib/validations/site";
+import { env } from "../../lib/env";
 import { demoKeysFilePath } from "../../workers/simulation/keys-file";
 import type { SimDevice } from "../../workers/simulation/keys-file";
 import { DEMO_ORGANISATION } from "./demo-accounts";
@@ -15,7 +16,7 @@ import { readDemoKeysFile, simDeviceFromPlan, writeDemoKeysFile } from "./demo-k
 import { DEMO_ASSETS, DEMO_DEVICES, DEMO_EXPECTED_INTERVAL_S, DEMO_SITES, type DemoAsset, type DemoSiteKey } from "./demo-plan";
 
 const log = (line: string) => process.stdout.write(`[halftrip] ${line}\n`);
-const keysFile = () => demoKeysFilePath(process.env, process.cwd());
+const keysFile = () => demoKeysFilePath(env.dataFiles, process.cwd());
 
 function assetInput(asset: DemoAsset, siteId: string) {
   if (asset.kind === "tank") {

@@ -1,13 +1,12 @@
 import type { NextAuthOptions } from "next-auth";
+import { env } from "../env";
 import { isRole, type Role } from "./permissions";
 
 // The part of the auth set-up that is safe anywhere (proxy included): no database, no bcrypt.
 export const SESSION_MAX_AGE_S = 12 * 60 * 60;
 
 export function authSecret(): string {
-  const secret = process.env.AUTH_SECRET ?? process.env.NEXTAUTH_SECRET;
-  if (!secret) throw new Error("AUTH_SECRET is not set");
-  return secret;
+  return env.authSecret;
 }
 
 export const baseAuthConfig: Omit<NextAuthOptions, "providers"> = {

@@ -2,6 +2,7 @@ import type { NextAuthOptions } from "next-auth";
 import CredentialsProvider from "next-auth/providers/credentials";
 import { User } from "../db/models";
 import { signInSchema } from "../validations/user";
+import { env } from "../env";
 import { baseAuthConfig } from "./auth-config";
 import { verifyPassword } from "./passwords";
 import { clearSignInFailures, recordSignInFailure } from "./sign-in-throttle";
@@ -9,7 +10,10 @@ import { clearSignInFailures, recordSignInFailure } from "./sign-in-throttle";
 // The full provider set-up: reads users from the database and checks bcrypt hashes (server only).
 export const authOptions: NextAuthOptions = {
   ...baseAuthConfig,
-  secret: process.env.AUTH_SECRET ?? process.env.NEXTAUTH_SECRET,
+  // Read when next-auth needs it, not when this module loads (a build reads no settings).
+  get secret() {
+    return env.authSecret;
+  },
   providers: [
     CredentialsProvider({
       name: "E-mail and password",

@@ -1,15 +1,10 @@
 import { createHmac, timingSafeEqual } from "node:crypto";
+import { env } from "../env";
 
 // An invite link carries the invite id and its expiry, signed with the server's secret; the database
 // row makes it single-use. Tampering with either part breaks the signature.
-function secret(): string {
-  const s = process.env.AUTH_SECRET ?? process.env.NEXTAUTH_SECRET;
-  if (!s) throw new Error("AUTH_SECRET is not set");
-  return s;
-}
-
 function sign(payload: string, purpose: string): string {
-  return createHmac("sha256", secret()).update(`${purpose}:${payload}`).digest("base64url");
+  return createHmac("sha256", env.authSecret).update(`${purpose}:${payload}`).digest("base64url");
 }
 
 export function createSignedToken(id: string, expiresAt: Date, purpose: string): string {

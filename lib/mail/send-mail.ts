@@ -1,18 +1,16 @@
 import nodemailer, { type Transporter } from "nodemailer";
+import { env } from "../env";
 
-// SMTP_URL is the only setting: the local sink in development and tests, a real relay in production.
+// SMTP_URL is the only setting (lib/env.ts): the local sink in development and tests, a relay in production.
 const globalForMail = globalThis as unknown as { halftripMailer?: Transporter };
 
 function transporter(): Transporter {
   if (!globalForMail.halftripMailer) {
-    const url = process.env.SMTP_URL;
-    if (!url) throw new Error("SMTP_URL is not set");
-    globalForMail.halftripMailer = nodemailer.createTransport(url);
+    globalForMail.halftripMailer = nodemailer.createTransport(env.smtpUrl);
   }
   return globalForMail.halftripMailer;
 }
 
-export const MAIL_FROM = process.env.MAIL_FROM ?? "Halftrip <no-reply@halftrip.test>";
 
 export interface OutgoingMail {
   to: string | string[];
@@ -22,10 +20,10 @@ export interface OutgoingMail {
 }
 
 export async function sendMail(mail: OutgoingMail) {
-  return transporter().sendMail({ from: MAIL_FROM, ...mail });
+  return transporter().sendMail({ from: env.mailFrom, ...mail });
 }
 
 /** Base URL for links in e-mails: APP_URL in production, else the local server. */
 export function appUrl(): string {
-  return (process.env.APP_URL ?? process.env.NEXTAUTH_URL ?? `http://127.0.0.1:${process.env.PORT ?? 3000}`).replace(/\/$/, "");
+  return env.appUrl;
 }

@@ -1,3 +1,5 @@
+import { env } from "../env";
+
 // Reads what the local SMTP sink caught (development and tests only; absent in production).
 export interface CaughtMessage {
   id: string;
@@ -10,7 +12,7 @@ export interface CaughtMessage {
 }
 
 function sinkUrl(): string | null {
-  return process.env.MAIL_SINK_URL ?? null;
+  return env.mailSinkUrl;
 }
 
 export function isMailSinkConfigured(): boolean {
