@@ -2,7 +2,7 @@ import { getServerSession } from "next-auth";
 import { redirect } from "next/navigation";
 import { User } from "../db/models";
 import type { Actor } from "../services/audit";
-import { forbidden, unauthorized } from "../http/errors";
+import { forbidden, unauthorized } from "../errors";
 import { authOptions } from "./auth-options";
 import { can, type Permission, type Role } from "./permissions";
 

@@ -1,4 +1,5 @@
 import { ZodError, type ZodType, z } from "zod";
+import { AppError, type ErrorKind } from "../errors";
 
 // Every error body of both APIs is { error: "<code>", message: "<what to fix>" }.
 export class HttpError extends Error {
@@ -13,10 +14,20 @@ export class HttpError extends Error {
   }
 }
 
-export const unauthorized = (message = "Sign in first.") => new HttpError(401, "unauthorized", message);
-export const forbidden = (message = "Your role may not do this.") => new HttpError(403, "forbidden", message);
-export const notFound = (what = "That item") => new HttpError(404, "not_found", `${what} was not found.`);
-export const conflict = (message: string) => new HttpError(409, "conflict", message);
+// The status each kind of application error (lib/errors.ts) answers with.
+const STATUS: Record<ErrorKind, number> = {
+  invalid: 422,
+  malformed: 400,
+  unauthorized: 401,
+  forbidden: 403,
+  not_found: 404,
+  conflict: 409,
+  gone: 410,
+  too_large: 413,
+  unsupported: 415,
+  rate_limited: 429,
+  unavailable: 503,
+};
 
 /** Turns zod issues into one readable sentence naming each field. */
 export function describeZodError(error: ZodError): string {
@@ -43,6 +54,10 @@ export function jsonError(status: number, code: string, message: string, headers
 
 export function errorResponse(err: unknown): Response {
   if (err instanceof HttpError) return jsonError(err.status, err.code, err.message, err.headers, err.extra);
+  if (err instanceof AppError) {
+    const { fields, retryAfterS } = err.details;
+    return jsonError(STATUS[err.kind], err.code, err.message, retryAfterS === undefined ? {} : { "Retry-After": String(retryAfterS) }, fields ? { fields } : {});
+  }
   if (err instanceof ZodError) {
     return jsonError(422, "invalid", describeZodError(err), {}, { fields: fieldErrors(err) });
   }

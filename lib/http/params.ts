@@ -1,4 +1,4 @@
-import { notFound } from "./errors";
+import { notFound } from "../errors";
 import { isUuid } from "../validations/common";
 
 export type IdContext = { params: Promise<{ id: string }> };

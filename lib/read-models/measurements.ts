@@ -1,7 +1,7 @@
 // Reading what the worker derived: a channel's measurements, an asset's rollup series, a channel's
 // health flags. Every function is scoped to an organisation; an id of another one is "not found".
 
-import { HttpError, notFound } from "../http/errors";
+import { AppError, notFound } from "../errors";
 import { median } from "../signal/robust-stats";
 import { parseChannelState } from "../worker/compute/channel-state";
 import {
@@ -121,7 +121,7 @@ export async function assetSeries(organisationId: string, assetId: string, query
   await findAsset(organisationId, assetId);
   const { from, to } = resolvePeriod(query, SERIES_DEFAULT_DAYS[query.bucket]);
   if (to.getTime() - from.getTime() > SERIES_MAX_DAYS[query.bucket] * 86_400_000) {
-    throw new HttpError(422, "invalid", `The period is at most ${SERIES_MAX_DAYS[query.bucket]} days for ${query.bucket} buckets.`, {}, { fields: { to: "Shorten the period." } });
+    throw new AppError("invalid", `The period is at most ${SERIES_MAX_DAYS[query.bucket]} days for ${query.bucket} buckets.`, { fields: { to: "Shorten the period." } });
   }
   const bucketS = SERIES_BUCKET_SECONDS[query.bucket];
   const rows = await sqlRows<RollupRow>(

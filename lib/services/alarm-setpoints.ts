@@ -6,7 +6,7 @@
 import type { Transaction } from "sequelize";
 import { getSequelize } from "../db/sequelize";
 import { writeAudit, type Actor } from "./audit";
-import { HttpError } from "../http/errors";
+import { AppError } from "../errors";
 import { tankCapacity, tankHeight, volumeAtLevel, type TankGeometry } from "../geometry/tank-volume";
 import { DEFAULT_PRIORITIES, applyAlarmInput, type AlarmRecord, type EngineEvent } from "../alarms/engine";
 import { LEVEL_ON_DELAY_S, SETPOINT_KEYS, initialSetpointState, levelDeadbandM, type SetpointKey } from "../alarms/setpoints";
@@ -38,7 +38,7 @@ interface SettingsRow {
 async function tankOf(organisationId: string, assetId: string): Promise<{ id: string; name: string; geometry: TankGeometry }> {
   const asset = await findAsset(organisationId, assetId);
   if (asset.kind !== "tank" || !asset.geometry) {
-    throw new HttpError(422, "not_a_tank", "Level setpoints belong to tanks; this asset is not a tank with a geometry.");
+    throw new AppError("invalid", "Level setpoints belong to tanks; this asset is not a tank with a geometry.", { code: "not_a_tank" });
   }
   return { id: asset.id, name: asset.name, geometry: asset.geometry };
 }
@@ -119,7 +119,7 @@ export async function putSetpoints(actor: Actor, assetId: string, input: PutSetp
   const tank = await tankOf(actor.organisationId, assetId);
   const issues = setpointIssues(input, tank.geometry);
   if (issues.length) {
-    throw new HttpError(422, "invalid", issues.map((i) => `${i.path}: ${i.message}`).join("; "), {}, { fields: Object.fromEntries(issues.map((i) => [i.path, i.message])) });
+    throw new AppError("invalid", issues.map((i) => `${i.path}: ${i.message}`).join("; "), { fields: Object.fromEntries(issues.map((i) => [i.path, i.message])) });
   }
   const height = tankHeight(tank.geometry);
   return getSequelize().transaction(async (transaction) => {

@@ -6,7 +6,7 @@
 import type { Transaction } from "sequelize";
 import { getSequelize } from "../db/sequelize";
 import { writeAudit, type Actor } from "./audit";
-import { HttpError, notFound } from "../http/errors";
+import { AppError, notFound } from "../errors";
 import { alarmKindLabel, applyAlarmInput } from "../alarms/engine";
 import { httpStatusForAlarmError, isAwaitingReset, type AlarmInput } from "../alarms/state-machine";
 import type { AlarmListQuery, AlarmSort } from "../validations/alarm";
@@ -242,7 +242,7 @@ function actionExtras(action: AlarmAction, actor: Actor, now: Date): AlarmRowExt
 async function actInTransaction(actor: Actor, id: string, action: AlarmAction, now: Date, transaction: Transaction): Promise<AlarmJson> {
   const row = await findAlarmRow(actor.organisationId, id, transaction);
   const applied = applyAlarmInput(toRecord(row), actionInput(action, now), { at: now, cause: actionCause(action) });
-  if (!applied.ok) throw new HttpError(httpStatusForAlarmError(applied.code), applied.code, applied.message);
+  if (!applied.ok) throw new AppError(httpStatusForAlarmError(applied.code) === 422 ? "invalid" : "conflict", applied.message, { code: applied.code });
   await saveAlarm(id, applied.result.record, actionExtras(action, actor, now), transaction);
   await insertAlarmEvents(
     applied.result.events.map((event) => ({
@@ -277,7 +277,7 @@ export async function acknowledgeAlarms(actor: Actor, ids: readonly string[], co
     try {
       acknowledged.push(await actOnAlarm(actor, id, { type: "acknowledge", comment }, now));
     } catch (err) {
-      if (!(err instanceof HttpError)) throw err;
+      if (!(err instanceof AppError)) throw err;
       refused.push({ id, error: err.code, message: err.message });
     }
   }

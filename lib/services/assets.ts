@@ -1,7 +1,7 @@
 import { writeAudit, type Actor } from "./audit";
 import { Asset, Site } from "../db/models";
 import { getSequelize } from "../db/sequelize";
-import { HttpError, notFound } from "../http/errors";
+import { AppError, notFound } from "../errors";
 import { tankCapacity, tankHeight } from "../geometry/tank-volume";
 import { assetConsistencyIssues, type AssetInput, type AssetPatch } from "../validations/asset";
 
@@ -48,7 +48,7 @@ export async function findAsset(organisationId: string, id: string): Promise<Ass
 
 export async function createAsset(actor: Actor, input: AssetInput) {
   const site = await Site.findOne({ where: { id: input.site_id, organisation_id: actor.organisationId } });
-  if (!site) throw new HttpError(422, "invalid", "site_id: no such site in your organisation.", {}, { fields: { site_id: "No such site in your organisation." } });
+  if (!site) throw new AppError("invalid", "site_id: no such site in your organisation.", { fields: { site_id: "No such site in your organisation." } });
   return getSequelize().transaction(async (transaction) => {
     const asset = await Asset.create({ ...input, organisation_id: actor.organisationId, capacity_l: derivedCapacity(input) }, { transaction });
     await writeAudit(actor, "asset.create", { type: "asset", id: asset.id }, { name: input.name, kind: input.kind }, transaction);
@@ -62,7 +62,7 @@ export async function updateAsset(actor: Actor, id: string, patch: AssetPatch) {
   const merged = { ...serialiseAsset(asset), ...patch };
   const issues = assetConsistencyIssues(merged);
   if (issues.length) {
-    throw new HttpError(422, "invalid", issues.map((i) => `${i.path}: ${i.message}`).join("; "), {}, { fields: Object.fromEntries(issues.map((i) => [i.path, i.message])) });
+    throw new AppError("invalid", issues.map((i) => `${i.path}: ${i.message}`).join("; "), { fields: Object.fromEntries(issues.map((i) => [i.path, i.message])) });
   }
   const shapeChanged = "geometry" in patch || "mount_height_m" in patch || "floor_distance_m" in patch || "occupied_below_m" in patch;
   return getSequelize().transaction(async (transaction) => {

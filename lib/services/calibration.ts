@@ -6,7 +6,7 @@
 import type { Transaction } from "sequelize";
 import { writeAudit, type Actor } from "./audit";
 import { getSequelize } from "../db/sequelize";
-import { HttpError, notFound } from "../http/errors";
+import { AppError, notFound } from "../errors";
 import {
   fitCalibration,
   levelFromRaw,
@@ -69,8 +69,8 @@ export async function findCalibrationChannel(organisationId: string, channelId: 
 
 /** A channel that can be calibrated from dips: it measures a tank whose sensor mounting height is known. */
 function assertCalibratable(c: ChannelRow): asserts c is ChannelRow & { asset_id: string; mount_height_m: number } {
-  if (!c.asset_id || c.asset_kind !== "tank") throw new HttpError(422, "invalid", "Only a channel that measures a tank is calibrated from dips.");
-  if (c.mount_height_m === null) throw new HttpError(422, "invalid", "The tank has no sensor mounting height; set it before calibrating.");
+  if (!c.asset_id || c.asset_kind !== "tank") throw new AppError("invalid", "Only a channel that measures a tank is calibrated from dips.");
+  if (c.mount_height_m === null) throw new AppError("invalid", "The tank has no sensor mounting height; set it before calibrating.");
 }
 
 export interface PairedDip {
@@ -83,12 +83,12 @@ async function pairDips(c: ChannelRow & { asset_id: string; mount_height_m: numb
   const dips = await dipsWithSensor(c.asset_id, c.id, dipIds, transaction);
   const found = new Set(dips.map((d) => d.id));
   const unknown = dipIds.filter((id) => !found.has(id));
-  if (unknown.length) throw new HttpError(422, "invalid", `dip_ids: ${unknown.length} of the chosen dips do not belong to this tank.`, {}, { fields: { dip_ids: "Choose dips of this tank." } });
+  if (unknown.length) throw new AppError("invalid", `dip_ids: ${unknown.length} of the chosen dips do not belong to this tank.`, { fields: { dip_ids: "Choose dips of this tank." } });
   const current: Calibration = { offsetM: c.calibration_offset_m, scale: c.calibration_scale };
   const unmatched = dips.filter((d) => d.sensor === null || (d.sensor.raw_distance_m === null && d.sensor.distance_m === null));
   if (unmatched.length) {
     const when = unmatched.map((d) => new Date(d.at).toISOString().replace(".000Z", "Z")).join(", ");
-    throw new HttpError(422, "invalid", `No sensor reading within an hour of the dip${unmatched.length > 1 ? "s" : ""} at ${when}; choose dips the sensor saw.`, {}, { fields: { dip_ids: "Each dip needs a sensor reading within an hour." } });
+    throw new AppError("invalid", `No sensor reading within an hour of the dip${unmatched.length > 1 ? "s" : ""} at ${when}; choose dips the sensor saw.`, { fields: { dip_ids: "Each dip needs a sensor reading within an hour." } });
   }
   return dips.map((dip) => {
     const s = dip.sensor!;
@@ -100,7 +100,7 @@ async function pairDips(c: ChannelRow & { asset_id: string; mount_height_m: numb
 
 function fitOrRefuse(paired: PairedDip[], currentScale: number): CalibrationFit {
   const result = fitCalibration(paired.map((p) => p.point), currentScale);
-  if (!result.ok) throw new HttpError(422, "invalid", result.reason, {}, { fields: { dip_ids: result.reason } });
+  if (!result.ok) throw new AppError("invalid", result.reason, { fields: { dip_ids: result.reason } });
   return result.fit;
 }
 

@@ -2,7 +2,7 @@ import { Op, type Transaction } from "sequelize";
 import { writeAudit, type Actor } from "./audit";
 import { Asset, Channel, Device, DeviceKey, Site } from "../db/models";
 import { getSequelize } from "../db/sequelize";
-import { HttpError, notFound } from "../http/errors";
+import { AppError, notFound } from "../errors";
 import { generateDeviceKey } from "../auth/device-keys";
 import { captureResolution } from "../physics/time-of-flight";
 import { speedOfSoundDry } from "../physics/speed-of-sound";
@@ -88,8 +88,8 @@ async function assertChannelAssets(organisationId: string, siteId: string, chann
   for (const c of channels) {
     if (!c.asset_id) continue;
     const asset = found.find((a) => a.id === c.asset_id);
-    if (!asset) throw new HttpError(422, "invalid", `channels.${c.index}.asset_id: no such asset in your organisation.`, {}, { fields: { [`channels.${c.index}.asset_id`]: "No such asset in your organisation." } });
-    if (asset.site_id !== siteId) throw new HttpError(422, "invalid", `channels.${c.index}.asset_id: the asset is at another site than the device.`, {}, { fields: { [`channels.${c.index}.asset_id`]: "The asset is at another site than the device." } });
+    if (!asset) throw new AppError("invalid", `channels.${c.index}.asset_id: no such asset in your organisation.`, { fields: { [`channels.${c.index}.asset_id`]: "No such asset in your organisation." } });
+    if (asset.site_id !== siteId) throw new AppError("invalid", `channels.${c.index}.asset_id: the asset is at another site than the device.`, { fields: { [`channels.${c.index}.asset_id`]: "The asset is at another site than the device." } });
   }
 }
 
@@ -111,7 +111,7 @@ function serialTaken(err: unknown): boolean {
 
 export async function createDevice(actor: Actor, input: DeviceInput) {
   const site = await Site.findOne({ where: { id: input.site_id, organisation_id: actor.organisationId } });
-  if (!site) throw new HttpError(422, "invalid", "site_id: no such site in your organisation.", {}, { fields: { site_id: "No such site in your organisation." } });
+  if (!site) throw new AppError("invalid", "site_id: no such site in your organisation.", { fields: { site_id: "No such site in your organisation." } });
   const key = generateDeviceKey();
   try {
     return await getSequelize().transaction(async (transaction) => {
@@ -125,7 +125,7 @@ export async function createDevice(actor: Actor, input: DeviceInput) {
       return { device: serialiseDevice(device, saved), api_key: key.apiKey };
     });
   } catch (err) {
-    if (serialTaken(err)) throw new HttpError(409, "conflict", "A device with this serial already exists in your organisation.");
+    if (serialTaken(err)) throw new AppError("conflict", "A device with this serial already exists in your organisation.");
     throw err;
   }
 }
@@ -134,7 +134,7 @@ export async function updateDevice(actor: Actor, id: string, patch: DevicePatch)
   const { device } = await findDevice(actor.organisationId, id);
   const merged = { ...device.get(), ...patch };
   const issues = profileIssues(merged);
-  if (issues.length) throw new HttpError(422, "invalid", issues.map((i) => `${i.path}: ${i.message}`).join("; "), {}, { fields: Object.fromEntries(issues.map((i) => [i.path, i.message])) });
+  if (issues.length) throw new AppError("invalid", issues.map((i) => `${i.path}: ${i.message}`).join("; "), { fields: Object.fromEntries(issues.map((i) => [i.path, i.message])) });
   try {
     return await getSequelize().transaction(async (transaction) => {
       const { channels, ...fields } = patch;
@@ -148,7 +148,7 @@ export async function updateDevice(actor: Actor, id: string, patch: DevicePatch)
       return serialiseDevice(device, saved);
     });
   } catch (err) {
-    if (serialTaken(err)) throw new HttpError(409, "conflict", "A device with this serial already exists in your organisation.");
+    if (serialTaken(err)) throw new AppError("conflict", "A device with this serial already exists in your organisation.");
     throw err;
   }
 }

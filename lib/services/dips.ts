@@ -4,7 +4,7 @@
 import type { Transaction } from "sequelize";
 import { writeAudit, type Actor } from "./audit";
 import { getSequelize } from "../db/sequelize";
-import { HttpError } from "../http/errors";
+import { AppError } from "../errors";
 import { tankHeight } from "../geometry/tank-volume";
 import { findAsset } from "./assets";
 import type { RecordDipInput } from "../validations/dip";
@@ -117,7 +117,7 @@ export function maxDipLevel(asset: Pick<Asset, "geometry" | "mount_height_m">): 
 }
 
 export function assertDippable(asset: Pick<Asset, "kind" | "geometry" | "mount_height_m">) {
-  if (asset.kind !== "tank") throw new HttpError(422, "invalid", "Manual dips are taken on tanks; this asset is not a tank.");
+  if (asset.kind !== "tank") throw new AppError("invalid", "Manual dips are taken on tanks; this asset is not a tank.");
 }
 
 export interface NewDip {
@@ -152,12 +152,12 @@ export async function recordDip(actor: Actor, assetId: string, input: RecordDipI
   assertDippable(asset);
   const max = maxDipLevel(asset);
   if (max !== null && input.level_m > max + 1e-9) {
-    throw new HttpError(422, "invalid", `level_m: the tank is ${max.toFixed(3)} m tall; a dip cannot read higher.`, {}, { fields: { level_m: `The tank is ${max.toFixed(3)} m tall; a dip cannot read higher.` } });
+    throw new AppError("invalid", `level_m: the tank is ${max.toFixed(3)} m tall; a dip cannot read higher.`, { fields: { level_m: `The tank is ${max.toFixed(3)} m tall; a dip cannot read higher.` } });
   }
   const at = input.at ? new Date(input.at) : new Date();
   return getSequelize().transaction(async (transaction) => {
     if ((await existingDipTimes(assetId, [at], transaction)).size) {
-      throw new HttpError(409, "conflict", "A dip at this exact time is already recorded for this tank.");
+      throw new AppError("conflict", "A dip at this exact time is already recorded for this tank.");
     }
     const [id] = await insertDips(assetId, actor.userId, [{ at, level_m: input.level_m, note: input.note || null }], transaction);
     await writeAudit(actor, "dip.record", { type: "asset", id: assetId }, { dip_id: id, at: at.toISOString(), level_m: input.level_m }, transaction);

@@ -1,7 +1,7 @@
 // CSV exports as streams of row batches: each batch is one keyset-paged query (a cursor that survives
 // between pulls without holding a connection), so a year of measurements never sits in memory.
 
-import { HttpError } from "../http/errors";
+import { AppError } from "../errors";
 import type { CsvValue } from "../csv/write";
 import type { ExportRange } from "../validations/export";
 import { refillPlan } from "../read-models/refill-plan";
@@ -47,7 +47,7 @@ export async function exportAssets(organisationId: string, assetIds: readonly st
   );
   const byId = new Map(rows.map((r) => [r.id, r]));
   const missing = assetIds.filter((id) => !byId.has(id));
-  if (missing.length) throw new HttpError(404, "not_found", `${missing.length === 1 ? "An asset" : `${missing.length} assets`} of the export was not found.`);
+  if (missing.length) throw new AppError("not_found", `${missing.length === 1 ? "An asset" : `${missing.length} assets`} of the export was not found.`);
   return assetIds.map((id) => byId.get(id)!);
 }
 

@@ -7,7 +7,8 @@ import type { Transaction } from "sequelize";
 import { QUEUE_INSERTED, RETURNING_QUEUED_COLUMNS } from "../worker/reading-queue";
 import { writeAudit, type Actor } from "./audit";
 import { getSequelize } from "../db/sequelize";
-import { describeZodError, HttpError, notFound } from "../http/errors";
+import { AppError, notFound } from "../errors";
+import { describeZodError } from "../http/errors";
 import { geometrySchema } from "../validations/asset";
 import { runImport, type ImportOutcome, type ImportProgress, type ImportSink, type LineError } from "../csv/import-engine";
 import { dipRowReader, readingRowReader, strappingRowReader, temperatureRowReader, type BackfillReading, type DipRow, type RowReader, type StrappingRow, type TemperatureRow } from "../csv/import-rows";
@@ -84,7 +85,7 @@ interface Target {
   entityType: "device" | "asset" | "site";
 }
 
-const invalidTarget = (message: string) => new HttpError(422, "invalid", `target_id: ${message}`, {}, { fields: { target_id: message } });
+const invalidTarget = (message: string) => new AppError("invalid", `target_id: ${message}`, { fields: { target_id: message } });
 
 /** The device, tank or site an import goes to, in the user's organisation. */
 async function resolveTarget(organisationId: string, kind: ImportKind, targetId: string): Promise<Target> {
@@ -308,7 +309,7 @@ async function planFor(actor: Actor, upload: UploadJson, transaction: Transactio
           try {
             await updateAsset(actor, id, { geometry: parsed.data });
           } catch (err) {
-            if (err instanceof HttpError) return `The tank refused the table: ${err.message}`;
+            if (err instanceof AppError) return `The tank refused the table: ${err.message}`;
             throw err;
           }
           return null;
@@ -335,7 +336,7 @@ export async function processUpload(actor: Actor, uploadId: string, body: Readab
   );
   if (!claimed) {
     const existing = await findUpload(actor.organisationId, uploadId);
-    throw new HttpError(409, "conflict", `This upload is ${existing.status}; start a new upload to send the file again.`);
+    throw new AppError("conflict", `This upload is ${existing.status}; start a new upload to send the file again.`);
   }
   const upload = await findUpload(actor.organisationId, uploadId);
   const reject = async (message: string, outcome: Finish["outcome"] = EMPTY_OUTCOME) => {

@@ -3,7 +3,7 @@
 
 import { writeAudit, type Actor } from "./audit";
 import { getSequelize } from "../db/sequelize";
-import { HttpError } from "../http/errors";
+import { AppError } from "../errors";
 import { can, type Role } from "../auth/permissions";
 import type { PutOnCallInput } from "../validations/on-call";
 import { findSite } from "./sites";
@@ -67,7 +67,7 @@ export async function putOnCall(actor: Actor, siteId: string, input: PutOnCallIn
     else if (!can(u.role, "alarm:acknowledge")) fields[`user_ids.${i}`] = `${u.email} is a ${u.role} and cannot acknowledge alarms.`;
   });
   if (Object.keys(fields).length) {
-    throw new HttpError(422, "invalid", Object.entries(fields).map(([k, v]) => `${k}: ${v}`).join("; "), {}, { fields });
+    throw new AppError("invalid", Object.entries(fields).map(([k, v]) => `${k}: ${v}`).join("; "), { fields });
   }
   await getSequelize().transaction(async (transaction) => {
     await sqlRows(`SELECT id FROM sites WHERE id = :siteId FOR UPDATE`, { siteId }, { transaction });

@@ -2,7 +2,7 @@ import { writeAudit, type Actor } from "./audit";
 import { Site } from "../db/models";
 import { getSequelize } from "../db/sequelize";
 import { sqlRows } from "../db/sql";
-import { HttpError, notFound } from "../http/errors";
+import { AppError, notFound } from "../errors";
 import type { SiteInput } from "../validations/site";
 import { requestSiteRecompute } from "./recompute-requests";
 
@@ -40,7 +40,7 @@ async function assertTemperatureChannel(organisationId: string, channelId: strin
     `SELECT 1 FROM channels c JOIN devices d ON d.id = c.device_id WHERE c.id = :channelId AND d.organisation_id = :organisationId`,
     { channelId, organisationId },
   );
-  if (!rows.length) throw new HttpError(422, "invalid", "temperature_channel_id: no such channel in your organisation.", {}, { fields: { temperature_channel_id: "No such channel in your organisation." } });
+  if (!rows.length) throw new AppError("invalid", "temperature_channel_id: no such channel in your organisation.", { fields: { temperature_channel_id: "No such channel in your organisation." } });
 }
 
 export async function createSite(actor: Actor, input: SiteInput) {

@@ -6,7 +6,7 @@ import { hashPassword } from "../auth/passwords";
 import { createSignedToken, verifySignedToken } from "../auth/invite-token";
 import type { InviteUserInput } from "../validations/user";
 import type { Role } from "../auth/permissions";
-import { HttpError, notFound, conflict } from "../http/errors";
+import { AppError, notFound, conflict } from "../errors";
 
 export const INVITE_TTL_HOURS = 72;
 const INVITE_PURPOSE = "invite";
@@ -50,10 +50,10 @@ export async function updateUser(actor: Actor, id: string, patch: { role?: Role;
     const user = await User.findOne({ where: { id, organisation_id: actor.organisationId }, transaction, lock: true });
     if (!user) throw notFound("That user");
     if (user.id === actor.userId && (patch.status === "deactivated" || (patch.role && patch.role !== "admin"))) {
-      throw new HttpError(422, "invalid", "You cannot deactivate yourself or remove your own admin role; ask another admin.");
+      throw new AppError("invalid", "You cannot deactivate yourself or remove your own admin role; ask another admin.");
     }
     if (patch.status === "active" && user.status === "invited") {
-      throw new HttpError(422, "invalid", "An invited user becomes active by setting a password from the invite link.");
+      throw new AppError("invalid", "An invited user becomes active by setting a password from the invite link.");
     }
     const before = { role: user.role, status: user.status, name: user.name };
     await user.update(patch, { transaction });

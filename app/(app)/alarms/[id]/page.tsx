@@ -1,9 +1,7 @@
 import type { Metadata } from "next";
-import { notFound } from "next/navigation";
 import { requirePageUser } from "@/lib/auth/session";
 import { findAlarm } from "@/lib/services/alarms";
-import { HttpError } from "@/lib/http/errors";
-import { isUuid } from "@/lib/validations/common";
+import { findOrNotFound } from "@/lib/http/not-found";
 import { PageHeader } from "@/components/page-header";
 import { AlarmCaution } from "@/components/alarm-caution";
 import { AlarmDetail } from "@/components/alarm-detail";
@@ -13,11 +11,7 @@ export const metadata: Metadata = { title: "Alarm" };
 export default async function AlarmPage({ params }: { params: Promise<{ id: string }> }) {
   const user = await requirePageUser();
   const { id } = await params;
-  if (!isUuid(id)) notFound();
-  const alarm = await findAlarm(user.organisationId, id).catch((e) => {
-    if (e instanceof HttpError && e.status === 404) notFound();
-    throw e;
-  });
+  const alarm = await findOrNotFound(id, (id) => findAlarm(user.organisationId, id));
   const where = alarm.asset?.name ?? (alarm.channel ? `${alarm.channel.device_name} channel ${alarm.channel.index}` : alarm.site.name);
   return (
     <>

@@ -1,13 +1,11 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { notFound } from "next/navigation";
 import { Suspense } from "react";
 import { requirePageUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { findAsset } from "@/lib/services/assets";
 import { findSite } from "@/lib/services/sites";
-import { HttpError } from "@/lib/http/errors";
-import { isUuid } from "@/lib/validations/common";
+import { findOrNotFound } from "@/lib/http/not-found";
 import { PageHeader } from "@/components/page-header";
 import { Loading } from "@/components/data-state";
 import { AssetLive } from "@/components/asset-live";
@@ -19,11 +17,7 @@ const KIND_WORDS = { tank: "Tank", bay: "Parking bay", point: "Distance point" }
 export default async function AssetPage({ params }: { params: Promise<{ id: string }> }) {
   const user = await requirePageUser();
   const { id } = await params;
-  if (!isUuid(id)) notFound();
-  const asset = await findAsset(user.organisationId, id).catch((e) => {
-    if (e instanceof HttpError && e.status === 404) notFound();
-    throw e;
-  });
+  const asset = await findOrNotFound(id, (id) => findAsset(user.organisationId, id));
   const site = await findSite(user.organisationId, asset.site_id);
   return (
     <>

@@ -4,8 +4,7 @@ import { requirePageUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { findAsset } from "@/lib/services/assets";
 import { findSite } from "@/lib/services/sites";
-import { HttpError } from "@/lib/http/errors";
-import { isUuid } from "@/lib/validations/common";
+import { findOrNotFound } from "@/lib/http/not-found";
 import { PageHeader } from "@/components/page-header";
 import { CalibrationWorkbench } from "@/components/calibration-workbench";
 
@@ -14,11 +13,7 @@ export const metadata: Metadata = { title: "Dips and calibration" };
 export default async function TankCalibrationPage({ params }: { params: Promise<{ assetId: string }> }) {
   const user = await requirePageUser("dip:record");
   const { assetId } = await params;
-  if (!isUuid(assetId)) notFound();
-  const asset = await findAsset(user.organisationId, assetId).catch((e) => {
-    if (e instanceof HttpError && e.status === 404) notFound();
-    throw e;
-  });
+  const asset = await findOrNotFound(assetId, (id) => findAsset(user.organisationId, id));
   if (asset.kind !== "tank") notFound();
   const site = await findSite(user.organisationId, asset.site_id);
   return (

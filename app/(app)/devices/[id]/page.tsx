@@ -1,11 +1,9 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { notFound } from "next/navigation";
 import { requirePageUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { findDevice } from "@/lib/services/devices";
-import { HttpError } from "@/lib/http/errors";
-import { isUuid } from "@/lib/validations/common";
+import { findOrNotFound } from "@/lib/http/not-found";
 import { PageHeader } from "@/components/page-header";
 import { DeviceDetail } from "@/components/device-detail";
 
@@ -14,11 +12,7 @@ export const metadata: Metadata = { title: "Device" };
 export default async function DevicePage({ params }: { params: Promise<{ id: string }> }) {
   const user = await requirePageUser();
   const { id } = await params;
-  if (!isUuid(id)) notFound();
-  const { device } = await findDevice(user.organisationId, id).catch((e) => {
-    if (e instanceof HttpError && e.status === 404) notFound();
-    throw e;
-  });
+  const { device } = await findOrNotFound(id, (id) => findDevice(user.organisationId, id));
   const canManage = can(user.role, "device:manage");
   return (
     <>

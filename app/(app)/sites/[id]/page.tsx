@@ -1,11 +1,9 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { notFound } from "next/navigation";
 import { requirePageUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { findSite } from "@/lib/services/sites";
-import { HttpError } from "@/lib/http/errors";
-import { isUuid } from "@/lib/validations/common";
+import { findOrNotFound } from "@/lib/http/not-found";
 import { PageHeader } from "@/components/page-header";
 import { SiteLive } from "@/components/site-live";
 
@@ -14,11 +12,7 @@ export const metadata: Metadata = { title: "Site" };
 export default async function SitePage({ params }: { params: Promise<{ id: string }> }) {
   const user = await requirePageUser();
   const { id } = await params;
-  if (!isUuid(id)) notFound();
-  const site = await findSite(user.organisationId, id).catch((e) => {
-    if (e instanceof HttpError && e.status === 404) notFound();
-    throw e;
-  });
+  const site = await findOrNotFound(id, (id) => findSite(user.organisationId, id));
   return (
     <>
       <PageHeader

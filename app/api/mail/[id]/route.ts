@@ -1,5 +1,5 @@
 import { requirePermission } from "@/lib/auth/session";
-import { notFound } from "@/lib/http/errors";
+import { notFound } from "@/lib/errors";
 import { route } from "@/lib/http/route";
 import { fetchCaughtMessage } from "@/lib/mail/sink-client";
 

@@ -1,6 +1,7 @@
 import { actorOf, requirePermission } from "@/lib/auth/session";
 import { updateUser } from "@/lib/services/users";
-import { notFound, parseJsonBody } from "@/lib/http/errors";
+import { notFound } from "@/lib/errors";
+import { parseJsonBody } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
 import { isUuid } from "@/lib/validations/common";
 import { updateUserSchema } from "@/lib/validations/user";

@@ -1,10 +1,8 @@
 import type { Metadata } from "next";
-import { notFound } from "next/navigation";
 import { requirePageUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { findSite } from "@/lib/services/sites";
-import { HttpError } from "@/lib/http/errors";
-import { isUuid } from "@/lib/validations/common";
+import { findOrNotFound } from "@/lib/http/not-found";
 import { PageHeader } from "@/components/page-header";
 import { AlarmOnCallForm } from "@/components/alarm-on-call-form";
 
@@ -13,11 +11,7 @@ export const metadata: Metadata = { title: "On call" };
 export default async function OnCallPage({ params }: { params: Promise<{ siteId: string }> }) {
   const user = await requirePageUser();
   const { siteId } = await params;
-  if (!isUuid(siteId)) notFound();
-  const site = await findSite(user.organisationId, siteId).catch((e) => {
-    if (e instanceof HttpError && e.status === 404) notFound();
-    throw e;
-  });
+  const site = await findOrNotFound(siteId, (id) => findSite(user.organisationId, id));
   const editable = can(user.role, "oncall:edit");
   return (
     <>

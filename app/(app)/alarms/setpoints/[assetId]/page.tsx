@@ -3,8 +3,7 @@ import { notFound } from "next/navigation";
 import { requirePageUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { findAsset } from "@/lib/services/assets";
-import { HttpError } from "@/lib/http/errors";
-import { isUuid } from "@/lib/validations/common";
+import { findOrNotFound } from "@/lib/http/not-found";
 import { PageHeader } from "@/components/page-header";
 import { AlarmCaution } from "@/components/alarm-caution";
 import { AlarmSetpointForm } from "@/components/alarm-setpoint-form";
@@ -14,11 +13,7 @@ export const metadata: Metadata = { title: "Alarm setpoints" };
 export default async function SetpointsPage({ params }: { params: Promise<{ assetId: string }> }) {
   const user = await requirePageUser();
   const { assetId } = await params;
-  if (!isUuid(assetId)) notFound();
-  const asset = await findAsset(user.organisationId, assetId).catch((e) => {
-    if (e instanceof HttpError && e.status === 404) notFound();
-    throw e;
-  });
+  const asset = await findOrNotFound(assetId, (id) => findAsset(user.organisationId, id));
   if (asset.kind !== "tank") notFound();
   const editable = can(user.role, "setpoint:edit");
   return (

@@ -1,9 +1,7 @@
 import type { Metadata } from "next";
-import { notFound } from "next/navigation";
 import { requirePageUser } from "@/lib/auth/session";
 import { findAsset } from "@/lib/services/assets";
-import { HttpError } from "@/lib/http/errors";
-import { isUuid } from "@/lib/validations/common";
+import { findOrNotFound } from "@/lib/http/not-found";
 import { PageHeader } from "@/components/page-header";
 import { AssetEditor } from "@/components/asset-form";
 
@@ -12,11 +10,7 @@ export const metadata: Metadata = { title: "Edit asset" };
 export default async function EditAssetPage({ params }: { params: Promise<{ id: string }> }) {
   const user = await requirePageUser("asset:manage");
   const { id } = await params;
-  if (!isUuid(id)) notFound();
-  const asset = await findAsset(user.organisationId, id).catch((e) => {
-    if (e instanceof HttpError && e.status === 404) notFound();
-    throw e;
-  });
+  const asset = await findOrNotFound(id, (id) => findAsset(user.organisationId, id));
   return (
     <>
       <PageHeader title={`Edit ${asset.name}`} path={[{ href: "/assets", label: "Assets" }]} facts={asset.kind} />

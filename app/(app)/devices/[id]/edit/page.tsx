@@ -1,9 +1,7 @@
 import type { Metadata } from "next";
-import { notFound } from "next/navigation";
 import { requirePageUser } from "@/lib/auth/session";
 import { findDevice } from "@/lib/services/devices";
-import { HttpError } from "@/lib/http/errors";
-import { isUuid } from "@/lib/validations/common";
+import { findOrNotFound } from "@/lib/http/not-found";
 import { PageHeader } from "@/components/page-header";
 import { DeviceEditor } from "@/components/device-form";
 
@@ -12,11 +10,7 @@ export const metadata: Metadata = { title: "Edit device" };
 export default async function EditDevicePage({ params }: { params: Promise<{ id: string }> }) {
   const user = await requirePageUser("device:manage");
   const { id } = await params;
-  if (!isUuid(id)) notFound();
-  const { device } = await findDevice(user.organisationId, id).catch((e) => {
-    if (e instanceof HttpError && e.status === 404) notFound();
-    throw e;
-  });
+  const { device } = await findOrNotFound(id, (id) => findDevice(user.organisationId, id));
   return (
     <>
       <PageHeader

@@ -1,9 +1,7 @@
 import type { Metadata } from "next";
-import { notFound } from "next/navigation";
 import { requirePageUser } from "@/lib/auth/session";
 import { findSite } from "@/lib/services/sites";
-import { HttpError } from "@/lib/http/errors";
-import { isUuid } from "@/lib/validations/common";
+import { findOrNotFound } from "@/lib/http/not-found";
 import { PageHeader } from "@/components/page-header";
 import { SiteEditor } from "@/components/site-form";
 
@@ -12,11 +10,7 @@ export const metadata: Metadata = { title: "Edit site" };
 export default async function EditSitePage({ params }: { params: Promise<{ id: string }> }) {
   const user = await requirePageUser("site:manage");
   const { id } = await params;
-  if (!isUuid(id)) notFound();
-  const site = await findSite(user.organisationId, id).catch((e) => {
-    if (e instanceof HttpError && e.status === 404) notFound();
-    throw e;
-  });
+  const site = await findOrNotFound(id, (id) => findSite(user.organisationId, id));
   return (
     <>
       <PageHeader title={`Edit ${site.name}`} path={[{ href: "/sites", label: "Sites" }]} />
