@@ -3,6 +3,10 @@
 // the readings wait for the next; two workers never claim the same reading (FOR UPDATE SKIP LOCKED),
 // and measurements are unique per reading, so nothing is lost or written twice.
 //
+// One batch, phase by phase: claim (claimBatch) → load channels (claimNextBatch, batch-store.ts) →
+// compute (prepareBatch, compute/batch.ts) → encode (encodeBatch, encode.ts) → write
+// (writeEncodedBatch and the batch hooks) → commit (commitBatch). drainQueue runs them.
+//
 // Draining is pipelined: while one batch's transaction writes, the next batch is claimed and computed
 // from the channel states the first will leave. Before it writes, it locks those states and checks
 // their versions; if anyone else changed one meanwhile, it computes again from what is stored.
