@@ -5,7 +5,8 @@
 //   normal ──condition_active──▶ unacknowledged ──acknowledge──▶ acknowledged ──condition_cleared──▶ normal
 //   unacknowledged ──condition_cleared──▶ returned_unacknowledged ──acknowledge──▶ normal
 //   returned_unacknowledged ──condition_active──▶ unacknowledged (re-alarm)
-//   shelved, suppressed, out_of_service: entered by an action, the condition is still evaluated and
+//   shelved, suppressed_by_design, out_of_service: entered by an action (suppression by the rules of
+//   ./consequential, which the worker applies and logs like any other input), the condition is still evaluated and
 //   recorded in `conditionActive`; on leaving, the alarm lands in unacknowledged when the condition
 //   is active and in normal when it is clear.
 //
@@ -22,7 +23,9 @@
 // Which hidden state may follow which (the three are exclusive):
 //   shelved    — from normal, unacknowledged, acknowledged, returned_unacknowledged; shelving a
 //                shelved alarm replaces its expiry;
-//   suppressed — suppressed by design (equipment-state logic), from the same four states;
+//   suppressed_by_design — by equipment-state logic (./consequential: a silent device, a faulty
+//                sensor), from the same four states; it does not annunciate and is not notified,
+//                and screens show it on request;
 //   out_of_service — from any state but itself; it overrides shelving and suppression.
 // Repeating an action (acknowledging twice, returning an in-service alarm) is an error; condition
 // inputs are idempotent (the same condition twice changes nothing).
@@ -33,7 +36,7 @@ export const ALARM_STATES = [
   "acknowledged",
   "returned_unacknowledged",
   "shelved",
-  "suppressed",
+  "suppressed_by_design",
   "out_of_service",
 ] as const;
 export type AlarmState = (typeof ALARM_STATES)[number];
@@ -143,7 +146,7 @@ export function isShelveDue(s: AlarmSnapshot, now: Instant): boolean {
   return s.state === "shelved" && s.shelvedUntil !== null && instantToMs(now) >= instantToMs(s.shelvedUntil);
 }
 
-const HIDDEN_STATES: readonly AlarmState[] = ["shelved", "suppressed", "out_of_service"];
+const HIDDEN_STATES: readonly AlarmState[] = ["shelved", "suppressed_by_design", "out_of_service"];
 const ANNUNCIATED_STATES: readonly AlarmState[] = ["normal", "unacknowledged", "acknowledged", "returned_unacknowledged"];
 
 function move(current: AlarmSnapshot, patch: Partial<AlarmSnapshot>, eventKind: AlarmEventKind): AlarmTransition {
@@ -233,7 +236,7 @@ function onReset(s: AlarmSnapshot): AlarmTransitionResult {
 }
 
 function onShelve(s: AlarmSnapshot, at: Instant, until: Instant): AlarmTransitionResult {
-  if (s.state === "suppressed" || s.state === "out_of_service") {
+  if (s.state === "suppressed_by_design" || s.state === "out_of_service") {
     return refuse("not_shelvable", `This alarm is ${s.state.replaceAll("_", " ")}; it cannot be shelved.`);
   }
   const untilMs = instantToMs(until);
@@ -273,10 +276,10 @@ export function transitionAlarm(current: AlarmSnapshot, input: AlarmInput): Alar
       return onShelveExpired(current, input.at);
     case "suppress":
       return ANNUNCIATED_STATES.includes(current.state)
-        ? move(current, { state: "suppressed" }, "suppressed")
+        ? move(current, { state: "suppressed_by_design" }, "suppressed")
         : refuse("not_suppressible", `This alarm is ${current.state.replaceAll("_", " ")}; it cannot be suppressed.`);
     case "unsuppress":
-      return current.state === "suppressed"
+      return current.state === "suppressed_by_design"
         ? leaveHidden(current, "unsuppressed")
         : refuse("not_suppressed", "This alarm is not suppressed.");
     case "remove_from_service":
