@@ -27,6 +27,8 @@
 //                sensor), from the same four states; it does not annunciate and is not notified,
 //                and screens show it on request;
 //   out_of_service — from any state but itself; it overrides shelving and suppression.
+// History (./late-history): returned_unacknowledged ──close_as_history──▶ normal, for an occurrence
+// that activated and cleared in readings the worker saw only afterwards; non-latching alarms only.
 // Repeating an action (acknowledging twice, returning an in-service alarm) is an error; condition
 // inputs are idempotent (the same condition twice changes nothing).
 
@@ -75,7 +77,9 @@ export type AlarmInput =
   | { type: "unsuppress" }
   | { type: "remove_from_service" }
   | { type: "return_to_service" }
-  | { type: "reset" };
+  | { type: "reset" }
+  /** An occurrence that activated and cleared before anyone could be shown it (late readings): kept as history. */
+  | { type: "close_as_history" };
 
 export type AlarmEventKind =
   | "activated"
@@ -91,6 +95,8 @@ export type AlarmEventKind =
   | "unsuppressed"
   | "removed_from_service"
   | "returned_to_service"
+  /** returned_unacknowledged → normal for an occurrence nobody was shown (./late-history). */
+  | "recorded_as_history"
   /** The condition became active while shelved, suppressed or out of service: recorded, not annunciated. */
   | "condition_active_logged"
   /** The condition cleared while shelved, suppressed or out of service. */
@@ -106,7 +112,8 @@ export type AlarmActionErrorCode =
   | "not_suppressible"
   | "not_suppressed"
   | "already_out_of_service"
-  | "not_out_of_service";
+  | "not_out_of_service"
+  | "not_history";
 
 export interface AlarmTransition {
   ok: true;
@@ -268,6 +275,11 @@ export function transitionAlarm(current: AlarmSnapshot, input: AlarmInput): Alar
       return onAcknowledge(current);
     case "reset":
       return onReset(current);
+    case "close_as_history":
+      // A latching alarm keeps asking for its reset: its whole point is that a passing excursion is seen.
+      return current.state === "returned_unacknowledged" && !current.latching
+        ? move(current, { state: "normal" }, "recorded_as_history")
+        : refuse("not_history", "Only a non-latching alarm that returned to normal unacknowledged can be kept as history.");
     case "shelve":
       return onShelve(current, input.at, input.until);
     case "unshelve":
