@@ -9,10 +9,10 @@ import { DEMO_TANKS } from "./demo-plan";
 
 // Demo scenario only: alarm setpoints for every demo tank and an on-call list for every demo site, so
 // the simulated fleet raises alarms of its own and their e-mails reach the demo technician, then the
-// operator. Setpoints are demo choices in fill % of capacity, placed so that each simulated draw-down
-// and refill (db/seeds/demo-plan.ts) crosses H and L: H 5 points below the refill's top, L 5 points
-// above where it refills, HH at the safe fill and LL at half the refill point; a leak alarm for a fall
-// of a tenth of the tank height in an hour. A tank not in the plan gets H 5 points below its safe
+// operator. The setpoints are the plan's (db/seeds/demo-plan.ts), in fill % of capacity and outside each
+// tank's normal operating band, so a normal day raises nothing and the alarms that do come are the
+// scenario's planted problems (tests/unit/demo-alarm-plan.test.ts holds them to that); a leak alarm for
+// a fall of a tenth of the tank height in an hour. A tank not in the plan gets H 5 points below its safe
 // fill and L at its reorder level.
 export const DEMO_ON_CALL = ["technician@halftrip.test", "operator@halftrip.test"];
 
@@ -26,16 +26,14 @@ interface TankRow {
 
 function demoSetpoints(t: TankRow, heightM: number) {
   const safe = t.safe_fill_pct ?? 90;
-  const usage = DEMO_TANKS.find((d) => d.name === t.name)?.usage;
-  const top = usage ? usage.refill_to_pct : safe;
-  const bottom = usage ? usage.refill_below_pct + 5 : (t.reorder_pct ?? 25);
+  const sp = DEMO_TANKS.find((d) => d.name === t.name)?.setpoints_pct ?? { hh: safe, h: safe - 5, l: t.reorder_pct ?? 25, ll: (t.reorder_pct ?? 25) / 2 };
   return putSetpointsSchema.parse({
     unit: "pct",
     setpoints: {
-      hh: { value: safe, priority: "high" },
-      h: { value: top - 5, priority: "medium" },
-      l: { value: bottom, priority: "low" },
-      ll: { value: (usage ? usage.refill_below_pct : bottom) / 2, priority: "high" },
+      hh: { value: sp.hh, priority: "high" },
+      h: { value: sp.h, priority: "medium" },
+      l: { value: sp.l, priority: "low" },
+      ll: { value: sp.ll, priority: "high" },
     },
     rate_of_change: { limit_m_per_h: Math.round(heightM * 100) / 1000, priority: "high" },
   });
