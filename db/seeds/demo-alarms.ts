@@ -5,6 +5,7 @@ import { rows } from "../../lib/db/queries/alarms-store";
 import { putOnCall } from "../../lib/db/queries/on-call";
 import { putSetpoints } from "../../lib/db/queries/alarms-setpoints";
 import { putSetpointsSchema } from "../../lib/validations/setpoint";
+import { DEMO_ON_CALL } from "./demo-accounts";
 import { DEMO_TANKS } from "./demo-plan";
 
 // Demo scenario only: alarm setpoints for every demo tank and an on-call list for every demo site, so
@@ -14,7 +15,6 @@ import { DEMO_TANKS } from "./demo-plan";
 // scenario's planted problems (tests/unit/demo-alarm-plan.test.ts holds them to that); a leak alarm for
 // a fall of a tenth of the tank height in an hour. A tank not in the plan gets H 5 points below its safe
 // fill and L at its reorder level.
-export const DEMO_ON_CALL = ["technician@halftrip.test", "operator@halftrip.test"];
 
 interface TankRow {
   id: string;
