@@ -1,12 +1,16 @@
 import type { Actor } from "../../lib/db/audit";
 import { tankHeight, type TankGeometry } from "../../lib/geometry/tank-volume";
 import { initModels, User } from "../../lib/db/models";
-import { rows } from "../../lib/db/queries/alarms-store";
+import { getSequelize } from "../../lib/db/sequelize";
+import { ensureLevelAlarmRows } from "../../lib/db/queries/alarms-stage";
+import { type AlarmDbRow, insertAlarmEvents, rows, saveAlarm } from "../../lib/db/queries/alarms-store";
 import { putOnCall } from "../../lib/db/queries/on-call";
 import { putSetpoints } from "../../lib/db/queries/alarms-setpoints";
 import { putSetpointsSchema } from "../../lib/validations/setpoint";
 import { DEMO_ON_CALL } from "./demo-accounts";
 import { DEMO_TANKS } from "./demo-plan";
+import { demoTankHistory } from "./demo-team";
+import type { SetpointDef } from "../../lib/alarms/setpoints";
 
 // Demo scenario only: alarm setpoints for every demo tank and an on-call list for every demo site, so
 // the simulated fleet raises alarms of its own and their e-mails reach the demo technician, then the
@@ -59,4 +63,55 @@ export async function seedDemoAlarms(organisationId: string): Promise<{ tanks: n
   );
   if (ordered.length) for (const s of sites) await putOnCall(actor, s.id, { user_ids: ordered });
   return { tanks: tanks.length, sites: ordered.length ? sites.length : 0 };
+}
+
+/**
+ * The 30 days before now of the demo tanks' level alarms, with the team's acknowledgements, shelves and
+ * comments (db/seeds/demo-team.ts), written as the worker would have left them. Each alarm keeps the
+ * evaluator's memory at now, so the worker judges only later readings and the simulator's backfill of
+ * the same days raises nothing twice. Alarms that already have events are left alone.
+ */
+export async function seedDemoAlarmHistory(organisationId: string, now = new Date()): Promise<{ alarms: number; events: number }> {
+  initModels();
+  const tanks = await rows<{ id: string; name: string; time_zone: string }>(
+    `SELECT a.id, a.name, s.time_zone FROM assets a JOIN sites s ON s.id = a.site_id
+     WHERE a.organisation_id = :organisationId AND a.kind = 'tank'
+       AND NOT EXISTS (SELECT 1 FROM alarms al JOIN alarm_events ev ON ev.alarm_id = al.id WHERE al.asset_id = a.id)`,
+    { organisationId },
+  );
+  const people = await User.findAll({ where: { organisation_id: organisationId, email: DEMO_ON_CALL } });
+  const userOf = new Map(people.map((u) => [u.email, u.id]));
+  let alarms = 0;
+  let events = 0;
+  await getSequelize().transaction(async (transaction) => {
+    await ensureLevelAlarmRows(tanks.map((t) => t.id), transaction);
+    for (const t of tanks) {
+      const plan = DEMO_TANKS.find((d) => d.name === t.name);
+      if (!plan) continue;
+      const setpoints = await rows<SetpointDef>(
+        `SELECT key, value_m AS value, deadband_m AS deadband, on_delay_s AS "onDelayS", priority, enabled FROM alarm_setpoints WHERE asset_id = :assetId`,
+        { assetId: t.id },
+        transaction,
+      );
+      const stored = await rows<AlarmDbRow>(`SELECT * FROM alarms WHERE asset_id = :assetId AND channel_id IS NULL`, { assetId: t.id }, transaction);
+      for (const h of demoTankHistory(plan, setpoints, t.time_zone, now.getTime())) {
+        const row = stored.find((r) => r.kind === h.key);
+        if (!row) continue;
+        const lastAt = h.evalState.lastAtMs === null ? null : new Date(h.evalState.lastAtMs);
+        await saveAlarm(row.id, h.record, {
+          evalState: h.evalState,
+          evaluatedUntil: lastAt,
+          acknowledged: h.acknowledged ? { at: new Date(h.acknowledged.atMs), userId: userOf.get(h.acknowledged.actor) ?? null } : null,
+          shelveReason: h.record.snapshot.state === "shelved" ? ([...h.events].reverse().find((e) => e.kind === "shelved")?.cause ?? null) : null,
+        }, transaction);
+        await insertAlarmEvents(
+          h.events.map((event) => ({ alarmId: row.id, organisationId, event, userId: userOf.get(event.actor) ?? null, actorLabel: event.actor, comment: event.comment })),
+          transaction,
+        );
+        alarms++;
+        events += h.events.length;
+      }
+    }
+  });
+  return { alarms, events };
 }

@@ -1,8 +1,11 @@
-import { type AlarmKind, type AlarmRecord, type ConditionChange, type EngineEvent, applyAlarmInput, MAX_SHELVE_HOURS } from "../../lib/alarms/engine";
+import { type AlarmKind, type AlarmRecord, type ConditionChange, type EngineEvent, applyAlarmInput, evaluateLevelAlarm, MAX_SHELVE_HOURS, newAlarmRecord } from "../../lib/alarms/engine";
+import type { SetpointDef, SetpointKey, SetpointState } from "../../lib/alarms/setpoints";
 import type { AlarmInput, AlarmPriority } from "../../lib/alarms/state-machine";
 import { localHour } from "../../workers/simulation/climate";
+import { levelForFillPct, scenarioFillPct } from "../../workers/simulation/tank-usage";
 import { gaussianAt, seedFromText, uniformAt } from "../../workers/simulation/random";
 import { DEMO_ON_CALL } from "./demo-accounts";
+import type { DemoTank } from "./demo-plan";
 
 // Demo scenario only: how the invented water cooperative's team answers its alarms over the 30 days
 // of history, so the alarm pages show people at work rather than a pile nobody touched. Pure and
@@ -144,4 +147,46 @@ export function replayWithTeam(record: AlarmRecord, changes: readonly ConditionC
     events.push(...out.events);
   }
   return { record: current, events };
+}
+
+export interface SeededLevelAlarm {
+  key: SetpointKey;
+  record: AlarmRecord;
+  events: ReplayedEvent[];
+  /** The evaluator's memory at the seed's time: the worker carries on from there, later readings only. */
+  evalState: SetpointState;
+  /** The acknowledgement that stands (of the current episode), if any. */
+  acknowledged: { atMs: number; actor: string } | null;
+}
+
+const HISTORY_DAYS = 30;
+const STEP_MS = 5 * MINUTE_MS;
+
+/**
+ * A demo tank's level alarms over the 30 days before `nowMs`, with the team's answers: its level on
+ * the backfill's 5-minute grid from the simulator's own usage (the first run taken as `nowMs`), each
+ * stored setpoint judged by the engine, and the replay of its condition changes with the team.
+ */
+export function demoTankHistory(tank: DemoTank, setpoints: readonly SetpointDef[], timeZone: string, nowMs: number): SeededLevelAlarm[] {
+  const samples: { at: number; value: number }[] = [];
+  for (let t = nowMs - HISTORY_DAYS * 24 * HOUR_MS; t <= nowMs; t += STEP_MS) {
+    samples.push({ at: t, value: levelForFillPct(tank.geometry, scenarioFillPct(tank.usage, t, timeZone, nowMs)) });
+  }
+  return setpoints.map((sp) => {
+    const judged = evaluateLevelAlarm(sp, newAlarmRecord(sp.priority), null, samples);
+    const changes: ConditionChange[] = judged.events.map((e) => ({ at: e.at, active: e.kind === "activated" || e.kind === "re_alarmed", value: e.value, setpoint: e.setpoint, cause: e.cause }));
+    const episodes: DemoEpisode[] = judged.events
+      .filter((e) => e.kind === "activated" || e.kind === "re_alarmed")
+      .map((e, i) => ({ alarmKey: `${tank.key}:${sp.key}:${i}`, kind: sp.key, priority: sp.priority, timeZone, activatedAtMs: Date.parse(e.at), clearedAtMs: null }));
+    const actions = planTeamResponses(episodes, nowMs);
+    const replay = replayWithTeam(newAlarmRecord(sp.priority), changes, actions);
+    const lastAck = [...replay.events].reverse().find((e) => e.kind === "acknowledged" && e.episode === replay.record.episode);
+    return {
+      key: sp.key,
+      record: replay.record,
+      events: replay.events,
+      evalState: judged.state,
+      acknowledged: lastAck ? { atMs: Date.parse(lastAck.at), actor: lastAck.actor } : null,
+    };
+  });
 }

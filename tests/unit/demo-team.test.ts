@@ -1,8 +1,11 @@
 import { describe, it, expect } from "vitest";
 import { quantile } from "simple-statistics";
-import { DEMO_ASSETS, DEMO_DEVICES, DEMO_SITES } from "@/db/seeds/demo-plan";
+import { DEMO_ASSETS, DEMO_DEVICES, DEMO_SITES, DEMO_TANKS } from "@/db/seeds/demo-plan";
 import { simDeviceFromPlan } from "@/db/seeds/demo-keys";
-import { DEMO_FRESH_MINUTES, ackDelayMinutes, planTeamResponses, replayWithTeam, type DemoEpisode } from "@/db/seeds/demo-team";
+import { DEMO_FRESH_MINUTES, ackDelayMinutes, demoTankHistory, planTeamResponses, replayWithTeam, type DemoEpisode, type SeededLevelAlarm } from "@/db/seeds/demo-team";
+import { LEVEL_ON_DELAY_S, SETPOINT_KEYS, levelDeadbandM, type SetpointDef } from "@/lib/alarms/setpoints";
+import { tankHeight } from "@/lib/geometry/tank-volume";
+import { setpointToLevelM } from "@/lib/validations/setpoint";
 import { MAX_SHELVE_HOURS, needsAcknowledgement, newAlarmRecord } from "@/lib/alarms/engine";
 import { isDeviceOffline, type ScenarioClock } from "@/workers/simulation/scenario";
 
@@ -94,5 +97,21 @@ describe("the demo team answers its alarms like a team at work", () => {
     // Cleared before anyone answered: ISA-18.2 returned-unacknowledged, then acknowledged to normal (REFERENCES.md §4).
     const late = mine.map((a) => ({ ...a, atMs: (outage.clearedAtMs as number) + 5 * MIN }));
     expect(replayWithTeam(newAlarmRecord("medium"), changes, late).events.map((e) => e.toState)).toEqual(["unacknowledged", "returned_unacknowledged", "normal"]);
+  });
+});
+
+describe("the seeded level-alarm history of the demo tanks", () => {
+  const setpointsOf = (t: (typeof DEMO_TANKS)[number]): SetpointDef[] =>
+    SETPOINT_KEYS.map((key) => ({ key, value: setpointToLevelM(t.setpoints_pct[key], "pct", t.geometry), deadband: levelDeadbandM(tankHeight(t.geometry)), onDelayS: LEVEL_ON_DELAY_S, priority: "low", enabled: true }));
+
+  it("holds the planted late delivery only: its L acknowledged by the team within the hour, still active at the start; the worker carries on from now", () => {
+    const histories = DEMO_TANKS.map((t) => ({ t, h: demoTankHistory(t, setpointsOf(t), "Europe/London", NOW) }));
+    const active = histories.flatMap(({ t, h }) => h.filter((a) => a.record.activations > 0).map((a) => `${t.key}:${a.key}`));
+    expect(active).toEqual(["hypochlorite:l"]);
+    const l = histories.find(({ t }) => t.key === "hypochlorite")?.h.find((a) => a.key === "l") as SeededLevelAlarm;
+    expect(l.record.snapshot).toMatchObject({ state: "acknowledged", conditionActive: true });
+    expect(l.acknowledged?.actor).toMatch(/@halftrip\.test$/);
+    expect((l.acknowledged?.atMs ?? 0) - Date.parse(l.record.activatedAt as string)).toBeLessThan(60 * MIN);
+    for (const { h } of histories) for (const a of h) expect(a.evalState.lastAtMs).toBe(NOW);
   });
 });
