@@ -11,7 +11,7 @@ export const STATE_WORDS: Record<AlarmState, string> = {
   acknowledged: "Acknowledged",
   returned_unacknowledged: "Cleared, unacknowledged",
   shelved: "Shelved",
-  suppressed: "Suppressed",
+  suppressed_by_design: "Suppressed by design",
   out_of_service: "Out of service",
 };
 

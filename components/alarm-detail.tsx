@@ -84,7 +84,7 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
 
       <div className="flex flex-wrap gap-3" role="group" aria-label="Actions">
         {can(role, "alarm:acknowledge") && needsAcknowledgement(state) && <button type="button" className="btn" onClick={() => setDialog("acknowledge")}>Acknowledge</button>}
-        {can(role, "alarm:shelve") && !["shelved", "suppressed", "out_of_service"].includes(state) && <button type="button" className="btn-quiet" onClick={() => setDialog("shelve")}>Shelve for…</button>}
+        {can(role, "alarm:shelve") && !["shelved", "suppressed_by_design", "out_of_service"].includes(state) && <button type="button" className="btn-quiet" onClick={() => setDialog("shelve")}>Shelve for…</button>}
         {can(role, "alarm:shelve") && state === "shelved" && <button type="button" className="btn-quiet" disabled={busy} onClick={() => post("unshelve")}>Unshelve</button>}
         {can(role, "alarm:reset") && data.awaiting_reset && <button type="button" className="btn-quiet" disabled={busy} onClick={() => post("reset")}>Reset</button>}
         {can(role, "alarm:out_of_service") && state !== "out_of_service" && <button type="button" className="btn-quiet" onClick={() => setDialog("out_of_service")}>Take out of service</button>}

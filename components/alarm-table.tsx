@@ -202,7 +202,7 @@ export function AlarmTable({ role }: { role: Role }) {
                   Acknowledge
                 </button>
               )}
-              {mayShelve && !["shelved", "suppressed", "out_of_service"].includes(a.state) && (
+              {mayShelve && !["shelved", "suppressed_by_design", "out_of_service"].includes(a.state) && (
                 <button type="button" className="btn-quiet h-8 px-3" aria-label={`Shelve ${what}`} onClick={() => setDialog({ mode: "shelve", ids: [a.id], title: `Shelve ${what}` })}>
                   Shelve for…
                 </button>

@@ -22,7 +22,7 @@ export const ALARM_STATE_LABELS: Record<string, string> = {
   acknowledged: "Acknowledged",
   returned_unacknowledged: "Returned, unacknowledged",
   shelved: "Shelved",
-  suppressed: "Suppressed",
+  suppressed_by_design: "Suppressed by design",
   out_of_service: "Out of service",
 };
 

@@ -5,7 +5,7 @@ import { hashPassword } from "../lib/auth/passwords";
 import { writeAudit } from "../lib/services/audit";
 import { DEMO_ACCOUNTS, DEMO_ORGANISATION, DEMO_PASSWORD } from "./seeds/demo-accounts";
 import { seedDemoFleet } from "./seeds/demo-fleet";
-import { seedDemoAlarms } from "./seeds/demo-alarms";
+import { seedDemoAlarmHistory, seedDemoAlarms } from "./seeds/demo-alarms";
 
 // Seeds the demo scenario into an empty database. Refuses in production unless explicitly asked.
 async function main() {
@@ -32,6 +32,7 @@ async function main() {
   });
   await seedDemoFleet({ organisationId: org.id });
   await seedDemoAlarms(org.id);
+  await seedDemoAlarmHistory(org.id);
   process.stdout.write(`[halftrip] demo scenario seeded (${DEMO_ACCOUNTS.length} accounts)\n`);
 }
 

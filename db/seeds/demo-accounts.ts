@@ -9,3 +9,5 @@ export const DEMO_ACCOUNTS: { email: string; name: string; role: Role }[] = [
   { email: "technician@halftrip.test", name: "Tess Technician", role: "technician" },
   { email: "viewer@halftrip.test", name: "Vic Viewer", role: "viewer" },
 ];
+/** Who is on call at every demo site, first to last: the technician, then the operator. */
+export const DEMO_ON_CALL = ["technician@halftrip.test", "operator@halftrip.test"];

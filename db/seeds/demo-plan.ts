@@ -18,6 +18,14 @@ export interface DemoSite {
   climate: { mean_temp_c: number; daily_swing_c: number };
 }
 
+/** Alarm setpoints of a demo tank, % of capacity by volume. */
+export interface DemoSetpointsPct {
+  ll: number;
+  l: number;
+  h: number;
+  hh: number;
+}
+
 export interface DemoTank {
   kind: "tank";
   key: string;
@@ -28,6 +36,13 @@ export interface DemoTank {
   safe_fill_pct: number;
   reorder_pct: number;
   usage: TankUsage;
+  /**
+   * Outside the tank's normal operating band (refill_below … refill_to): H and HH above the top of a
+   * refill, L and LL below the point where it is refilled, so a normal day raises nothing.
+   */
+  setpoints_pct: DemoSetpointsPct;
+  /** Level-alarm activations the scenario means this tank to raise over its 30 days, and why. */
+  planted_activations: { l: number; ll: number; h: number; hh: number; why: string | null };
 }
 
 export interface DemoBay {
@@ -85,6 +100,9 @@ const usage = (use_pct_per_day: number, refill_below_pct: number, refill_to_pct:
   phase,
 });
 
+const setpoints = (ll: number, l: number, h: number, hh: number): DemoSetpointsPct => ({ ll, l, h, hh });
+const QUIET = { l: 0, ll: 0, h: 0, hh: 0, why: null };
+
 // Every geometry the product knows: vertical cylinders with flat, cone and ellipsoidal bottoms;
 // horizontal cylinders with flat, hemispherical and ellipsoidal heads; rectangular; a strapping table.
 export const DEMO_TANKS: DemoTank[] = [
@@ -92,36 +110,47 @@ export const DEMO_TANKS: DemoTank[] = [
     kind: "tank", key: "clearwater", site: "north", name: "Clearwater Tank",
     geometry: { shape: "vertical_cylinder", diameter_m: 6, height_m: 3.5, bottom: "flat", bottom_depth_m: 0 },
     mount_height_m: 3.8, safe_fill_pct: 92, reorder_pct: 30, usage: usage(55, 38, 88, 100, 0.2),
+    setpoints_pct: setpoints(15, 30, 90, 92), planted_activations: QUIET,
   },
   {
     kind: "tank", key: "hypochlorite", site: "north", name: "Hypochlorite Day Tank",
     geometry: { shape: "vertical_cylinder", diameter_m: 1.2, height_m: 1.6, bottom: "cone", bottom_depth_m: 0.3 },
-    mount_height_m: 2.05, safe_fill_pct: 90, reorder_pct: 25, usage: usage(6.5, 18, 90, 40, 0.55),
+    mount_height_m: 2.05, safe_fill_pct: 90, reorder_pct: 25,
+    // The planted problem of North Works: the supplier is late, the tank stands near LL at the first run
+    // and the delivery arrives five hours later.
+    usage: { ...usage(6.5, 18, 85, 40, 0.55), late_delivery: { fill_at_first_run_pct: 10, arrives_hours_after_first_run: 5 } },
+    setpoints_pct: setpoints(6, 12, 88, 90), planted_activations: { l: 1, ll: 0, h: 0, hh: 0, why: "delivery late: below L before the first run, refilled five hours after it" },
   },
   {
     kind: "tank", key: "coagulant", site: "north", name: "Coagulant Tank",
     geometry: { shape: "vertical_cylinder", diameter_m: 2.4, height_m: 2, bottom: "ellipsoidal", bottom_depth_m: 0.6 },
-    mount_height_m: 2.75, safe_fill_pct: 90, reorder_pct: 30, usage: usage(4, 22, 88, 50, 0.8),
+    mount_height_m: 2.75, safe_fill_pct: 90, reorder_pct: 30, usage: usage(4, 22, 85, 50, 0.8),
+    setpoints_pct: setpoints(8, 15, 88, 90), planted_activations: QUIET,
   },
   {
     kind: "tank", key: "diesel", site: "north", name: "Standby Generator Diesel",
     geometry: { shape: "horizontal_cylinder", diameter_m: 1.5, length_m: 2.8, heads: "flat" },
-    mount_height_m: 1.6, safe_fill_pct: 90, reorder_pct: 40, usage: usage(1.5, 35, 90, 30, 0.6),
+    mount_height_m: 1.6, safe_fill_pct: 90, reorder_pct: 40, usage: usage(1.5, 35, 85, 30, 0.6),
+    // A standby generator keeps a reserve: L well above empty.
+    setpoints_pct: setpoints(20, 30, 88, 90), planted_activations: QUIET,
   },
   {
     kind: "tank", key: "lime", site: "north", name: "Lime Slurry Tank",
     geometry: { shape: "rectangular", length_m: 2, width_m: 1.5, height_m: 1.8 },
-    mount_height_m: 1.95, safe_fill_pct: 88, reorder_pct: 30, usage: usage(9, 25, 85, 60, 0.3),
+    mount_height_m: 1.95, safe_fill_pct: 88, reorder_pct: 30, usage: usage(9, 25, 82, 60, 0.3),
+    setpoints_pct: setpoints(10, 18, 86, 88), planted_activations: QUIET,
   },
   {
     kind: "tank", key: "service", site: "upland", name: "Upland Service Tank",
     geometry: { shape: "horizontal_cylinder", diameter_m: 2.8, length_m: 7.5, heads: "hemispherical" },
-    mount_height_m: 2.95, safe_fill_pct: 93, reorder_pct: 35, usage: usage(30, 40, 90, 120, 0.45),
+    mount_height_m: 2.95, safe_fill_pct: 93, reorder_pct: 35, usage: usage(30, 40, 88, 120, 0.45),
+    setpoints_pct: setpoints(20, 32, 91, 93), planted_activations: QUIET,
   },
   {
     kind: "tank", key: "backwash", site: "upland", name: "Backwash Recovery Tank",
     geometry: { shape: "horizontal_cylinder", diameter_m: 2.2, length_m: 5, heads: "ellipsoidal", head_depth_m: 0.55 },
     mount_height_m: 2.35, safe_fill_pct: 90, reorder_pct: 20, usage: usage(18, 15, 80, 90, 0.7),
+    setpoints_pct: setpoints(5, 10, 85, 90), planted_activations: QUIET,
   },
   {
     kind: "tank", key: "sludge", site: "upland", name: "Sludge Holding Sump",
@@ -140,11 +169,14 @@ export const DEMO_TANKS: DemoTank[] = [
       ],
     },
     mount_height_m: 2.6, safe_fill_pct: 85, reorder_pct: 15, usage: usage(7, 12, 75, 180, 0.1),
+    setpoints_pct: setpoints(4, 8, 80, 85), planted_activations: QUIET,
   },
   {
     kind: "tank", key: "firewater", site: "upland", name: "Fire Water Tank",
     geometry: { shape: "vertical_cylinder", diameter_m: 4, height_m: 3.2, bottom: "flat", bottom_depth_m: 0 },
-    mount_height_m: 3.45, safe_fill_pct: 95, reorder_pct: 70, usage: usage(1.2, 80, 95, 240, 0.5),
+    mount_height_m: 3.45, safe_fill_pct: 95, reorder_pct: 70, usage: usage(1.2, 80, 92, 240, 0.5),
+    // The fire reserve matters most: L just under the refill point, LL where the reserve is at risk.
+    setpoints_pct: setpoints(60, 75, 94, 95), planted_activations: QUIET,
   },
 ];
 

@@ -236,7 +236,7 @@ function metric(value: number | null, benchmark: Benchmark, source: string = BEN
  * and the floods (start when N exceeds 10, end when N falls below 5). All changes at one instant are
  * applied before N is read, so an activation and an expiry at the same moment cancel.
  */
-function sweepTenMinuteWindows(times: readonly number[], toMs: number): { peak: number; floods: FloodPeriod[] } {
+export function sweepTenMinuteWindows(times: readonly number[], toMs: number): { peak: number; floods: FloodPeriod[] } {
   const changes = new Map<number, number>();
   for (const t of times) {
     changes.set(t, (changes.get(t) ?? 0) + 1);

@@ -2,10 +2,13 @@
 // alarm newly needs attention, the next one each time the site's escalation delay passes without an
 // acknowledgement, and so on down the list. Pure: the notify stage loads the facts and sends what
 // this plans. One notice per alarm episode and recipient; notices to one person about one site that
-// fall due together go out as one e-mail (a burst becomes a summary).
+// fall due together go out as one e-mail (a burst becomes a summary). History is recorded, not
+// announced (./late-history): a first notice waits until the alarm's state is current, and an
+// occurrence that cleared before its first notice went out is not e-mailed as needing attention.
 
 import { type AlarmState, type Instant, instantToMs } from "./state-machine";
 import { needsAcknowledgement } from "./engine";
+import { isStateCurrent } from "./late-history";
 
 export interface NoticeAlarm {
   alarmId: string;
@@ -14,6 +17,23 @@ export interface NoticeAlarm {
   state: AlarmState;
   /** When the current occurrence began (ISO or ms). */
   activatedAt: Instant | null;
+  /** When it cleared, null while active; when given, a cleared occurrence gets no first notice. */
+  clearedAt?: Instant | null;
+  /** Measurement time of the latest reading the alarm was judged on; when given, a first notice waits until it is recent. */
+  evaluatedUntil?: Instant | null;
+}
+
+/** Why an alarm that needs acknowledging gets no first notice now (null: it may be announced). */
+export type NoticeHold = "not_current" | "cleared_before_notice";
+
+/**
+ * The rules of history-not-announced for a first notice (besides NOTIFY_MAX_AGE_HOURS, which holds
+ * for every notice): the alarm page can show why nobody was e-mailed yet.
+ */
+export function firstNoticeHold(a: NoticeAlarm, now: Instant): NoticeHold | null {
+  if (a.evaluatedUntil !== undefined && !isStateCurrent(a.evaluatedUntil, now)) return "not_current";
+  if (a.state === "returned_unacknowledged" && a.clearedAt !== undefined && a.clearedAt !== null) return "cleared_before_notice";
+  return null;
 }
 
 export interface OnCallPerson {
@@ -84,6 +104,7 @@ export function planNotifications(facts: NotificationFacts): PlannedNotice[] {
     const sent = byEpisode.get(`${a.alarmId}:${a.episode}`) ?? [];
     const base = { alarmId: a.alarmId, siteId: a.siteId, episode: a.episode };
     if (sent.length === 0) {
+      if (firstNoticeHold(a, facts.now) !== null) continue;
       const first = nextPerson(list, new Set(), null);
       if (first) planned.push({ ...base, userId: first.userId, email: first.email, position: first.position, reason: "activation" });
       continue;

@@ -32,7 +32,12 @@ import {
   transitionAlarm,
 } from "./state-machine";
 
-export const ALARM_KINDS = [...SETPOINT_KEYS, "rate_of_change", ...HEALTH_FLAGS] as const;
+/**
+ * device_offline: one alarm per device that fell silent or lost every channel (./consequential);
+ * common_cause: one alarm for many channels flagged alike at once (a device's or a site's), its
+ * members listed in its cause.
+ */
+export const ALARM_KINDS = [...SETPOINT_KEYS, "rate_of_change", ...HEALTH_FLAGS, "device_offline", "common_cause"] as const;
 export type AlarmKind = (typeof ALARM_KINDS)[number];
 
 export function isAlarmKind(value: string): value is AlarmKind {
@@ -52,10 +57,12 @@ const KIND_LABELS: Record<AlarmKind, string> = {
   drift: "Sensor drift",
   stuck: "Sensor stuck",
   noisy: "Sensor noisy",
-  offline: "Device offline",
+  offline: "Channel offline",
   crosstalk_risk: "Crosstalk risk",
   out_of_range: "Reading out of range",
   no_echo: "No echo",
+  device_offline: "Device offline",
+  common_cause: "Common cause",
 };
 
 /** The condition in words, as screens and e-mails name it. */
@@ -81,6 +88,8 @@ export const DEFAULT_PRIORITIES: Record<AlarmKind, AlarmPriority> = {
   crosstalk_risk: "low",
   out_of_range: "low",
   no_echo: "low",
+  device_offline: "medium",
+  common_cause: "low",
 };
 
 export const PRIORITY_GLYPHS: Record<AlarmPriority, string> = { critical: "◆", high: "▲", medium: "■", low: "●" };

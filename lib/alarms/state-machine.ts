@@ -5,7 +5,8 @@
 //   normal ──condition_active──▶ unacknowledged ──acknowledge──▶ acknowledged ──condition_cleared──▶ normal
 //   unacknowledged ──condition_cleared──▶ returned_unacknowledged ──acknowledge──▶ normal
 //   returned_unacknowledged ──condition_active──▶ unacknowledged (re-alarm)
-//   shelved, suppressed, out_of_service: entered by an action, the condition is still evaluated and
+//   shelved, suppressed_by_design, out_of_service: entered by an action (suppression by the rules of
+//   ./consequential, which the worker applies and logs like any other input), the condition is still evaluated and
 //   recorded in `conditionActive`; on leaving, the alarm lands in unacknowledged when the condition
 //   is active and in normal when it is clear.
 //
@@ -22,8 +23,12 @@
 // Which hidden state may follow which (the three are exclusive):
 //   shelved    — from normal, unacknowledged, acknowledged, returned_unacknowledged; shelving a
 //                shelved alarm replaces its expiry;
-//   suppressed — suppressed by design (equipment-state logic), from the same four states;
+//   suppressed_by_design — by equipment-state logic (./consequential: a silent device, a faulty
+//                sensor), from the same four states; it does not annunciate and is not notified,
+//                and screens show it on request;
 //   out_of_service — from any state but itself; it overrides shelving and suppression.
+// History (./late-history): returned_unacknowledged ──close_as_history──▶ normal, for an occurrence
+// that activated and cleared in readings the worker saw only afterwards; non-latching alarms only.
 // Repeating an action (acknowledging twice, returning an in-service alarm) is an error; condition
 // inputs are idempotent (the same condition twice changes nothing).
 
@@ -33,7 +38,7 @@ export const ALARM_STATES = [
   "acknowledged",
   "returned_unacknowledged",
   "shelved",
-  "suppressed",
+  "suppressed_by_design",
   "out_of_service",
 ] as const;
 export type AlarmState = (typeof ALARM_STATES)[number];
@@ -72,7 +77,9 @@ export type AlarmInput =
   | { type: "unsuppress" }
   | { type: "remove_from_service" }
   | { type: "return_to_service" }
-  | { type: "reset" };
+  | { type: "reset" }
+  /** An occurrence that activated and cleared before anyone could be shown it (late readings): kept as history. */
+  | { type: "close_as_history" };
 
 export type AlarmEventKind =
   | "activated"
@@ -88,6 +95,8 @@ export type AlarmEventKind =
   | "unsuppressed"
   | "removed_from_service"
   | "returned_to_service"
+  /** returned_unacknowledged → normal for an occurrence nobody was shown (./late-history). */
+  | "recorded_as_history"
   /** The condition became active while shelved, suppressed or out of service: recorded, not annunciated. */
   | "condition_active_logged"
   /** The condition cleared while shelved, suppressed or out of service. */
@@ -103,7 +112,8 @@ export type AlarmActionErrorCode =
   | "not_suppressible"
   | "not_suppressed"
   | "already_out_of_service"
-  | "not_out_of_service";
+  | "not_out_of_service"
+  | "not_history";
 
 export interface AlarmTransition {
   ok: true;
@@ -143,7 +153,7 @@ export function isShelveDue(s: AlarmSnapshot, now: Instant): boolean {
   return s.state === "shelved" && s.shelvedUntil !== null && instantToMs(now) >= instantToMs(s.shelvedUntil);
 }
 
-const HIDDEN_STATES: readonly AlarmState[] = ["shelved", "suppressed", "out_of_service"];
+const HIDDEN_STATES: readonly AlarmState[] = ["shelved", "suppressed_by_design", "out_of_service"];
 const ANNUNCIATED_STATES: readonly AlarmState[] = ["normal", "unacknowledged", "acknowledged", "returned_unacknowledged"];
 
 function move(current: AlarmSnapshot, patch: Partial<AlarmSnapshot>, eventKind: AlarmEventKind): AlarmTransition {
@@ -233,7 +243,7 @@ function onReset(s: AlarmSnapshot): AlarmTransitionResult {
 }
 
 function onShelve(s: AlarmSnapshot, at: Instant, until: Instant): AlarmTransitionResult {
-  if (s.state === "suppressed" || s.state === "out_of_service") {
+  if (s.state === "suppressed_by_design" || s.state === "out_of_service") {
     return refuse("not_shelvable", `This alarm is ${s.state.replaceAll("_", " ")}; it cannot be shelved.`);
   }
   const untilMs = instantToMs(until);
@@ -265,6 +275,11 @@ export function transitionAlarm(current: AlarmSnapshot, input: AlarmInput): Alar
       return onAcknowledge(current);
     case "reset":
       return onReset(current);
+    case "close_as_history":
+      // A latching alarm keeps asking for its reset: its whole point is that a passing excursion is seen.
+      return current.state === "returned_unacknowledged" && !current.latching
+        ? move(current, { state: "normal" }, "recorded_as_history")
+        : refuse("not_history", "Only a non-latching alarm that returned to normal unacknowledged can be kept as history.");
     case "shelve":
       return onShelve(current, input.at, input.until);
     case "unshelve":
@@ -273,10 +288,10 @@ export function transitionAlarm(current: AlarmSnapshot, input: AlarmInput): Alar
       return onShelveExpired(current, input.at);
     case "suppress":
       return ANNUNCIATED_STATES.includes(current.state)
-        ? move(current, { state: "suppressed" }, "suppressed")
+        ? move(current, { state: "suppressed_by_design" }, "suppressed")
         : refuse("not_suppressible", `This alarm is ${current.state.replaceAll("_", " ")}; it cannot be suppressed.`);
     case "unsuppress":
-      return current.state === "suppressed"
+      return current.state === "suppressed_by_design"
         ? leaveHidden(current, "unsuppressed")
         : refuse("not_suppressed", "This alarm is not suppressed.");
     case "remove_from_service":

@@ -92,9 +92,9 @@ describe("ISA-18.2 / IEC 62682 transitions (REFERENCES.md §4, published)", () =
     expect(unack).toEqual(before);
   });
 
-  it("uses exactly the state names of the API (PRODUCT.md), plus suppressed", () => {
+  it("uses exactly the state names of the API (PRODUCT.md)", () => {
     expect([...ALARM_STATES].sort()).toEqual(
-      ["normal", "unacknowledged", "acknowledged", "returned_unacknowledged", "shelved", "out_of_service", "suppressed"].sort(),
+      ["normal", "unacknowledged", "acknowledged", "returned_unacknowledged", "shelved", "out_of_service", "suppressed_by_design"].sort(),
     );
   });
 });
@@ -263,7 +263,7 @@ describe("suppressed by design (REFERENCES.md §4)", () => {
   for (const [name, s] of annunciated) {
     it(`suppresses from ${name} and returns by the condition`, () => {
       const suppressed = ok(s, { type: "suppress" });
-      expect(suppressed.next.state).toBe("suppressed");
+      expect(suppressed.next.state).toBe("suppressed_by_design");
       expect(suppressed.eventKind).toBe("suppressed");
       const back = ok(suppressed.next, { type: "unsuppress" });
       expect(back.next.state).toBe(s.conditionActive ? "unacknowledged" : "normal");
@@ -311,6 +311,6 @@ describe("out of service (REFERENCES.md §4: from any state, condition still eva
   });
 
   it("counts shelved, suppressed and out of service as hidden states", () => {
-    expect(ALARM_STATES.filter(isHiddenState).sort()).toEqual(["out_of_service", "shelved", "suppressed"]);
+    expect(ALARM_STATES.filter(isHiddenState).sort()).toEqual(["out_of_service", "shelved", "suppressed_by_design"]);
   });
 });

@@ -25,6 +25,11 @@ export interface TankUsage {
   refill_minutes: number;
   /** Where in its draw-down the tank starts, 0 (just refilled) … 1 (about to be refilled). */
   phase: number;
+  /**
+   * A planted problem: the deliveries fell behind, so at the simulator's first run the tank stands at
+   * this fill (below its refill point), still drawn down by use until the delivery arrives.
+   */
+  late_delivery?: { fill_at_first_run_pct: number; arrives_hours_after_first_run: number };
 }
 
 export type ChannelFault =

@@ -4,7 +4,7 @@ import { airTemperatureC, daylight, localHour } from "./climate";
 import { echoMicroseconds, encodeCapture, encodeDuty, encodePulse, NO_ECHO_US, roundEchoUs } from "./encoding";
 import type { SimChannel, SimDevice } from "./keys-file";
 import { gaussianAt, seedFromText, uniformAt } from "./random";
-import { levelForFillPct, tankFillPct } from "./tank-usage";
+import { levelForFillPct, scenarioFillPct } from "./tank-usage";
 
 const MINUTE_MS = 60_000;
 const HOUR_MS = 60 * MINUTE_MS;
@@ -59,10 +59,13 @@ export function isDeviceOffline(device: SimDevice, tMs: number, clock: ScenarioC
   return since % (OFFLINE_EVERY_HOURS * HOUR_MS) < OFFLINE_HOURS * HOUR_MS;
 }
 
-/** The physical distance from the sensor face to what it sees: the liquid surface, a car roof or the floor. */
-export function trueDistanceM(device: SimDevice, channel: SimChannel, tMs: number): number {
+/**
+ * The physical distance from the sensor face to what it sees: the liquid surface, a car roof or the
+ * floor. Without a clock, planted problems placed relative to the first run (a late delivery) are left out.
+ */
+export function trueDistanceM(device: SimDevice, channel: SimChannel, tMs: number, clock?: ScenarioClock): number {
   if (channel.kind === "tank") {
-    const fill = tankFillPct(channel.usage, tMs, device.site.time_zone);
+    const fill = scenarioFillPct(channel.usage, tMs, device.site.time_zone, clock?.firstRunMs ?? null);
     return channel.mount_height_m - levelForFillPct(channel.geometry, fill);
   }
   const car = carInBay(channel.asset_id, channel.popularity, tMs, device.site.time_zone);
@@ -109,13 +112,13 @@ function encodeSignal(device: SimDevice, ping: Ping): SignalFields {
 }
 
 /** The value a stuck channel repeats: its clean reading at the moment it stuck. */
-function frozenSignal(device: SimDevice, channel: SimChannel, onsetMs: number): SignalFields {
-  return encodeSignal(device, { distanceM: trueDistanceM(device, channel, onsetMs), tempC: airTemperatureC(device.site, onsetMs), noEcho: false, jitterSeed: null, tMs: onsetMs });
+function frozenSignal(device: SimDevice, channel: SimChannel, onsetMs: number, clock: ScenarioClock): SignalFields {
+  return encodeSignal(device, { distanceM: trueDistanceM(device, channel, onsetMs, clock), tempC: airTemperatureC(device.site, onsetMs), noEcho: false, jitterSeed: null, tMs: onsetMs });
 }
 
 function measuredDistanceM(device: SimDevice, channel: SimChannel, position: number, tMs: number, clock: ScenarioClock): { distanceM: number; noEcho: boolean } {
   const seed = seedFromText(`${device.id}:${channel.index}`);
-  let distance = trueDistanceM(device, channel, tMs);
+  let distance = trueDistanceM(device, channel, tMs, clock);
   const onset = faultOnsetMs(channel, clock);
   if (channel.fault?.kind === "drift" && onset !== null && tMs > onset) {
     distance += ((channel.fault.mm_per_day / 1000) * (tMs - onset)) / DAY_MS;
@@ -131,7 +134,7 @@ function measuredDistanceM(device: SimDevice, channel: SimChannel, position: num
   // Pinged too soon after its neighbour, a channel now and then hears the neighbour's echo instead.
   if (position > 0 && device.behaviour.channel_spacing_ms < SAFE_CHANNEL_SPACING_MS && uniformAt(seed, tMs, 4) < CROSSTALK_CHANCE) {
     const neighbour = [...device.channels].sort((a, b) => a.index - b.index)[position - 1];
-    return { distanceM: trueDistanceM(device, neighbour, tMs), noEcho: false };
+    return { distanceM: trueDistanceM(device, neighbour, tMs, clock), noEcho: false };
   }
   return { distanceM: Math.max(0, distance), noEcho: false };
 }
@@ -164,7 +167,7 @@ export function readingsForCycle(device: SimDevice, cycleMs: number, clock: Scen
     const onset = faultOnsetMs(channel, clock);
     let signal: SignalFields;
     if (channel.fault?.kind === "stuck" && onset !== null && tMs >= onset) {
-      signal = frozenSignal(device, channel, onset);
+      signal = frozenSignal(device, channel, onset, clock);
     } else {
       const { distanceM, noEcho } = measuredDistanceM(device, channel, position, tMs, clock);
       signal = encodeSignal(device, { distanceM, tempC, noEcho, jitterSeed: seedFromText(`${device.id}:${channel.index}:burst`), tMs });

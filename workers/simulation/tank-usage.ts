@@ -51,6 +51,26 @@ export function tankFillPct(usage: TankUsage, tMs: number, timeZone: string): nu
   return usage.refill_below_pct + (now - usage.refill_below_pct) * progress;
 }
 
+/**
+ * The fill the scenario plays at tMs: tankFillPct, except for a tank with a late delivery. Its fill is
+ * then capped by a draw-down that reaches fill_at_first_run_pct at the first run (a line in cumulative
+ * use, so it bends with the daily pattern like any draw-down); the cap starts above 100 % long before,
+ * so it joins the ordinary saw-tooth without a jump, and the delivery ramps back to it over refill_minutes.
+ */
+export function scenarioFillPct(usage: TankUsage, tMs: number, timeZone: string, firstRunMs: number | null): number {
+  const base = tankFillPct(usage, tMs, timeZone);
+  const late = usage.late_delivery;
+  if (!late || firstRunMs === null) return base;
+  const atFirstRun = cumulativeUsePct(usage, firstRunMs, timeZone);
+  const capped = (t: number) => Math.min(tankFillPct(usage, t, timeZone), late.fill_at_first_run_pct + atFirstRun - cumulativeUsePct(usage, t, timeZone));
+  const arrivesMs = firstRunMs + late.arrives_hours_after_first_run * 60 * MINUTE_MS;
+  if (tMs < arrivesMs) return capped(tMs);
+  const rampMs = usage.refill_minutes * MINUTE_MS;
+  if (tMs >= arrivesMs + rampMs) return base;
+  const from = capped(arrivesMs);
+  return from + ((base - from) * (tMs - arrivesMs)) / rampMs;
+}
+
 /** Liquid level, m from the lowest point, for a fill in % of capacity. */
 export function levelForFillPct(geometry: TankGeometry, fillPct: number): number {
   return levelForVolume(geometry, (tankCapacity(geometry) * fillPct) / 100);
