@@ -1,26 +1,20 @@
-import { execFile } from "node:child_process";
 import { randomUUID } from "node:crypto";
-import { promisify } from "node:util";
 import { beforeAll, describe, expect, it } from "vitest";
 import { anonymous, signedIn, type Agent } from "../support/session";
 import { createTankWithDevice } from "../support/fleet";
 import { createOtherOrganisation, sql } from "../support/db";
 import { firstLink, waitForMail } from "../support/mail-sink";
+import { runWorkerOnce } from "../support/worker";
 import { createSignedToken } from "@/lib/auth/invite-token";
 
 // Alarms end to end through the API and the worker (issue 5): setpoints and on-call lists, readings
 // pushing a tank over H, the worker raising the alarm and e-mailing the on-call list, the signed
 // acknowledge link, escalation, the people's actions with their roles, and alarm health.
 
-const run = promisify(execFile);
 // Speed of sound in dry air at 20 °C (REFERENCES.md §1): the readings carry air_temp_c 20.
 const C_20 = 343.215;
 // The test tank (tests/support/fleet.ts): sensor face 3 m above the bottom, so level = 3 − distance.
 const MOUNT_M = 3;
-
-async function runWorkerOnce() {
-  await run("npx", ["tsx", "workers/worker.ts", "--once"], { env: { ...process.env, WORKER_QUIET: "1" }, timeout: 120_000 });
-}
 
 let admin: Agent;
 let operator: Agent;

@@ -3,7 +3,8 @@ import { anonymous, signedIn, signInAgent, type Agent } from "../support/session
 import { createTankWithDevice } from "../support/fleet";
 import { createOtherOrganisation, sql } from "../support/db";
 import { EXPORT_BATCH_ROWS } from "@/lib/db/queries/exports";
-import { runWorkerOnce, sendEchoReadings } from "./calibration-readings";
+import { runWorkerOnce } from "../support/worker";
+import { sendEchoReadings } from "./calibration-readings";
 
 // Issue 6 item 8 and "Bad input": streamed CSV exports and their range rules.
 let viewer: Agent;

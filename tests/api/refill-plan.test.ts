@@ -1,7 +1,8 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { anonymous, signedIn, type Agent } from "../support/session";
 import { createTankWithDevice } from "../support/fleet";
-import { fallingLevel, runWorkerOnce, sendEchoReadings } from "./calibration-readings";
+import { runWorkerOnce } from "../support/worker";
+import { fallingLevel, sendEchoReadings } from "./calibration-readings";
 
 // Issue 6 item 9: tanks that reach their reorder level within the horizon, soonest first, with the
 // volume to deliver to reach safe fill; viewers see it and export it.

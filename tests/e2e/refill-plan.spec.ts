@@ -3,7 +3,8 @@ import { expect, test } from "@playwright/test";
 import { signedIn } from "../support/session";
 import { signInAs } from "../support/browser";
 import { createTankWithDevice } from "../support/fleet";
-import { fallingLevel, runWorkerOnce, sendEchoReadings } from "../api/calibration-readings";
+import { runWorkerOnce } from "../support/worker";
+import { fallingLevel, sendEchoReadings } from "../api/calibration-readings";
 
 // Issue 6, browser test: a viewer (a delivery partner) sees the refill plan and exports it, and is
 // offered no action.
