@@ -16,7 +16,7 @@ import { sqlRows, sqlRun } from "../db/sql";
 // The measurement columns as sent, in the order encodeMeasurements writes them. Device, channel and
 // asset ids repeat thousands of times a batch: they go once each in three dictionaries that follow
 // these columns, and the rows name them by position (1-based, as PostgreSQL subscripts count).
-const SENT_COLUMNS: [name: string, type: BinaryType][] = [
+export const SENT_COLUMNS: [name: string, type: BinaryType][] = [
   ["reading_id", "int8"],
   ["at", "timestamptz"],
   ["device_n", "int4"],

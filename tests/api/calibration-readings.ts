@@ -1,12 +1,8 @@
-import { execFile } from "node:child_process";
-import { promisify } from "node:util";
 import { anonymous } from "../support/session";
 import { speedOfSoundDry } from "@/lib/physics/speed-of-sound";
 
 // Readings for the calibration, export and refill-plan tests: echo times for chosen distances, sent
 // through the device API, then the worker run once so measurements exist.
-
-const run = promisify(execFile);
 
 /** Round-trip echo time for a distance at a temperature (REFERENCES.md §2: distance = c·t/2, c from the dry-air formula). */
 export function echoUsFor(distanceM: number, tempC = 20): number {
@@ -34,11 +30,6 @@ export async function sendEchoReadings(apiKey: string, readings: readonly SentRe
     const res = await anonymous().post("/api/v1/readings").set("Authorization", `Bearer ${apiKey}`).send({ readings: batch });
     if (res.status !== 202 || res.body.rejected.length) throw new Error(`readings: ${res.status} ${JSON.stringify(res.body)}`);
   }
-}
-
-/** `npx tsx workers/worker.ts --once` against the test database, as `npm run worker:once` does. */
-export async function runWorkerOnce(): Promise<void> {
-  await run("npx", ["tsx", "workers/worker.ts", "--once"], { env: { ...process.env, WORKER_QUIET: "1" }, timeout: 120_000 });
 }
 
 /** Hourly readings from `hoursAgo` hours ago until now, the level falling linearly from `fromLevel` to `toLevel`. */

@@ -2,7 +2,8 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { signedIn, signInAgent, type Agent } from "../support/session";
 import { createTankWithDevice } from "../support/fleet";
 import { createOtherOrganisation, sql } from "../support/db";
-import { runWorkerOnce, sendEchoReadings, type SentReading } from "./calibration-readings";
+import { runWorkerOnce } from "../support/worker";
+import { sendEchoReadings, type SentReading } from "./calibration-readings";
 
 // Issue 6 item 6: manual dips beside the sensor, a least-squares calibration previewed and applied,
 // the recompute that follows, and who may do it.

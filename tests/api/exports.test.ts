@@ -3,7 +3,9 @@ import { anonymous, signedIn, signInAgent, type Agent } from "../support/session
 import { createTankWithDevice } from "../support/fleet";
 import { createOtherOrganisation, sql } from "../support/db";
 import { EXPORT_BATCH_ROWS } from "@/lib/services/exports";
-import { runWorkerOnce, sendEchoReadings } from "./calibration-readings";
+import { runWorkerOnce } from "../support/worker";
+import { csvByName } from "../support/csv";
+import { sendEchoReadings } from "./calibration-readings";
 
 // Issue 6 item 8 and "Bad input": streamed CSV exports and their range rules.
 let viewer: Agent;
@@ -36,21 +38,16 @@ describe("measurements", () => {
     const res = await text(viewer.get(`/api/exports/measurements?asset_ids=${fleet.tank.id}&from=${from}&to=${to}`));
     expect(res.status).toBe(200);
     expect(res.headers["content-type"]).toMatch(/^text\/csv/);
-    const lines = (res.body as string).trim().split("\r\n");
-    const header = lines[0].split(",");
+    const { header, rows } = csvByName(res.body as string);
     expect(header).toEqual(expect.arrayContaining(["site", "asset", "at", "status", "distance_m", "level_m", "volume_l", "uncertainty_m"]));
-    const rows = lines.slice(1).map((l) => l.split(","));
     expect(rows).toHaveLength(N);
-    const at = header.indexOf("at");
-    const times = rows.map((r) => r[at]);
+    const times = rows.map((r) => r.at);
     expect(new Set(times).size).toBe(N);
     expect([...times].sort()).toEqual(times);
-    const level = header.indexOf("level_m");
-    const status = header.indexOf("status");
-    const ok = rows.filter((r) => r[status] === "ok");
+    const ok = rows.filter((r) => r.status === "ok");
     expect(ok.length).toBeGreaterThan(N - 20);
     // The level the readings encode, back through c·t/2 (echo times rounded to 0.1 µs: ±0.02 mm).
-    for (const r of ok.slice(0, 50)) expect(Number(r[level])).toBeCloseTo(1.25, 3);
+    for (const r of ok.slice(0, 50)) expect(Number(r.level_m)).toBeCloseTo(1.25, 3);
   });
 
   it("exports only the range asked for", async () => {
@@ -102,9 +99,15 @@ describe("alarms", () => {
     );
     const res = await text(viewer.get(`/api/exports/alarms?from=${new Date(Date.now() - 30 * 86_400_000).toISOString()}&to=${new Date().toISOString()}`));
     expect(res.status).toBe(200);
-    const lines = (res.body as string).trim().split("\r\n");
-    expect(lines[0]).toBe("at,site,asset,alarm_kind,priority,event,from_state,to_state,cause,value,setpoint,unit,by,comment,alarm_id");
+    const { header, rows } = csvByName(res.body as string);
+    expect([...header].sort()).toEqual(["alarm_id", "alarm_kind", "asset", "at", "by", "cause", "comment", "event", "from_state", "priority", "setpoint", "site", "to_state", "unit", "value"]);
+    expect(rows.filter((r) => r.alarm_id === alarm.id)).toEqual([
+      {
+        at: at.toISOString(), site: fleet.site.name, asset: fleet.tank.name, alarm_kind: "l", priority: "medium", event: "activated", from_state: "normal",
+        to_state: "unacknowledged", cause: "condition", value: "0.61", setpoint: "0.7", unit: "m", by: "", comment: 'level, low "L"', alarm_id: alarm.id,
+      },
+    ]);
     // RFC 4180 §2.6–2.7: a field with a comma or a quote is quoted, its quotes doubled.
-    expect(lines).toContain(`${at.toISOString()},${fleet.site.name},${fleet.tank.name},l,medium,activated,normal,unacknowledged,condition,0.61,0.7,m,,"level, low ""L""",${alarm.id}`);
+    expect(res.body).toContain(`"level, low ""L"""`);
   });
 });

@@ -1,11 +1,13 @@
 import { execFileSync } from "node:child_process";
 import { randomUUID } from "node:crypto";
+import fs from "node:fs";
 import path from "node:path";
 import pg from "pg";
 import { afterAll, describe, expect, it } from "vitest";
 
 // Runs every migration up on a brand-new empty database, then all the way down and up again.
-const admin = process.env.PG_ADMIN_URL ?? "postgres://postgres@127.0.0.1:54329/postgres";
+// The test stack's server (PG_ADMIN_URL), or this clone's own cluster on the port it was given (.data/pg-port).
+const admin = process.env.PG_ADMIN_URL ?? `postgres://postgres@127.0.0.1:${fs.readFileSync(path.resolve(".data/pg-port"), "utf8").trim()}/postgres`;
 const name = `halftrip_mig_${randomUUID().slice(0, 8)}`;
 
 async function adminQuery(sql: string) {

@@ -3,6 +3,7 @@ import Ajv from "ajv";
 import { beforeAll, describe, expect, it } from "vitest";
 import { anonymous, signedIn } from "../support/session";
 import { createTankWithDevice } from "../support/fleet";
+import { openApi30ToJsonSchema } from "../support/openapi";
 
 // The OpenAPI document is checked by an independent validator (@apidevtools/swagger-parser), and its
 // Reading schema (ajv) must agree with what the route accepts and rejects.
@@ -10,23 +11,6 @@ let doc: Record<string, any>; // eslint-disable-line @typescript-eslint/no-expli
 beforeAll(async () => {
   doc = (await anonymous().get("/api/v1/openapi.json").expect(200)).body;
 });
-
-// OpenAPI 3.0 writes exclusive bounds as booleans beside minimum/maximum; JSON Schema draft 7 (ajv) as numbers.
-function openApi30ToJsonSchema(node: unknown): unknown {
-  if (Array.isArray(node)) return node.map(openApi30ToJsonSchema);
-  if (!node || typeof node !== "object") return node;
-  const out: Record<string, unknown> = {};
-  const src = node as Record<string, unknown>;
-  for (const [k, v] of Object.entries(src)) {
-    if (k === "exclusiveMinimum" && typeof v === "boolean") { if (v) out.exclusiveMinimum = src.minimum; continue; }
-    if (k === "exclusiveMaximum" && typeof v === "boolean") { if (v) out.exclusiveMaximum = src.maximum; continue; }
-    if (k === "nullable") continue;
-    out[k] = openApi30ToJsonSchema(v);
-  }
-  if (src.exclusiveMinimum === true) delete out.minimum;
-  if (src.exclusiveMaximum === true) delete out.maximum;
-  return out;
-}
 
 describe("GET /api/v1/openapi.json", () => {
   it("is a valid OpenAPI 3 document", async () => {

@@ -1,20 +1,11 @@
-import { execFileSync } from "node:child_process";
-import path from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
 import { anonymous, signedIn, signInAgent, type Agent } from "../support/session";
 import { createTankWithDevice } from "../support/fleet";
 import { createOtherOrganisation } from "../support/db";
+import { runWorkerOnce } from "../support/worker";
 
 // The live screens' routes (issue 6 items 1–3, 5): shape, values through the real pipeline, the
 // device-health table's paging, sorting and filtering, roles and organisation scoping.
-
-const ROOT = path.resolve(import.meta.dirname, "../..");
-const WORKER = path.join(ROOT, "workers/worker.ts");
-
-/** Runs the measurement worker once, as `npm run worker:once` does. */
-function runWorkerOnce() {
-  execFileSync(path.join(ROOT, "node_modules/.bin/tsx"), [WORKER, "--once"], { cwd: ROOT, env: { ...process.env, WORKER_QUIET: "1" }, stdio: "pipe", timeout: 120_000 });
-}
 
 let admin: Agent;
 let operator: Agent;
@@ -41,7 +32,7 @@ beforeAll(async () => {
   const sent = await anonymous().post("/api/v1/readings").set("Authorization", `Bearer ${fleet.apiKey}`).send({ readings });
   expect(sent.status).toBe(202);
   expect(sent.body.accepted).toBe(8);
-  runWorkerOnce();
+  await runWorkerOnce();
 }, 180_000);
 
 describe("GET /api/overview", () => {

@@ -1,7 +1,9 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { anonymous, signedIn, type Agent } from "../support/session";
 import { createTankWithDevice } from "../support/fleet";
-import { fallingLevel, runWorkerOnce, sendEchoReadings } from "./calibration-readings";
+import { runWorkerOnce } from "../support/worker";
+import { csvByName } from "../support/csv";
+import { fallingLevel, sendEchoReadings } from "./calibration-readings";
 
 // Issue 6 item 9: tanks that reach their reorder level within the horizon, soonest first, with the
 // volume to deliver to reach safe fill; viewers see it and export it.
@@ -74,9 +76,9 @@ describe("GET /api/refill-plan", () => {
     expect(res.status).toBe(200);
     expect(res.headers["content-type"]).toMatch(/^text\/csv/);
     expect(res.headers["content-disposition"]).toMatch(/attachment; filename="refill-plan-14-days-/);
-    const lines = (res.body as string).trim().split("\r\n");
-    expect(lines[0]).toBe("due_at,site,tank,reason,days_to_reorder,days_to_empty,current_volume_l,fill_pct,capacity_l,safe_fill_pct,deliver_l,measured_at,asset_id");
-    const order = lines.slice(1).map((l) => l.split(",").at(-1)!).filter((id) => Object.values(tanks).some((t) => t.tank.id === id));
+    const { header, rows } = csvByName(res.body as string);
+    expect([...header].sort()).toEqual(["asset_id", "capacity_l", "current_volume_l", "days_to_empty", "days_to_reorder", "deliver_l", "due_at", "fill_pct", "measured_at", "reason", "safe_fill_pct", "site", "tank"]);
+    const order = rows.map((r) => r.asset_id).filter((id) => Object.values(tanks).some((t) => t.tank.id === id));
     expect(order).toEqual([tanks.below.tank.id, tanks.soon.tank.id, tanks.later.tank.id]);
   });
 });

@@ -1,16 +1,14 @@
-import { execFile, spawn } from "node:child_process";
-import { promisify } from "node:util";
 import { beforeAll, describe, expect, it } from "vitest";
 import { signedIn, type Agent } from "../support/session";
 import { createTankWithDevice } from "../support/fleet";
 import { sql } from "../support/db";
-import { echoFor, practicalSpeed, runWorkerOnce, sendReadings } from "./worker-support";
+import { runWorkerOnce, startWorkerOnce } from "../support/worker";
+import { echoFor, practicalSpeed, sendReadings } from "./worker-support";
 
 // Two workers started at once on one backlog: every reading gets exactly one measurement, and the
 // channel's history comes out exactly as one worker going through it in a single pass would make it
 // (a recompute), so the per-channel state handed from batch to batch and worker to worker is exact.
 
-const run = promisify(execFile);
 const READINGS = 3000;
 const C20 = practicalSpeed(20);
 
@@ -48,8 +46,7 @@ beforeAll(async () => {
 
 describe("two workers on one backlog", () => {
   it("measure each reading exactly once", async () => {
-    const env = { ...process.env, WORKER_BATCH_SIZE: "150" };
-    await Promise.all([0, 1].map(() => run("npx", ["tsx", "workers/worker.ts", "--once"], { env, timeout: 180_000 })));
+    await Promise.all([0, 1].map(() => runWorkerOnce({ WORKER_BATCH_SIZE: "150" })));
 
     const [counts] = await sql<{ measurements: string; distinct_readings: string; readings: string; queued: string }>(
       `SELECT (SELECT count(*) FROM measurements m WHERE m.device_id = $1) AS measurements,
@@ -98,7 +95,7 @@ describe("two workers on one backlog", () => {
       Array.from({ length: 2000 }, (_, k) => ({ seq: k + 1, at: new Date(start + k * 5_000).toISOString(), channel: 0, echo_us: 5831 + (k % 7), air_temp_c: 20 })),
     );
     // Small batches and a kill (no chance to clean up) as soon as it has committed some of them.
-    const child = spawn("npx", ["tsx", "workers/worker.ts", "--once"], { env: { ...process.env, WORKER_BATCH_SIZE: "20" }, detached: true, stdio: "ignore" });
+    const child = startWorkerOnce({ WORKER_BATCH_SIZE: "20" });
     const measured = async () => Number((await sql<{ n: string }>(`SELECT count(*) AS n FROM measurements WHERE device_id = $1`, [other.device.id]))[0].n);
     const deadline = Date.now() + 60_000;
     while ((await measured()) === 0 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 50));

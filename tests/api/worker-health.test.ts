@@ -1,7 +1,8 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { signedIn, type Agent } from "../support/session";
 import { sql } from "../support/db";
-import { createAsset, createDevice, createSite, echoFor, practicalSpeed, runWorkerOnce, sendReadings, type CreatedDevice } from "./worker-support";
+import { runWorkerOnce } from "../support/worker";
+import { createAsset, createDevice, createSite, echoFor, practicalSpeed, sendReadings, type CreatedDevice } from "./worker-support";
 
 // Sensor health through the device API and the worker: a bay's occupancy sessions and the drift of
 // its empty-floor distance, a stuck channel, a gap in the history (offline), two channels of one

@@ -2,7 +2,8 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { anonymous, signedIn, signInAgent, type Agent } from "../support/session";
 import { createTankWithDevice } from "../support/fleet";
 import { createOtherOrganisation, sql } from "../support/db";
-import { createAsset, createDevice, createSite, practicalSpeed, runWorkerOnce, sendReadings, type CreatedDevice } from "./worker-support";
+import { runWorkerOnce } from "../support/worker";
+import { createAsset, createDevice, createSite, practicalSpeed, sendReadings, type CreatedDevice } from "./worker-support";
 
 // Readings sent through the device API, turned into measurements by `worker --once`, read back
 // through GET /api/channels/{id}/measurements and GET /api/assets/{id}/series (issue 4).

@@ -2,7 +2,8 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { signedIn, type Agent } from "../support/session";
 import { createTankWithDevice } from "../support/fleet";
 import { sql } from "../support/db";
-import { echoFor, practicalSpeed, runWorkerOnce, sendReadings } from "./worker-support";
+import { runWorkerOnce } from "../support/worker";
+import { echoFor, practicalSpeed, sendReadings } from "./worker-support";
 
 // Recompute (issue 4): a calibration applied from manual dips, and a change of the tank's mounting,
 // rebuild the channel's measurements and rollups in the background; doing it twice gives the same rows.

@@ -1,17 +1,7 @@
-import { execFile } from "node:child_process";
-import { promisify } from "node:util";
 import { anonymous, type Agent } from "../support/session";
 
-// Shared by the worker's API tests: run the worker, send readings with a device key, provision
-// assets and devices through the management API.
-
-const run = promisify(execFile);
-
-/** One `worker --once` pass as a child process against the test stack's database. */
-export async function runWorkerOnce(env: Record<string, string> = {}): Promise<string> {
-  const { stdout } = await run("npx", ["tsx", "workers/worker.ts", "--once"], { env: { ...process.env, ...env }, timeout: 180_000 });
-  return stdout;
-}
+// Shared by the worker's API tests: send readings with a device key, provision assets and devices
+// through the management API.
 
 export async function sendReadings(apiKey: string, readings: Record<string, unknown>[]): Promise<void> {
   for (let i = 0; i < readings.length; i += 500) {

@@ -1,7 +1,8 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { signedIn, type Agent } from "../support/session";
 import { sql } from "../support/db";
-import { createAsset, createDevice, createSite, practicalSpeed, runWorkerOnce, sendReadings, type CreatedDevice } from "./worker-support";
+import { runWorkerOnce } from "../support/worker";
+import { createAsset, createDevice, createSite, practicalSpeed, sendReadings, type CreatedDevice } from "./worker-support";
 
 // When the worker recomputes because of the air temperature (PRODUCT.md "Measurement (the worker)":
 // the reading's own value, then the site's samples interpolated in time, then the site's fixed value,

@@ -2,7 +2,8 @@ import { expect, test } from "@playwright/test";
 import { signedIn } from "../support/session";
 import { signInAs } from "../support/browser";
 import { createTankWithDevice } from "../support/fleet";
-import { runWorkerOnce, sendEchoReadings, type SentReading } from "../api/calibration-readings";
+import { runWorkerOnce } from "../support/worker";
+import { sendEchoReadings, type SentReading } from "../api/calibration-readings";
 
 // Issue 6, browser test: a technician records two dips, previews and applies a calibration.
 test.use({ timezoneId: "UTC" });

@@ -1,16 +1,12 @@
-import { execFileSync } from "node:child_process";
-import path from "node:path";
 import { expect, test } from "@playwright/test";
 import { signInAs } from "../support/browser";
 import { signedIn } from "../support/session";
 import { createTankWithDevice } from "../support/fleet";
+import { runWorkerOnce } from "../support/worker";
 
 // An operator watches the fleet: the overview, then a site with its tank's sounding strip, then the
 // tank's trend with a chosen period. Data is provisioned through the management API, readings go
 // through the device API and the worker runs once, as in production.
-
-// Playwright runs from the repository root (playwright.config.ts).
-const ROOT = process.cwd();
 
 let fleet: Awaited<ReturnType<typeof createTankWithDevice>>;
 
@@ -29,7 +25,7 @@ test.beforeAll(async ({ request }) => {
   const readings = Array.from({ length: 12 }, (_, i) => ({ seq: i + 1, at: new Date(start + i * 600_000).toISOString(), channel: 0, echo_us: 5831 + i * 105, air_temp_c: 20 }));
   const sent = await request.post("/api/v1/readings", { headers: { Authorization: `Bearer ${fleet.apiKey}` }, data: { readings } });
   expect(sent.status()).toBe(202);
-  execFileSync(path.join(ROOT, "node_modules/.bin/tsx"), [path.join(ROOT, "workers/worker.ts"), "--once"], { cwd: ROOT, env: { ...process.env, WORKER_QUIET: "1" }, stdio: "pipe", timeout: 120_000 });
+  await runWorkerOnce();
 });
 
 test("an operator opens the overview, a site and a tank's trend", async ({ page }) => {

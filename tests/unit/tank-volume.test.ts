@@ -28,7 +28,7 @@ function horizontalJones(heads: HorizontalCylinderGeometry["heads"], headDepthIn
 }
 
 function verticalJones(bottom: VerticalCylinderGeometry["bottom"]): VerticalCylinderGeometry {
-  // Jones (2002) vertical example: D = 132 in, bottom depth a = 33 in; a 99 in shell makes the fluids h = D = 132 in case the full tank.
+  // Jones (2002) vertical example: D = 132 in, bottom depth a = 33 in; a 99 in shell makes the tank 132 in tall in all.
   return { shape: "vertical_cylinder", diameter_m: inches(132), height_m: inches(99), bottom, bottom_depth_m: inches(33) };
 }
 
@@ -71,7 +71,8 @@ describe("horizontal cylinder with heads — Jones (2002)", () => {
     expect(gallons(volumeAtLevel(horizontalJones("ellipsoidal", 42), inches(36)))).toBeCloseTo(2380.957, 3);
   });
 
-  it("ellipsoidal heads a = 42 in, h = 84 in: 7 103.445 gal; full 8 407.392 gal (Jones 2002 via fluids geometry.py docstring)", () => {
+  // The docstring gives h = 36 in only; these levels are computed from the same Jones (2002) formula.
+  it("ellipsoidal heads a = 42 in, h = 84 in: 7 103.445 gal; full 8 407.392 gal; h = 54 in: 4 203.696 gal (computed, Jones 2002)", () => {
     const tank = horizontalJones("ellipsoidal", 42);
     expect(gallons(volumeAtLevel(tank, inches(84)))).toBeCloseTo(7103.445, 3);
     expect(gallons(tankCapacity(tank))).toBeCloseTo(8407.392, 3);
@@ -90,7 +91,7 @@ describe("horizontal cylinder with heads — Jones (2002)", () => {
     expect(gallons(volumeAtLevel(horizontalJones("flat", 42), inches(36)))).toBeCloseTo(1805.188, 3);
   });
 
-  it("full hemispherical and default 2:1 ellipsoidal tanks add a sphere and an ellipsoid (V = 4/3·π·abc, published geometry)", () => {
+  it("full hemispherical and default 2:1 ellipsoidal tanks add a sphere and an ellipsoid (computed from V = 4/3·π·abc)", () => {
     const r = inches(54);
     const shell = Math.PI * r * r * inches(156);
     expect(tankCapacity(horizontalJones("hemispherical"))).toBeCloseTo((shell + (4 / 3) * Math.PI * r ** 3) * 1000, 6);
@@ -106,17 +107,17 @@ describe("vertical cylinder — Jones (2002)", () => {
     expect(gallons(volumeAtLevel(verticalJones("flat"), inches(24)))).toBeCloseTo(1421.8, 2);
   });
 
-  it("conical bottom a = 33 in, h = 24 in: 250.675 gal; h = 60 in: 2 251.176 gal (Jones 2002 via fluids geometry.py docstring)", () => {
+  it("conical bottom a = 33 in, h = 24 in: 250.675 gal (Jones 2002 via fluids geometry.py docstring); h = 60 in: 2 251.176 gal (computed, Jones 2002)", () => {
     expect(gallons(volumeAtLevel(verticalJones("cone"), inches(24)))).toBeCloseTo(250.675, 3);
     expect(gallons(volumeAtLevel(verticalJones("cone"), inches(60)))).toBeCloseTo(2251.176, 3);
   });
 
-  it("ellipsoidal bottom a = 33 in, h = 24 in: 783.358 gal; h = 60 in: 2 902.832 gal (Jones 2002 via fluids geometry.py docstring)", () => {
+  it("ellipsoidal bottom a = 33 in, h = 24 in: 783.358 gal (Jones 2002 via fluids geometry.py docstring); h = 60 in: 2 902.832 gal (computed, Jones 2002)", () => {
     expect(gallons(volumeAtLevel(verticalJones("ellipsoidal"), inches(24)))).toBeCloseTo(783.358, 3);
     expect(gallons(volumeAtLevel(verticalJones("ellipsoidal"), inches(60)))).toBeCloseTo(2902.832, 3);
   });
 
-  it("height counts the bottom; full at h = 132 in: cone 6 516.561, ellipsoidal 7 168.217 gal (fluids geometry.py docstring)", () => {
+  it("height counts the bottom; full at h = 132 in: cone 6 516.561, ellipsoidal 7 168.217 gal (computed, Jones 2002)", () => {
     expect(tankHeight(verticalJones("cone"))).toBeCloseTo(inches(132), 12);
     expect(gallons(tankCapacity(verticalJones("cone")))).toBeCloseTo(6516.561, 3);
     expect(gallons(tankCapacity(verticalJones("ellipsoidal")))).toBeCloseTo(7168.217, 3);
@@ -148,7 +149,7 @@ describe("strapping table", () => {
     ],
   };
 
-  it("returns the rows themselves and interpolates linearly between them", () => {
+  it("returns the rows themselves and interpolates linearly between them (computed)", () => {
     expect(gallons(volumeAtLevel(table, inches(36)))).toBeCloseTo(2115, 9);
     expect(gallons(volumeAtLevel(table, inches((20.625 + 36) / 2)))).toBeCloseTo((1000 + 2115) / 2, 9);
     expect(gallons(volumeAtLevel(table, inches(36 + (48.06 - 36) / 4)))).toBeCloseTo(2115 + (3000 - 2115) / 4, 9);

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { decodeBinaryArray } from "@/lib/worker/binary-arrays";
-import { encodeMeasurements, rollUp } from "@/lib/worker/encode";
+import { encodeMeasurements, rollUp, SENT_COLUMNS } from "@/lib/worker/encode";
 import { blankMeasurement } from "@/lib/worker/compute/convert";
 import type { Measurement } from "@/lib/worker/compute/types";
 import { bay, channel, reading, T0 } from "./pipeline-fixtures";
@@ -28,29 +28,36 @@ describe("encoding a batch's measurements", () => {
     record(D2, null, 2, { status: "invalid_config", statusDetail: "no channel 7" }),
   ];
   const columns = encodeMeasurements(batch);
+  // A column by its name; the three dictionaries follow the named columns.
+  const column = (name: string) => {
+    const i = SENT_COLUMNS.findIndex(([n]) => n === name);
+    if (i < 0) throw new Error(`no column ${name}`);
+    return columns[i];
+  };
+  const dictionary = (k: 1 | 2 | 3) => columns[SENT_COLUMNS.length + k - 1];
 
   it("keeps every field of every record in its column", () => {
-    expect(columns).toHaveLength(25);
-    expect(decodeBinaryArray(columns[0], "int8")).toEqual(batch.map((m) => m.reading.id));
-    expect(decodeBinaryArray(columns[1], "timestamptz")).toEqual(batch.map((m) => m.reading.atMicros));
-    expect(decodeBinaryArray(columns[3], "int2")).toEqual([0, 0, 1, 7]);
-    expect(decodeBinaryArray(columns[5], "text")).toEqual(["ok", "ok", "noisy", "invalid_config"]);
-    expect(decodeBinaryArray(columns[6], "text")).toEqual([null, null, 'spread "wide"', "no channel 7"]);
+    expect(columns).toHaveLength(SENT_COLUMNS.length + 3);
+    expect(decodeBinaryArray(column("reading_id"), "int8")).toEqual(batch.map((m) => m.reading.id));
+    expect(decodeBinaryArray(column("at"), "timestamptz")).toEqual(batch.map((m) => m.reading.atMicros));
+    expect(decodeBinaryArray(column("channel_index"), "int2")).toEqual([0, 0, 1, 7]);
+    expect(decodeBinaryArray(column("status"), "text")).toEqual(["ok", "ok", "noisy", "invalid_config"]);
+    expect(decodeBinaryArray(column("status_detail"), "text")).toEqual([null, null, 'spread "wide"', "no channel 7"]);
     // A value that is not a finite number is stored as NULL.
-    expect(decodeBinaryArray(columns[7], "float8")).toEqual([14_600.5, null, null, null]);
-    expect(decodeBinaryArray(columns[10], "float8")).toEqual([12, null, null, null]);
-    expect(decodeBinaryArray(columns[11], "text")).toEqual(["reading", null, null, null]);
-    expect(decodeBinaryArray(columns[15], "float8")).toEqual([2.5, 1.2, 0.8, null]);
-    expect(decodeBinaryArray(columns[20], "bool")).toEqual([false, true, null, null]);
+    expect(decodeBinaryArray(column("tof_us"), "float8")).toEqual([14_600.5, null, null, null]);
+    expect(decodeBinaryArray(column("air_temp_c"), "float8")).toEqual([12, null, null, null]);
+    expect(decodeBinaryArray(column("temp_source"), "text")).toEqual(["reading", null, null, null]);
+    expect(decodeBinaryArray(column("distance_m"), "float8")).toEqual([2.5, 1.2, 0.8, null]);
+    expect(decodeBinaryArray(column("occupied"), "bool")).toEqual([false, true, null, null]);
   });
 
   it("names devices, channels and assets by their place in the dictionaries that follow", () => {
-    const devices = decodeBinaryArray(columns[22], "uuid");
-    const channels = decodeBinaryArray(columns[23], "uuid");
-    const assets = decodeBinaryArray(columns[24], "uuid");
-    const deviceOf = decodeBinaryArray(columns[2], "int4").map((n) => devices[n! - 1]);
-    const channelOf = decodeBinaryArray(columns[4], "int4").map((n) => (n === null ? null : channels[n - 1]));
-    const assetOf = decodeBinaryArray(columns[4], "int4").map((n) => (n === null ? null : assets[n - 1]));
+    const devices = decodeBinaryArray(dictionary(1), "uuid");
+    const channels = decodeBinaryArray(dictionary(2), "uuid");
+    const assets = decodeBinaryArray(dictionary(3), "uuid");
+    const deviceOf = decodeBinaryArray(column("device_n"), "int4").map((n) => devices[n! - 1]);
+    const channelOf = decodeBinaryArray(column("channel_n"), "int4").map((n) => (n === null ? null : channels[n - 1]));
+    const assetOf = decodeBinaryArray(column("channel_n"), "int4").map((n) => (n === null ? null : assets[n - 1]));
     expect(deviceOf).toEqual([D1, D1, D1, D2]);
     expect(channelOf).toEqual([bayA.id, bayA.id, loose.id, null]);
     expect(assetOf).toEqual([bayA.asset!.id, bayA.asset!.id, null, null]);
