@@ -151,6 +151,7 @@ const commands = [
   simple("unsuppress"),
   simple("remove_from_service"),
   simple("return_to_service"),
+  simple("close_as_history"),
   // Shelving for −1 min … 8 h from the model's now (a zero or negative span must be refused).
   fc.integer({ min: -60_000, max: 8 * 3_600_000 }).map((span) => new Step((m) => ({ type: "shelve", at: new Date(m.now), until: new Date(m.now + span) }), `shelve for ${span} ms`)),
   fc.constant(new Step((m) => ({ type: "shelve_expired", at: new Date(m.now).toISOString() }), "shelve_expired now")),
