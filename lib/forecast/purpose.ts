@@ -7,6 +7,10 @@
 // A tank with an open fault flag, or whose last value is stale, needs a check before any plan: a stuck
 // sensor's level is not a reason to send a lorry. Pure: the caller passes `now`.
 //
+// Two steps, so the worker can store the first: projectTank works from the data alone (the history
+// and the latest value) and dates what it projects absolutely; planRow, at read time, applies what
+// depends on the moment (open flags, a value gone stale, a projected date now passed). planTank does both.
+//
 // The asset's two level fields mean, by purpose:
 //   supply:  reorder_pct = reorder level,          safe_fill_pct = what a delivery fills to;
 //   sump:    safe_fill_pct = pump-out level,       reorder_pct = level it is pumped down to (else empty);
@@ -45,21 +49,27 @@ export interface OpenFlag {
   since: Date;
 }
 
-export interface TankPlanInput {
+export interface TankProjectionInput {
   purpose: TankPurpose;
   capacityL: number | null;
   reorderPct: number | null;
   safeFillPct: number | null;
   /** Hourly mean volumes over the forecast window, any order. */
   series: readonly VolumeSample[];
-  /** Latest valid measurement. */
+  /** Latest valid measurement; the projection starts from it. */
+  current: VolumeSample | null;
+  /** A rise above this share of capacity is a refill (or, for a sump, a fall is a pump-out). */
+  refillShare: number;
+}
+
+export interface PlanState {
   current: VolumeSample | null;
   openFlags: readonly OpenFlag[];
   expectedIntervalS: number;
-  /** A rise above this share of capacity is a refill (or, for a sump, a fall is a pump-out). */
-  refillShare: number;
   now: Date;
 }
+
+export type TankPlanInput = TankProjectionInput & PlanState;
 
 export type CheckReason = { code: "flag"; flag: string; since: Date } | { code: "stale"; lastAt: Date; ageS: number } | { code: "no_value" };
 
@@ -79,110 +89,133 @@ export type PlanStatus =
   /** A purpose's level is missing, so nothing can be planned. */
   | "no_level_set";
 
-export interface TankPlanRow {
+/** What the data say, dated absolutely: plain data the worker can store. */
+export interface TankProjection {
   purpose: TankPurpose;
-  status: PlanStatus;
+  status: Exclude<PlanStatus, "needs_check">;
   action: "deliver" | "pump_out" | "top_up" | null;
-  /** Words for the screen when the status needs them (not ready, no level set); checks are in `checks`. */
+  /** Words for the screen when the status needs them (not ready, not moving, no level set). */
   reason: string | null;
-  checks: CheckReason[];
-  /** Strictly after now when status is "due"; null otherwise (a due-now row has no date to show). */
+  /** When the mark is reached (reorder level, pump-out level), projected from the current value. */
   dueAt: Date | null;
-  daysToDue: number | null;
-  /** Supply: when it runs empty; sump: when it overflows. Never before now. */
+  /** Supply: when it runs empty; sump: when it overflows. */
   limitAt: Date | null;
-  daysToLimit: number | null;
-  /** Litres to deliver, pump out or top up. */
+  /** Litres to deliver, pump out or top up, at the current value. */
   volumeL: number | null;
   /** Litres a day towards the mark (use for supply, inflow for a sump). */
   rateLPerDay: number | null;
   readiness: Readiness | null;
 }
 
-function blankRow(purpose: TankPurpose, status: PlanStatus, extra: Partial<TankPlanRow> = {}): TankPlanRow {
-  return { purpose, status, action: null, reason: null, checks: [], dueAt: null, daysToDue: null, limitAt: null, daysToLimit: null, volumeL: null, rateLPerDay: null, readiness: null, ...extra };
+/** The row a person reads: the projection as of now, or the checks that come first. */
+export interface TankPlanRow extends Omit<TankProjection, "status"> {
+  status: PlanStatus;
+  checks: CheckReason[];
+  /** Days from now to dueAt / limitAt; dueAt and limitAt are strictly after now or null. */
+  daysToDue: number | null;
+  daysToLimit: number | null;
+}
+
+function projection(purpose: TankPurpose, status: TankProjection["status"], extra: Partial<TankProjection> = {}): TankProjection {
+  return { purpose, status, action: null, reason: null, dueAt: null, limitAt: null, volumeL: null, rateLPerDay: null, readiness: null, ...extra };
 }
 
 /** Why a tank's level cannot be planned with: open fault flags, a stale or missing value. */
-export function checksBeforePlanning(input: Pick<TankPlanInput, "current" | "openFlags" | "expectedIntervalS" | "now">): CheckReason[] {
-  const checks: CheckReason[] = input.openFlags.filter((f) => FAULT_FLAGS.has(f.kind)).map((f) => ({ code: "flag", flag: f.kind, since: f.since }));
-  if (input.current === null) checks.push({ code: "no_value" });
+export function checksBeforePlanning(state: PlanState): CheckReason[] {
+  const checks: CheckReason[] = state.openFlags.filter((f) => FAULT_FLAGS.has(f.kind)).map((f) => ({ code: "flag", flag: f.kind, since: f.since }));
+  if (state.current === null) checks.push({ code: "no_value" });
   else {
-    const ageS = (input.now.getTime() - input.current.at.getTime()) / 1000;
-    if (ageS > STALE_AFTER_INTERVALS * input.expectedIntervalS && !input.openFlags.some((f) => f.kind === "offline")) {
-      checks.push({ code: "stale", lastAt: input.current.at, ageS });
+    const ageS = (state.now.getTime() - state.current.at.getTime()) / 1000;
+    if (ageS > STALE_AFTER_INTERVALS * state.expectedIntervalS && !state.openFlags.some((f) => f.kind === "offline")) {
+      checks.push({ code: "stale", lastAt: state.current.at, ageS });
     }
   }
   return checks;
-}
-
-interface Projection {
-  dueNow: boolean;
-  fields: Pick<TankPlanRow, "dueAt" | "daysToDue" | "limitAt" | "daysToLimit" | "rateLPerDay">;
-}
-
-/**
- * Projects a falling quantity (volume for supply, room left for a sump) to its mark and to zero, from
- * the current value's time, and states the result relative to now: a mark the projection says was
- * crossed before now is "due now", never a date in the past.
- */
-function project(series: readonly VolumeSample[], current: VolumeSample, markL: number, refillThresholdL: number, now: Date): Projection {
-  const f = forecastConsumption(series, { refillThresholdL, reorderVolumeL: markL, currentVolumeL: current.volumeL, now: current.at });
-  const nowMs = now.getTime();
-  const fromNow = (at: Date | null) => (at === null ? null : Math.max(0, (at.getTime() - nowMs) / MS_PER_DAY));
-  const future = (at: Date | null) => (at !== null && at.getTime() > nowMs ? at : null);
-  const rateLPerDay = f.slopeLPerDay === null ? null : -f.slopeLPerDay;
-  const dueNow = f.reorderAt !== null && f.reorderAt.getTime() <= nowMs;
-  return { dueNow, fields: { dueAt: future(f.reorderAt), daysToDue: fromNow(f.reorderAt), limitAt: future(f.emptyAt), daysToLimit: fromNow(f.emptyAt), rateLPerDay } };
 }
 
 function pct(capacityL: number, p: number): number {
   return (capacityL * p) / 100;
 }
 
-/** The plan row of one tank by its purpose, history and state. */
-export function planTank(input: TankPlanInput): TankPlanRow {
-  const { purpose, capacityL, current, now } = input;
-  if (purpose === "process") return blankRow(purpose, "alarms_only");
-  const checks = checksBeforePlanning(input);
-  if (checks.length || current === null) return blankRow(purpose, "needs_check", { checks });
-  if (!(capacityL !== null && capacityL > 0)) return blankRow(purpose, "no_level_set", { reason: "The tank has no capacity." });
+/**
+ * A falling quantity (volume for supply, room left for a sump) projected to its mark and to zero from
+ * the current value, once the history is ready.
+ */
+function projectFalling(
+  purpose: TankPurpose,
+  action: "deliver" | "pump_out",
+  series: readonly VolumeSample[],
+  current: VolumeSample,
+  markL: number,
+  refillThresholdL: number,
+  volumeL: number | null,
+  notMoving: string,
+): TankProjection {
+  const readiness = forecastReadiness(series, { refillThresholdL });
+  if (!readiness.ready) return projection(purpose, "not_ready", { reason: readiness.reason, readiness });
+  const f = forecastConsumption(series, { refillThresholdL, reorderVolumeL: markL, currentVolumeL: current.volumeL, now: current.at });
+  const rateLPerDay = f.slopeLPerDay === null ? null : -f.slopeLPerDay;
+  if (rateLPerDay === null || !(rateLPerDay > 0)) return projection(purpose, "not_due", { reason: notMoving, readiness, rateLPerDay });
+  return projection(purpose, "due", { action, volumeL, readiness, rateLPerDay, dueAt: f.reorderAt, limitAt: f.emptyAt });
+}
+
+/** What a tank's data say by its purpose, dated from its current value. */
+export function projectTank(input: TankProjectionInput): TankProjection {
+  const { purpose, capacityL, current } = input;
+  if (purpose === "process") return projection(purpose, "alarms_only");
+  if (current === null) return projection(purpose, "not_ready", { reason: "No measured volume yet." });
+  if (!(capacityL !== null && capacityL > 0)) return projection(purpose, "no_level_set", { reason: "The tank has no capacity." });
   const thresholdL = input.refillShare * capacityL;
 
   if (purpose === "reserve") {
-    if (input.reorderPct === null) return blankRow(purpose, "no_level_set", { reason: "Set the minimum level this reserve is kept above." });
-    const keptFullL = pct(capacityL, input.safeFillPct ?? 100);
-    if (current.volumeL < pct(capacityL, input.reorderPct)) {
-      return blankRow(purpose, "due_now", { action: "top_up", volumeL: Math.max(0, keptFullL - current.volumeL) });
-    }
-    return blankRow(purpose, "not_due");
+    if (input.reorderPct === null) return projection(purpose, "no_level_set", { reason: "Set the minimum level this reserve is kept above." });
+    if (current.volumeL >= pct(capacityL, input.reorderPct)) return projection(purpose, "not_due");
+    return projection(purpose, "due_now", { action: "top_up", volumeL: Math.max(0, pct(capacityL, input.safeFillPct ?? 100) - current.volumeL) });
   }
 
   if (purpose === "supply") {
-    if (input.reorderPct === null) return blankRow(purpose, "no_level_set", { reason: "Set a reorder level to plan deliveries." });
+    if (input.reorderPct === null) return projection(purpose, "no_level_set", { reason: "Set a reorder level to plan deliveries." });
     const reorderL = pct(capacityL, input.reorderPct);
     const deliverL = input.safeFillPct === null ? null : Math.max(0, pct(capacityL, input.safeFillPct) - current.volumeL);
-    if (current.volumeL <= reorderL) return blankRow(purpose, "due_now", { action: "deliver", volumeL: deliverL });
-    const readiness = forecastReadiness(input.series, { refillThresholdL: thresholdL });
-    if (!readiness.ready) return blankRow(purpose, "not_ready", { reason: readiness.reason, readiness });
-    const p = project(input.series, current, reorderL, thresholdL, now);
-    const rate = p.fields.rateLPerDay;
-    if (rate === null || !(rate > 0)) return blankRow(purpose, "not_due", { reason: "The level is not falling.", readiness, rateLPerDay: rate });
-    return blankRow(purpose, p.dueNow ? "due_now" : "due", { action: "deliver", volumeL: deliverL, readiness, ...p.fields });
+    if (current.volumeL <= reorderL) return projection(purpose, "due_now", { action: "deliver", volumeL: deliverL });
+    return projectFalling(purpose, "deliver", input.series, current, reorderL, thresholdL, deliverL, "The level is not falling.");
   }
 
-  // Sump: project the room left (capacity − volume), which falls as the sump fills; a pump-out is its refill.
-  if (input.safeFillPct === null) return blankRow(purpose, "no_level_set", { reason: "Set the pump-out level of this sump." });
+  // Sump: the room left (capacity − volume) falls as it fills; a pump-out is its refill.
+  if (input.safeFillPct === null) return projection(purpose, "no_level_set", { reason: "Set the pump-out level of this sump." });
   const pumpOutL = pct(capacityL, input.safeFillPct);
   const pumpedDownToL = input.reorderPct === null ? 0 : Math.min(pct(capacityL, input.reorderPct), pumpOutL);
   const volumeL = Math.max(0, current.volumeL - pumpedDownToL);
-  if (current.volumeL >= pumpOutL) return blankRow(purpose, "due_now", { action: "pump_out", volumeL });
+  if (current.volumeL >= pumpOutL) return projection(purpose, "due_now", { action: "pump_out", volumeL });
   const room = input.series.map((s) => ({ at: s.at, volumeL: capacityL - s.volumeL }));
   const roomNow = { at: current.at, volumeL: capacityL - current.volumeL };
-  const readiness = forecastReadiness(room, { refillThresholdL: thresholdL });
-  if (!readiness.ready) return blankRow(purpose, "not_ready", { reason: readiness.reason, readiness });
-  const p = project(room, roomNow, capacityL - pumpOutL, thresholdL, now);
-  const rate = p.fields.rateLPerDay;
-  if (rate === null || !(rate > 0)) return blankRow(purpose, "not_due", { reason: "The sump is not filling.", readiness, rateLPerDay: rate });
-  return blankRow(purpose, p.dueNow ? "due_now" : "due", { action: "pump_out", volumeL, readiness, ...p.fields });
+  return projectFalling(purpose, "pump_out", room, roomNow, capacityL - pumpOutL, thresholdL, volumeL, "The sump is not filling.");
+}
+
+/**
+ * The projection as of now: checks first (a fault flag or a stale value is looked at, not scheduled),
+ * then a projected date that has passed becomes "due now", never a date in the past.
+ */
+export function planRow(p: TankProjection, state: PlanState): TankPlanRow {
+  const base = { ...p, checks: [] as CheckReason[], daysToDue: null as number | null, daysToLimit: null as number | null };
+  if (p.status === "alarms_only") return base;
+  const checks = checksBeforePlanning(state);
+  if (checks.length) return { ...base, status: "needs_check", action: null, reason: null, dueAt: null, limitAt: null, volumeL: null, checks };
+  const nowMs = state.now.getTime();
+  const ahead = (at: Date | null) => (at !== null && at.getTime() > nowMs ? at : null);
+  const daysTo = (at: Date | null) => (at === null ? null : Math.max(0, (at.getTime() - nowMs) / MS_PER_DAY));
+  const passed = p.status === "due" && p.dueAt !== null && p.dueAt.getTime() <= nowMs;
+  return {
+    ...base,
+    status: passed ? "due_now" : p.status,
+    dueAt: ahead(p.dueAt),
+    daysToDue: daysTo(p.dueAt),
+    limitAt: ahead(p.limitAt),
+    daysToLimit: daysTo(p.limitAt),
+  };
+}
+
+/** The plan row of one tank by its purpose, history and state. */
+export function planTank(input: TankPlanInput): TankPlanRow {
+  return planRow(projectTank(input), input);
 }

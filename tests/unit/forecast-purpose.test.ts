@@ -2,7 +2,7 @@ import { describe, it, expect } from "vitest";
 import * as ss from "simple-statistics";
 import type { VolumeSample } from "@/lib/forecast/consumption";
 import { coefficientOfDetermination, FORECAST_READINESS, forecastReadiness } from "@/lib/forecast/readiness";
-import { planTank, STALE_AFTER_INTERVALS, tankPurposeOf, type TankPlanInput } from "@/lib/forecast/purpose";
+import { planRow, planTank, projectTank, STALE_AFTER_INTERVALS, tankPurposeOf, type TankPlanInput } from "@/lib/forecast/purpose";
 import { seededNormal } from "./seeded-normal";
 
 const HOUR = 3_600_000;
@@ -99,6 +99,19 @@ describe("plan by tank purpose", () => {
     expect(row.status).toBe("due_now");
     expect(row.dueAt).toBeNull();
     expect(row.daysToDue).toBe(0);
+  });
+
+  it("a stored projection read later counts days from the reading, and turns into due now once its date has passed", () => {
+    const input = base();
+    const stored = projectTank(input);
+    expect(stored.dueAt!.getTime()).toBeCloseTo(input.current!.at.getTime() + 22 * 24 * HOUR, -3);
+    // Ten days on, with a fresh value that stays the same: 12 days left (computed).
+    const later = new Date(input.current!.at.getTime() + 10 * 24 * HOUR);
+    const fresh = { ...input.current!, at: later };
+    expect(planRow(stored, { current: fresh, openFlags: [], expectedIntervalS: 300, now: later }).daysToDue!).toBeCloseTo(12, 6);
+    const past = new Date(input.current!.at.getTime() + 23 * 24 * HOUR);
+    const row = planRow(stored, { current: { ...fresh, at: past }, openFlags: [], expectedIntervalS: 300, now: past });
+    expect(row).toMatchObject({ status: "due_now", dueAt: null, daysToDue: 0 });
   });
 
   it("lists a tank with an open fault flag or a stale value as needing a check, with the reason", () => {
