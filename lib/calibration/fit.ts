@@ -74,6 +74,17 @@ export function rmsUnder(points: readonly CalibrationPoint[], calibration: Calib
   return rms(residualsUnder(points, calibration));
 }
 
+function range(values: number[]): number {
+  return Math.max(...values) - Math.min(...values);
+}
+
+const mm = (m: number) => `${(m * 1000).toFixed(0)} mm`;
+
+/** "The dips span 33 mm; the sensor's readings at their times lie within 6 mm of each other." */
+export function spreadSentence(dipSpreadM: number, sensorSpreadM: number): string {
+  return `The dips span ${mm(dipSpreadM)}; the sensor's readings at their times lie within ${mm(sensorSpreadM)} of each other.`;
+}
+
 function finitePoints(points: readonly CalibrationPoint[]): boolean {
   return points.every((p) => Number.isFinite(p.rawDistanceM) && Number.isFinite(p.trueDistanceM));
 }
@@ -109,18 +120,20 @@ export function fitOffsetOnly(points: readonly CalibrationPoint[], scale: number
 export function fitCalibration(points: readonly CalibrationPoint[], currentScale: number, minSpreadM = MIN_SPREAD_FOR_SCALE_M): FitResult {
   if (points.length < 2) return { ok: false, reason: "Choose at least two dips that have a sensor reading near their time." };
   if (!finitePoints(points)) return { ok: false, reason: "Every dip needs a finite level and a sensor distance at its time." };
-  const xs = points.map((p) => p.rawDistanceM);
-  const spread = Math.max(...xs) - Math.min(...xs);
+  // The scale's lever is how far apart the sensor saw the dipped levels; the dips' own spread is told
+  // beside it, since the two differ when a dip or its time is wrong.
+  const sensorSpread = range(points.map((p) => p.rawDistanceM));
+  const dipSpread = range(points.map((p) => p.trueDistanceM));
   let calibration: Calibration | null;
   let mode: FitMode;
   let note: string | null = null;
-  if (spread >= minSpreadM) {
+  if (sensorSpread >= minSpreadM) {
     calibration = fitOffsetAndScale(points);
     mode = "offset_and_scale";
   } else {
     calibration = fitOffsetOnly(points, currentScale);
     mode = "offset_only";
-    note = `The dips lie within ${(spread * 1000).toFixed(0)} mm of each other; only the offset is fitted and the scale is kept. Dip again at a level at least ${(minSpreadM * 100).toFixed(0)} cm away to fit the scale.`;
+    note = `${spreadSentence(dipSpread, sensorSpread)} Only the offset is fitted and the scale is kept. Dip again at a level at least ${(minSpreadM * 100).toFixed(0)} cm away to fit the scale.`;
   }
   if (!calibration) return { ok: false, reason: "The dips do not determine a calibration." };
   if (calibration.scale < SCALE_BOUNDS.min || calibration.scale > SCALE_BOUNDS.max) {

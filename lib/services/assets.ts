@@ -2,8 +2,9 @@ import { writeAudit, type Actor } from "./audit";
 import { Asset, Site } from "../db/models";
 import { getSequelize } from "../db/sequelize";
 import { AppError, notFound } from "../errors";
-import { tankCapacity, tankHeight } from "../geometry/tank-volume";
-import { assetConsistencyIssues, type AssetInput, type AssetPatch } from "../validations/asset";
+import { tankPurposeOf } from "../forecast/purpose";
+import { tankHeight } from "../geometry/tank-volume";
+import { assetConsistencyIssues, capacityToStore, type AssetInput, type AssetPatch } from "../validations/asset";
 
 export function serialiseAsset(a: Asset) {
   return {
@@ -12,6 +13,7 @@ export function serialiseAsset(a: Asset) {
     kind: a.kind,
     name: a.name,
     mount_height_m: a.mount_height_m ?? null,
+    purpose: a.purpose ?? null,
     capacity_l: a.capacity_l ?? null,
     safe_fill_pct: a.safe_fill_pct ?? null,
     reorder_pct: a.reorder_pct ?? null,
@@ -27,10 +29,6 @@ export function serialiseAsset(a: Asset) {
   };
 }
 export type AssetJson = ReturnType<typeof serialiseAsset>;
-
-function derivedCapacity(a: { kind: string; geometry?: AssetInput["geometry"] }): number | null {
-  return a.kind === "tank" && a.geometry ? Math.round(tankCapacity(a.geometry) * 10) / 10 : null;
-}
 
 export async function listAssets(organisationId: string, filter: { site_id?: string; kind?: string } = {}) {
   const where: Record<string, unknown> = { organisation_id: organisationId };
@@ -50,7 +48,7 @@ export async function createAsset(actor: Actor, input: AssetInput) {
   const site = await Site.findOne({ where: { id: input.site_id, organisation_id: actor.organisationId } });
   if (!site) throw new AppError("invalid", "site_id: no such site in your organisation.", { fields: { site_id: "No such site in your organisation." } });
   return getSequelize().transaction(async (transaction) => {
-    const asset = await Asset.create({ ...input, organisation_id: actor.organisationId, capacity_l: derivedCapacity(input) }, { transaction });
+    const asset = await Asset.create({ ...input, organisation_id: actor.organisationId, capacity_l: capacityToStore(input), purpose: tankPurposeOf(input.kind, input.purpose) }, { transaction });
     await writeAudit(actor, "asset.create", { type: "asset", id: asset.id }, { name: input.name, kind: input.kind }, transaction);
     return serialiseAsset(asset);
   });
@@ -60,13 +58,15 @@ export async function createAsset(actor: Actor, input: AssetInput) {
 export async function updateAsset(actor: Actor, id: string, patch: AssetPatch) {
   const asset = await findAsset(actor.organisationId, id);
   const merged = { ...serialiseAsset(asset), ...patch };
+  // A stored capacity carries over only while the strapping table it was given with stays.
+  if (!("capacity_l" in patch) && ("geometry" in patch || merged.geometry?.shape !== "strapping")) merged.capacity_l = null;
   const issues = assetConsistencyIssues(merged);
   if (issues.length) {
     throw new AppError("invalid", issues.map((i) => `${i.path}: ${i.message}`).join("; "), { fields: Object.fromEntries(issues.map((i) => [i.path, i.message])) });
   }
-  const shapeChanged = "geometry" in patch || "mount_height_m" in patch || "floor_distance_m" in patch || "occupied_below_m" in patch;
+  const shapeChanged = "geometry" in patch || "capacity_l" in patch || "mount_height_m" in patch || "floor_distance_m" in patch || "occupied_below_m" in patch;
   return getSequelize().transaction(async (transaction) => {
-    await asset.update({ ...patch, capacity_l: derivedCapacity(merged) }, { transaction });
+    await asset.update({ ...patch, capacity_l: capacityToStore(merged) }, { transaction });
     await writeAudit(actor, "asset.update", { type: "asset", id }, { ...patch }, transaction);
     return { asset: serialiseAsset(asset), shapeChanged };
   });

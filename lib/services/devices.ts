@@ -19,6 +19,7 @@ export function serialiseChannel(c: Channel) {
     face_offset_m: c.face_offset_m,
     calibration_offset_m: c.calibration_offset_m,
     calibration_scale: c.calibration_scale,
+    stated_accuracy_m: c.stated_accuracy_m ?? null,
   };
 }
 
@@ -99,7 +100,7 @@ async function replaceChannels(deviceId: string, channels: ChannelInput[], trans
   for (const old of existing) if (!keep.has(old.index)) await old.destroy({ transaction });
   for (const c of channels) {
     const current = existing.find((e) => e.index === c.index);
-    const values = { asset_id: c.asset_id ?? null, min_range_m: c.min_range_m, max_range_m: c.max_range_m, face_offset_m: c.face_offset_m };
+    const values = { asset_id: c.asset_id ?? null, min_range_m: c.min_range_m, max_range_m: c.max_range_m, face_offset_m: c.face_offset_m, stated_accuracy_m: c.stated_accuracy_m ?? null };
     if (current) await current.update(values, { transaction });
     else await Channel.create({ device_id: deviceId, index: c.index, ...values }, { transaction });
   }

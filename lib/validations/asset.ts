@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { uuidSchema } from "./common";
-import type { TankGeometry } from "../geometry/tank-volume";
+import { tankCapacity, type TankGeometry } from "../geometry/tank-volume";
+import { TANK_PURPOSES } from "../forecast/purpose";
 
 const metres = (what: string) => z.number({ message: `${what} is a number of metres.` }).positive(`${what} must be above 0 m.`).max(100, `${what} must be at most 100 m.`);
 
@@ -57,6 +58,9 @@ const assetFields = {
   kind: z.enum(["tank", "bay", "point"], { message: "Kind is tank, bay or point." }),
   name: z.string().trim().min(1, "Give the asset a name.").max(120, "Keep the name under 120 characters."),
   mount_height_m: metres("Mount height").nullable().optional(),
+  purpose: z.enum(TANK_PURPOSES, { message: `Purpose is one of ${TANK_PURPOSES.join(", ")}.` }).nullable().optional(),
+  // Given only with a strapping table, whose last row need not be the brim; other shapes derive it.
+  capacity_l: z.number({ message: "Capacity is a number of litres." }).positive("Capacity must be above 0 L.").max(1e9, "Capacity must be at most 1 000 000 000 L.").nullable().optional(),
   safe_fill_pct: pct("Safe fill").nullable().optional(),
   reorder_pct: pct("Reorder level").nullable().optional(),
   floor_distance_m: metres("Floor distance").nullable().optional(),
@@ -67,7 +71,25 @@ const assetFields = {
   bay_level: z.string().trim().max(60).nullable().optional(),
 };
 
-type AssetShape = { kind?: string; mount_height_m?: number | null; geometry?: unknown; floor_distance_m?: number | null; occupied_below_m?: number | null; safe_fill_pct?: number | null; reorder_pct?: number | null };
+type AssetShape = { kind?: string; purpose?: string | null; capacity_l?: number | null; mount_height_m?: number | null; geometry?: unknown; floor_distance_m?: number | null; occupied_below_m?: number | null; safe_fill_pct?: number | null; reorder_pct?: number | null };
+
+/**
+ * A capacity is given only with a strapping table (the other shapes derive theirs), and it is at least the
+ * table's largest volume: the table may stop below the brim, never above it.
+ */
+function capacityIssues(geometry: TankGeometry | null | undefined, capacityL: number | null | undefined): { path: string; message: string }[] {
+  if (capacityL == null || geometry == null) return [];
+  if (geometry.shape !== "strapping") return [{ path: "capacity_l", message: "Capacity follows from the shape; give it only with a strapping table." }];
+  const tableMaxL = tankCapacity(geometry);
+  return capacityL < tableMaxL ? [{ path: "capacity_l", message: `Capacity must be at least the table's largest volume, ${tableMaxL} L.` }] : [];
+}
+
+/** The capacity to store: a strapping table's stated one (else its largest volume); the shape's for the others, to 0.1 L. */
+export function capacityToStore(a: { kind: string; geometry?: TankGeometry | null; capacity_l?: number | null }): number | null {
+  if (a.kind !== "tank" || a.geometry == null) return null;
+  if (a.geometry.shape === "strapping" && a.capacity_l != null) return a.capacity_l;
+  return Math.round(tankCapacity(a.geometry) * 10) / 10;
+}
 
 /** Rules that tie fields together; applied to the merged record on PATCH too. */
 export function assetConsistencyIssues(a: AssetShape): { path: string; message: string }[] {
@@ -78,6 +100,10 @@ export function assetConsistencyIssues(a: AssetShape): { path: string; message: 
     if (a.safe_fill_pct != null && a.reorder_pct != null && a.reorder_pct >= a.safe_fill_pct) {
       issues.push({ path: "reorder_pct", message: "The reorder level must be below the safe fill." });
     }
+    issues.push(...capacityIssues(a.geometry as TankGeometry | null | undefined, a.capacity_l));
+  } else {
+    if (a.purpose != null) issues.push({ path: "purpose", message: "Only a tank has a purpose." });
+    if (a.capacity_l != null) issues.push({ path: "capacity_l", message: "Only a tank has a capacity." });
   }
   if (a.kind === "bay") {
     if (a.floor_distance_m == null) issues.push({ path: "floor_distance_m", message: "A bay needs the distance from the sensor to the empty floor." });

@@ -11,6 +11,13 @@ export const channelSchema = z
     min_range_m: z.number().min(0, "Minimum range is 0 m or more.").max(10).default(0.02),
     max_range_m: z.number().positive("Maximum range must be above 0 m.").max(50).default(4),
     face_offset_m: z.number().min(-5).max(5).default(0),
+    // Half-width of the transducer's stated accuracy; null or absent: the trade default of the uncertainty budget.
+    stated_accuracy_m: z
+      .number({ message: "Stated accuracy is a number of metres." })
+      .positive("Stated accuracy must be above 0 m.")
+      .max(1, "Stated accuracy must be at most 1 m.")
+      .nullable()
+      .optional(),
   })
   .strict()
   .refine((c) => c.max_range_m > c.min_range_m, { message: "Maximum range must exceed minimum range.", path: ["max_range_m"] });

@@ -88,6 +88,8 @@ interface ChannelDbRow {
   face_offset_m: number;
   calibration_offset_m: number;
   calibration_scale: number;
+  stated_accuracy_m: number | null;
+  calibration_rms_m: number | null;
   device_id: string;
   site_id: string;
   profile: SignalProfile;
@@ -111,7 +113,8 @@ interface ChannelDbRow {
 }
 
 const CHANNEL_SELECT = `
-  SELECT c.id AS channel_id, c.index, c.min_range_m, c.max_range_m, c.face_offset_m, c.calibration_offset_m, c.calibration_scale,
+  SELECT c.id AS channel_id, c.index, c.min_range_m, c.max_range_m, c.face_offset_m, c.calibration_offset_m, c.calibration_scale, c.stated_accuracy_m,
+         (SELECT cc.rms_after_m FROM calibration_changes cc WHERE cc.channel_id = c.id ORDER BY cc.at DESC LIMIT 1) AS calibration_rms_m,
          d.id AS device_id, d.site_id, d.profile, d.clock_hz, d.prescaler, d.timer_bits, d.us_per_mm, d.zero_m, d.span_m, d.expected_interval_s,
          s.air_temp_c AS site_air_temp_c, s.humidity_pct,
          a.id AS asset_id, a.kind, a.mount_height_m, a.capacity_l, a.geometry, a.floor_distance_m, a.occupied_below_m, a.reorder_pct
@@ -129,6 +132,8 @@ function toChannelConfig(r: ChannelDbRow): ChannelConfig {
     faceOffsetM: r.face_offset_m,
     calibrationOffsetM: r.calibration_offset_m,
     calibrationScale: r.calibration_scale,
+    statedAccuracyM: r.stated_accuracy_m,
+    calibrationRmsM: r.calibration_rms_m,
     device: {
       id: r.device_id,
       siteId: r.site_id,

@@ -99,8 +99,16 @@ describe("choosing the fit", () => {
     // Least squares with the slope held: offset = mean(y − s·x) (simple-statistics mean).
     expect(result.fit.offsetM).toBeCloseTo(ss.mean(points.map((p) => p.trueDistanceM - 1.01 * p.rawDistanceM)), 12);
     expect(ss.sum(result.fit.residualsM)).toBeCloseTo(0, 12);
-    expect(result.fit.note).toMatch(/only the offset/);
+    expect(result.fit.note).toMatch(/Only the offset/);
     expect(fitOffsetOnly(points, 0)).toBeNull();
+  });
+
+  it("tells the dips' spread and the sensor's spread apart (the dips 33 mm apart, the sensor 6 mm)", () => {
+    // Raw distances 1.500 and 1.506 m; dipped distances 1.520 and 1.553 m: ranges 6 and 33 mm (computed).
+    const result = fitCalibration(pts([[1.5, 1.52], [1.506, 1.553]]), 1);
+    expect(result.ok).toBe(true);
+    if (!result.ok) return;
+    expect(result.fit.note).toContain("The dips span 33 mm; the sensor's readings at their times lie within 6 mm of each other.");
   });
 
   it("refuses one dip and an implausible scale", () => {

@@ -1,6 +1,7 @@
 import { describe, it, expect } from "vitest";
 import { buildTemperatureSeries, interpolateTemperature, resolveAirTemperature } from "@/lib/worker/compute/air-temperature";
 import { PIPELINE_SETTINGS } from "@/lib/worker/compute/settings";
+import { AIR_TEMPERATURE_DRIFT_K_PER_H } from "@/lib/uncertainty/air-temperature";
 
 const MIN = 60_000;
 const series = buildTemperatureSeries([
@@ -35,7 +36,12 @@ describe("air temperature precedence (PRODUCT.md)", () => {
   const u = PIPELINE_SETTINGS.tempUncertaintyK;
   it("reading, then samples, then the site's fixed value, then 20 °C, each with its uncertainty", () => {
     expect(resolveAirTemperature({ readingTempC: 7, atMs: 15 * MIN, siteSeries: series, siteFixedC: 3 })).toMatchObject({ tempC: 7, source: "reading", uncertaintyK: u.reading });
-    expect(resolveAirTemperature({ readingTempC: null, atMs: 15 * MIN, siteSeries: series, siteFixedC: 3 })).toMatchObject({ tempC: 12, source: "site_samples", uncertaintyK: u.site_samples });
+    // Between samples of 10 and 14 °C, 15 min from each: the base, half the 4 K spread and 15 min of
+    // drift as rectangular half-widths (GUM §4.3.7), in quadrature (computed).
+    const sampled = Math.sqrt(u.site_samples ** 2 + (2 / Math.sqrt(3)) ** 2 + ((AIR_TEMPERATURE_DRIFT_K_PER_H * 0.25) / Math.sqrt(3)) ** 2);
+    expect(resolveAirTemperature({ readingTempC: null, atMs: 15 * MIN, siteSeries: series, siteFixedC: 3 })).toMatchObject({ tempC: 12, source: "site_samples" });
+    expect(resolveAirTemperature({ readingTempC: null, atMs: 15 * MIN, siteSeries: series, siteFixedC: 3 }).uncertaintyK).toBeCloseTo(sampled, 12);
+    expect(resolveAirTemperature({ readingTempC: null, atMs: 30 * MIN, siteSeries: series, siteFixedC: 3 }).uncertaintyK).toBe(u.site_samples);
     expect(resolveAirTemperature({ readingTempC: null, atMs: 300 * MIN, siteSeries: series, siteFixedC: 3 })).toMatchObject({ tempC: 3, source: "site_fixed", uncertaintyK: u.site_fixed });
     expect(resolveAirTemperature({ readingTempC: null, atMs: 0, siteSeries: null, siteFixedC: null })).toMatchObject({ tempC: 20, source: "default", uncertaintyK: u.default });
   });

@@ -54,7 +54,9 @@ describe("convert: timer captures", () => {
     const m = convert({ ticks: 1458, overflows: 0, airTempC: 20 }, capture(64));
     const tick = 0.000686 / Math.sqrt(12);
     const temperature = ((m.rawDistanceM as number) * PIPELINE_SETTINGS.tempUncertaintyK.reading) / (2 * 293.15);
-    expect(Math.abs((m.uncertaintyM as number) - Math.hypot(tick, temperature))).toBeLessThan(0.000002);
+    // The transducer's default ±3 mm (from memory, REFERENCES.md §7), rectangular: 3/√3 mm (GUM §4.3.7).
+    const transducer = 0.003 / Math.sqrt(3);
+    expect(Math.abs((m.uncertaintyM as number) - Math.hypot(tick, temperature, transducer))).toBeLessThan(0.000002);
   });
 
   it("says invalid_value for a tick count the timer cannot hold, invalid_config for a timer it does not know", () => {

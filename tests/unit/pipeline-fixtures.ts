@@ -30,6 +30,8 @@ export function channel(overrides: Partial<Omit<ChannelConfig, "device">> & { de
     faceOffsetM: 0,
     calibrationOffsetM: 0,
     calibrationScale: 1,
+    statedAccuracyM: null,
+    calibrationRmsM: null,
     site: { id: "site-1", airTempC: null, humidityPct: null },
     asset: null,
     ...rest,

@@ -1,6 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
 import type { TankGeometry } from "../../geometry/tank-volume";
 import type { SignalProfile } from "../../validations/device";
+import type { TankPurpose } from "../../forecast/purpose";
 
 export class Site extends Model<InferAttributes<Site>, InferCreationAttributes<Site>> {
   declare id: CreationOptional<string>;
@@ -35,6 +36,7 @@ export class Asset extends Model<InferAttributes<Asset>, InferCreationAttributes
   declare bay_row: CreationOptional<number | null>;
   declare bay_col: CreationOptional<number | null>;
   declare bay_level: CreationOptional<string | null>;
+  declare purpose: CreationOptional<TankPurpose | null>;
   declare created_at: CreationOptional<Date>;
   declare updated_at: CreationOptional<Date>;
 }
@@ -72,6 +74,7 @@ export class Channel extends Model<InferAttributes<Channel>, InferCreationAttrib
   declare face_offset_m: CreationOptional<number>;
   declare calibration_offset_m: CreationOptional<number>;
   declare calibration_scale: CreationOptional<number>;
+  declare stated_accuracy_m: CreationOptional<number | null>;
 }
 
 export class DeviceKey extends Model<InferAttributes<DeviceKey>, InferCreationAttributes<DeviceKey>> {
@@ -122,6 +125,7 @@ export function initFleetModels(sequelize: Sequelize) {
       bay_row: { type: DataTypes.INTEGER, allowNull: true },
       bay_col: { type: DataTypes.INTEGER, allowNull: true },
       bay_level: { type: DataTypes.TEXT, allowNull: true },
+      purpose: { type: DataTypes.ENUM("supply", "process", "sump", "reserve"), allowNull: true },
       created_at: DataTypes.DATE,
       updated_at: DataTypes.DATE,
     },
@@ -163,6 +167,7 @@ export function initFleetModels(sequelize: Sequelize) {
       face_offset_m: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 0 },
       calibration_offset_m: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 0 },
       calibration_scale: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 1 },
+      stated_accuracy_m: num(),
     },
     { sequelize, tableName: "channels" },
   );

@@ -1,6 +1,7 @@
 // Air temperature at a reading's time, by the precedence of PRODUCT.md: the reading's own value; the
 // site's temperature samples interpolated in time; the site's fixed value; 20 °C.
 
+import { airTemperatureUncertaintyK } from "../../uncertainty/air-temperature";
 import { PIPELINE_SETTINGS } from "./settings";
 import type { TempSource } from "./types";
 
@@ -42,25 +43,42 @@ const DEFAULT_LIMITS: InterpolationLimits = {
   nearestMaxMs: PIPELINE_SETTINGS.tempNearestMaxS * 1000,
 };
 
+export interface SiteTemperature {
+  tempC: number;
+  /** |difference| of the two samples interpolated between; 0 when one sample was used. */
+  spreadK: number;
+  /** Time from t to the nearest sample used, ms. */
+  ageMs: number;
+}
+
 /**
  * Temperature at t by linear interpolation between the samples either side, when they are close
- * enough together; otherwise the nearest sample if it is close enough to t; otherwise null.
+ * enough together; otherwise the nearest sample if it is close enough to t; otherwise null. Says how
+ * far apart the samples were and how far t lay from them, for the temperature's uncertainty.
  */
-export function interpolateTemperature(series: TemperatureSeries, tMs: number, limits: InterpolationLimits = DEFAULT_LIMITS): number | null {
+export function siteTemperatureAt(series: TemperatureSeries, tMs: number, limits: InterpolationLimits = DEFAULT_LIMITS): SiteTemperature | null {
   const { times, temps } = series;
   if (times.length === 0) return null;
   const i = lowerBound(times, tMs);
-  if (i < times.length && times[i] === tMs) return temps[i];
+  if (i < times.length && times[i] === tMs) return { tempC: temps[i], spreadK: 0, ageMs: 0 };
   const before = i - 1;
   const after = i;
   if (before >= 0 && after < times.length && times[after] - times[before] <= limits.maxGapMs) {
     const w = (tMs - times[before]) / (times[after] - times[before]);
-    return temps[before] + w * (temps[after] - temps[before]);
+    return {
+      tempC: temps[before] + w * (temps[after] - temps[before]),
+      spreadK: Math.abs(temps[after] - temps[before]),
+      ageMs: Math.min(tMs - times[before], times[after] - tMs),
+    };
   }
   const candidates = [before, after].filter((j) => j >= 0 && j < times.length && Math.abs(times[j] - tMs) <= limits.nearestMaxMs);
   if (candidates.length === 0) return null;
   const nearest = candidates.reduce((a, b) => (Math.abs(times[a] - tMs) <= Math.abs(times[b] - tMs) ? a : b));
-  return temps[nearest];
+  return { tempC: temps[nearest], spreadK: 0, ageMs: Math.abs(times[nearest] - tMs) };
+}
+
+export function interpolateTemperature(series: TemperatureSeries, tMs: number, limits: InterpolationLimits = DEFAULT_LIMITS): number | null {
+  return siteTemperatureAt(series, tMs, limits)?.tempC ?? null;
 }
 
 export interface AirTemperature {
@@ -90,8 +108,11 @@ export function resolveAirTemperature({ readingTempC, atMs, siteSeries, siteFixe
     if (plausible(readingTempC)) return { tempC: readingTempC, source: "reading", uncertaintyK: u.reading, note };
     note = `reading's air_temp_c ${readingTempC} °C is implausible and was ignored`;
   }
-  const interpolated = siteSeries ? interpolateTemperature(siteSeries, atMs) : null;
-  if (interpolated !== null) return { tempC: interpolated, source: "site_samples", uncertaintyK: u.site_samples, note };
+  const sampled = siteSeries ? siteTemperatureAt(siteSeries, atMs) : null;
+  if (sampled !== null) {
+    const uncertaintyK = airTemperatureUncertaintyK({ source: "site_samples", spreadK: sampled.spreadK, ageS: sampled.ageMs / 1000 });
+    return { tempC: sampled.tempC, source: "site_samples", uncertaintyK, note };
+  }
   if (siteFixedC !== null && Number.isFinite(siteFixedC)) return { tempC: siteFixedC, source: "site_fixed", uncertaintyK: u.site_fixed, note };
   return { tempC: PIPELINE_SETTINGS.defaultTempC, source: "default", uncertaintyK: u.default, note };
 }

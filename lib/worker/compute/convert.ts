@@ -18,10 +18,10 @@ import {
   type TofErrorReason,
   type TofResult,
 } from "../../physics/time-of-flight";
+import { distanceStandardUncertainty } from "../../uncertainty/budget";
 import { resolveAirTemperature, type TemperatureSeries } from "./air-temperature";
 import { PIPELINE_SETTINGS } from "./settings";
 import type { ChannelConfig, Measurement, MeasurementStatus, ReadingRow } from "./types";
-import { burstUncertainty, combineInQuadrature, quantisationUncertainty, temperatureUncertainty } from "./uncertainty";
 
 export interface ConvertInput {
   reading: ReadingRow;
@@ -150,13 +150,18 @@ function convertTimed(m: Measurement, reading: ReadingRow, channel: ChannelConfi
   if (!applyChannelCorrections(m, channel, raw.value)) return m;
 
   const metresPerUs = (sound.speedMs * 1e-6) / 2;
-  m.uncertaintyM =
-    channel.calibrationScale *
-    combineInQuadrature([
-      tickUs !== null ? quantisationUncertainty(tickUs * metresPerUs) : 0,
-      temperatureUncertainty(raw.value, temp.tempC, temp.uncertaintyK),
-      spreadUs !== null && burstN !== null ? burstUncertainty(spreadUs, burstN, sound.speedMs) : 0,
-    ]);
+  m.uncertaintyM = distanceStandardUncertainty({
+    rawDistanceM: raw.value,
+    speedMs: sound.speedMs,
+    tempC: temp.tempC,
+    tempUncertaintyK: temp.uncertaintyK,
+    tickUs,
+    burstSpreadUs: spreadUs,
+    burstN,
+    statedAccuracyM: channel.statedAccuracyM,
+    calibrationRmsM: channel.calibrationRmsM,
+    calibrationScale: channel.calibrationScale,
+  });
   if (!checkRange(m, channel)) return m;
   if (spreadUs !== null && burstN !== null && burstN >= 3 && spreadUs * metresPerUs > PIPELINE_SETTINGS.noisyBurstSpreadM) {
     return fail(m, "noisy", `burst spread ${(spreadUs * metresPerUs * 1000).toFixed(1)} mm (MAD of ${burstN} pings)`);

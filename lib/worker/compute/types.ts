@@ -81,6 +81,10 @@ export interface ChannelConfig {
   faceOffsetM: number;
   calibrationOffsetM: number;
   calibrationScale: number;
+  /** Half-width of the transducer's stated accuracy, metres; null: the trade default (lib/uncertainty/budget). */
+  statedAccuracyM: number | null;
+  /** RMS residual of the calibration fit from dips now in force; null when never calibrated from dips. */
+  calibrationRmsM: number | null;
   device: DeviceConfig;
   site: SiteConfig;
   asset: AssetConfig | null;
