@@ -1,7 +1,9 @@
 import pg from "pg";
+import { PG_PORT } from "../lib/postgres.mjs";
 
-// Database helpers shared by the TypeScript benchmarks: each creates and drops a database of its own.
-export const adminUrl = process.env.PG_ADMIN_URL ?? `postgres://postgres@127.0.0.1:${process.env.PG_PORT ?? 54329}/postgres`;
+// Database helpers shared by the TypeScript benchmarks: each creates and drops a database of its own,
+// on this clone's cluster (its port is in .data/pg-port) unless PG_ADMIN_URL names another server.
+export const adminUrl = process.env.PG_ADMIN_URL ?? `postgres://postgres@127.0.0.1:${PG_PORT}/postgres`;
 
 // The project's own cluster (installed and started as `npm test` does) unless PG_ADMIN_URL names another server.
 export async function ensureBenchPostgres(): Promise<void> {

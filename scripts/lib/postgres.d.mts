@@ -1,2 +1,3 @@
 // Types for the TypeScript benchmarks that start the project's own cluster.
 export function startPostgres(): string;
+export const PG_PORT: number;

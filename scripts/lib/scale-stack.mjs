@@ -128,7 +128,7 @@ export async function startScaleStack({ webInstances = 2, seedDemo = true, webEn
 
   try {
     const databaseUrl = ensureDatabase(dbName);
-    const env = { ...process.env, DATABASE_URL: databaseUrl, NEXT_TELEMETRY_DISABLED: "1" };
+    const env = { ...process.env, DATABASE_URL: databaseUrl, NEXT_TELEMETRY_DISABLED: "1", DEMO_KEYS_FILE: path.join(workDir, "demo-device-keys.json") };
     runOrDie(bin("tsx"), ["db/migrate.ts", "up"], { env });
     if (seedDemo) runOrDie(bin("tsx"), ["db/seed.ts"], { env });
     replica = await startReplica(pgBin, tag);
