@@ -1,21 +1,22 @@
 // npm run ops:restore-drill — backs up the local cluster with pg_basebackup (tar format, WAL streamed
 // into the backup), restores it into a new cluster on a free port as docs/operations.md describes,
 // and compares the row count of every table and the latest measurement of every channel between the
-// two. The last line says PASS or FAIL. Compared: the `halftrip` database (DRILL_DATABASE names
-// another); if it does not exist yet it is created, migrated, seeded and measured first, as
-// `npm start` would. The source should be idle while the drill runs (a write after the backup's end
-// shows as a difference). Everything the drill made is removed at the end.
+// two. The last line says PASS or FAIL. Compared: the `halftrip` database of `npm start`
+// (DRILL_DATABASE names another); where it does not exist, a database of the drill's own, migrated,
+// seeded with the demo scenario plus a day of invented readings on its echo channels, and measured by
+// the worker. The source should be idle while the drill runs (a write after the backup's end shows as
+// a difference). Everything the drill made is removed at the end, its own database too.
 import { execFileSync, spawnSync } from "node:child_process";
 import { randomBytes } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
-import { ensureDatabase, PG_PORT, psql, startPostgres } from "./lib/postgres.mjs";
+import { dropDatabase, ensureDatabase, PG_PORT, psql, startPostgres } from "./lib/postgres.mjs";
 import { freePort } from "./lib/processes.mjs";
 import { psqlAt } from "./lib/scale-stack.mjs";
 import { log } from "./lib/system.mjs";
 
 const root = path.resolve(import.meta.dirname, "..");
-const database = process.env.DRILL_DATABASE ?? "halftrip";
+const requested = process.env.DRILL_DATABASE ?? "halftrip";
 const bin = (name) => path.join(root, "node_modules", ".bin", name);
 
 function runAsPostgres(pgBin, args) {
@@ -42,6 +43,8 @@ function snapshot(query) {
 
 const pgBin = startPostgres();
 const tag = randomBytes(4).toString("hex");
+const ownDatabase = !psql(`SELECT 1 FROM pg_database WHERE datname = '${requested.replace(/'/g, "")}'`);
+const database = ownDatabase ? `halftrip_drill_${tag}` : requested;
 const work = path.join(root, ".data", `restore-drill-${tag}`);
 const backupDir = path.join(work, "backup");
 const restoredDir = path.join(work, "restored");
@@ -50,18 +53,29 @@ let passed = false;
 process.on("exit", () => {
   if (restoredStarted) runAsPostgres(path.join(pgBin, "pg_ctl"), ["-D", restoredDir, "-m", "immediate", "-w", "stop"]);
   fs.rmSync(work, { recursive: true, force: true });
+  if (ownDatabase) try { dropDatabase(database); } catch { /* the server may be gone */ }
 });
 setTimeout(() => { log("restore drill ran past 15 minutes: stopping"); process.exit(1); }, 15 * 60_000).unref();
 
 try {
-  if (!psql(`SELECT 1 FROM pg_database WHERE datname = '${database.replace(/'/g, "")}'`)) {
-    log(`no ${database} database yet: creating, migrating, seeding and measuring it as npm start would`);
+  fs.mkdirSync(work, { recursive: true });
+  if (ownDatabase) {
+    log(`no ${requested} database: the drill makes ${database}, with the demo scenario and a day of readings`);
     const env = { ...process.env, DATABASE_URL: ensureDatabase(database) };
     execFileSync(bin("tsx"), ["db/migrate.ts", "up"], { cwd: root, env, stdio: "inherit" });
-    execFileSync(bin("tsx"), ["db/seed.ts"], { cwd: root, env: { ...env, DEMO_KEYS_FILE: path.join(root, ".data", "demo-device-keys.json") }, stdio: "inherit" });
-    execFileSync(bin("tsx"), ["workers/worker.ts", "--once"], { cwd: root, env: { ...env, WORKER_QUIET: "1" }, stdio: "inherit" });
+    execFileSync(bin("tsx"), ["db/seed.ts"], { cwd: root, env: { ...env, DEMO_KEYS_FILE: path.join(work, "demo-device-keys.json") }, stdio: "inherit" });
+    // One reading every 10 minutes for a day on every echo channel, queued as the ingest queues them.
+    psql(
+      `WITH r AS (
+         INSERT INTO readings (device_id, channel, seq, at, echo_us)
+         SELECT c.device_id, c.index, g, now() - g * interval '10 minutes', 5000 + 20 * g + 100 * c.index
+         FROM channels c JOIN devices d ON d.id = c.device_id AND d.profile = 'echo', generate_series(1, 144) g
+         RETURNING id, at, device_id, channel, echo_us)
+       INSERT INTO reading_queue (reading_id, at, device_id, channel, echo_us) SELECT id, at, device_id, channel, echo_us FROM r`,
+      database,
+    );
+    execFileSync(bin("tsx"), ["workers/worker.ts", "--once"], { cwd: root, env: { ...env, WORKER_QUIET: "1", AUTH_SECRET: randomBytes(16).toString("hex") }, stdio: "inherit" });
   }
-  fs.mkdirSync(work, { recursive: true });
   if (process.getuid?.() === 0) spawnSync("chown", ["-R", "postgres:postgres", work]);
   fs.chmodSync(work, 0o700);
 
