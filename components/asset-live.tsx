@@ -35,12 +35,14 @@ interface MeasurementItem {
   uncertainty_m: number | null;
 }
 
-interface RollupItem {
-  at: string;
-  distance_m: number | null;
-  level_m: number | null;
-  air_temp_c: number | null;
-  uncertainty_m: number | null;
+// The series route's column-wise answer, with only the figures the trend draws.
+const ROLLUP_FIELDS = "distance_m,level_m,air_temp_c,uncertainty_m";
+interface RollupColumns {
+  at: number[];
+  distance_m: (number | null)[];
+  level_m: (number | null)[];
+  air_temp_c: (number | null)[];
+  uncertainty_m: (number | null)[];
 }
 
 const query = (w: { fromMs: number; toMs: number }) => `from=${encodeURIComponent(new Date(w.fromMs).toISOString())}&to=${encodeURIComponent(new Date(w.toMs).toISOString())}`;
@@ -56,8 +58,8 @@ async function fetchSeries(assetId: string, channelId: string, period: Period, c
       .map((m) => ({ atMs: Date.parse(m.at), distanceM: m.distance_m, levelM: m.level_m, airTempC: m.air_temp_c, speedMs: m.speed_of_sound_ms, uncertaintyM: m.uncertainty_m, compensated: compensated && m.tof_us != null }));
     return { points, ...w, source: "each measurement" };
   }
-  const body = await fetchJson<{ items: RollupItem[] }>(`/api/assets/${assetId}/series?${query(w)}&bucket=${source.bucket}`);
-  const points = body.items.map((r) => ({ atMs: Date.parse(r.at), distanceM: r.distance_m, levelM: r.level_m, airTempC: r.air_temp_c, speedMs: null, uncertaintyM: r.uncertainty_m, compensated }));
+  const { columns: c } = await fetchJson<{ columns: RollupColumns }>(`/api/assets/${assetId}/series?${query(w)}&bucket=${source.bucket}&fields=${ROLLUP_FIELDS}`);
+  const points = c.at.map((atMs, i) => ({ atMs, distanceM: c.distance_m[i], levelM: c.level_m[i], airTempC: c.air_temp_c[i], speedMs: null, uncertaintyM: c.uncertainty_m[i], compensated }));
   return { points, ...w, source: source.bucket === "5m" ? "5-minute means" : "hourly means" };
 }
 

@@ -1,11 +1,12 @@
 // One entry point for `npm start`, `npm run dev` and `npm test`: installs what is missing, starts
 // PostgreSQL and the mail sink, builds when sources changed, migrates, seeds and runs the product.
 // Plain Node with no dependencies, because it runs before `npm ci`.
-import { createHash, randomBytes, randomUUID } from "node:crypto";
+import { randomBytes, randomUUID } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
 import { dropDatabase, ensureDatabase, PG_PORT, startPostgres, stopPostgres, psql } from "./lib/postgres.mjs";
 import { ensureChromium, log } from "./lib/system.mjs";
+import { buildIfChanged } from "./lib/next-build.mjs";
 import { freePort, run, runOrDie, startService, stopServices, waitForUrl } from "./lib/processes.mjs";
 
 const root = path.resolve(import.meta.dirname, "..");
@@ -28,32 +29,6 @@ function authSecret() {
   const file = path.join(dataDir, "auth-secret");
   if (!fs.existsSync(file)) fs.writeFileSync(file, randomBytes(32).toString("base64url"), { mode: 0o600 });
   return fs.readFileSync(file, "utf8").trim();
-}
-
-const BUILD_INPUTS = ["app", "components", "lib", "public", "fonts", "proxy.ts", "next.config.mjs", "tailwind.config.ts", "postcss.config.mjs", "tsconfig.json", "package-lock.json"];
-
-function sourceHash() {
-  const hash = createHash("sha256");
-  const walk = (p) => {
-    const st = fs.statSync(p, { throwIfNoEntry: false });
-    if (!st) return;
-    if (st.isDirectory()) for (const e of fs.readdirSync(p).sort()) walk(path.join(p, e));
-    else hash.update(p).update(fs.readFileSync(p));
-  };
-  for (const input of BUILD_INPUTS) walk(path.join(root, input));
-  return hash.digest("hex");
-}
-
-function buildIfChanged(env) {
-  const stamp = path.join(root, ".next", "halftrip-source-hash");
-  const current = sourceHash();
-  if (fs.existsSync(stamp) && fs.readFileSync(stamp, "utf8") === current && fs.existsSync(path.join(root, ".next", "BUILD_ID"))) {
-    log("build is up to date");
-    return;
-  }
-  log("building (sources changed)");
-  runOrDie(bin("next"), ["build"], { env: { ...env, NEXT_TELEMETRY_DISABLED: "1" } });
-  fs.writeFileSync(stamp, current);
 }
 
 function migrateAndSeed(env) {

@@ -10,6 +10,7 @@ import type { BatchHook } from "../lib/worker/batch";
 import { runCycle, type CycleHook, type CycleResult } from "../lib/worker/cycle";
 import { ensurePartitions } from "../lib/worker/maintenance";
 import { alarmBatchHook, alarmCycleHook, notifyCycleHook } from "../lib/worker/hooks";
+import { applyRetention } from "../lib/services/retention";
 
 // Alarm evaluation and notification plug in here: batch hooks run inside each batch's transaction,
 // cycle hooks once per cycle after the queue is drained.
@@ -58,6 +59,7 @@ async function ensurePartitionsDaily() {
   lastPartitionCheck = Date.now();
   try {
     await ensurePartitions();
+    await applyRetention();
   } catch (err) {
     // A default partition holding rows of the new month blocks creating it; the data stays readable.
     console.error("[worker] could not create partitions:", err instanceof Error ? err.message : err);

@@ -10,6 +10,7 @@ import {
   SERIES_MAX_DAYS,
   type HealthQuery,
   type MeasurementsQuery,
+  type SeriesField,
   type SeriesQuery,
 } from "../validations/measurement";
 import { findAsset } from "../services/assets";
@@ -138,34 +139,43 @@ export async function assetSeries(organisationId: string, assetId: string, query
      GROUP BY bucket_start ORDER BY bucket_start`,
     [assetId, bucketS, from, to],
   );
-  return {
-    asset_id: assetId,
-    bucket: query.bucket,
-    from,
-    to,
-    items: rows.map((r) => ({
-      at: r.bucket_start,
-      n: r.n,
-      n_all: r.n_all,
-      distance_m: r.distance_mean,
-      distance_min_m: r.distance_min,
-      distance_max_m: r.distance_max,
-      level_m: r.level_mean,
-      level_min_m: r.level_min,
-      level_max_m: r.level_max,
-      volume_l: r.volume_mean,
-      volume_min_l: r.volume_min,
-      volume_max_l: r.volume_max,
-      fill_pct: r.fill_mean,
-      fill_min_pct: r.fill_min,
-      fill_max_pct: r.fill_max,
-      air_temp_c: r.air_temp_mean,
-      air_temp_min_c: r.air_temp_min,
-      air_temp_max_c: r.air_temp_max,
-      uncertainty_m: r.uncertainty_mean,
-      occupied_fraction: r.occupied_fraction,
-    })),
-  };
+  const items = rows.map((r) => ({
+    at: r.bucket_start,
+    n: r.n,
+    n_all: r.n_all,
+    distance_m: r.distance_mean,
+    distance_min_m: r.distance_min,
+    distance_max_m: r.distance_max,
+    level_m: r.level_mean,
+    level_min_m: r.level_min,
+    level_max_m: r.level_max,
+    volume_l: r.volume_mean,
+    volume_min_l: r.volume_min,
+    volume_max_l: r.volume_max,
+    fill_pct: r.fill_mean,
+    fill_min_pct: r.fill_min,
+    fill_max_pct: r.fill_max,
+    air_temp_c: r.air_temp_mean,
+    air_temp_min_c: r.air_temp_min,
+    air_temp_max_c: r.air_temp_max,
+    uncertainty_m: r.uncertainty_mean,
+    occupied_fraction: r.occupied_fraction,
+  }));
+  const head = { asset_id: assetId, bucket: query.bucket, from, to };
+  if (!query.fields) return { ...head, items };
+  // Column-wise for charts: times as epoch milliseconds, each figure once per bucket, rounded to the
+  // resolution below (a 30-day hourly series of four figures is about 30 KB instead of 430 KB as items).
+  const columns: Record<string, (number | null)[]> = { at: items.map((i) => i.at.getTime()) };
+  for (const field of query.fields) columns[field] = items.map((i) => roundForField(field, i[field]));
+  return { ...head, columns };
+}
+
+// 0.1 mm, 0.1 L, 0.01 % and 0.01 °C are finer than any sensor or strapping table resolves.
+function roundForField(field: SeriesField, value: number | null): number | null {
+  if (value === null) return null;
+  const decimals = field.endsWith("_m") ? 4 : field.endsWith("_l") ? 1 : field === "occupied_fraction" ? 3 : field.startsWith("n") ? 0 : 2;
+  const scale = 10 ** decimals;
+  return Math.round(value * scale) / scale;
 }
 
 interface FlagRow {

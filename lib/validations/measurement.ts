@@ -29,11 +29,23 @@ export const measurementsQuerySchema = z
   .refine(fromBeforeTo, { message: "from must be before to.", path: ["from"] });
 export type MeasurementsQuery = z.infer<typeof measurementsQuerySchema>;
 
+/** The per-bucket figures a series can carry; `fields` picks some of them for the compact, column-wise answer. */
+export const SERIES_FIELDS = [
+  "n", "n_all", "distance_m", "distance_min_m", "distance_max_m", "level_m", "level_min_m", "level_max_m", "volume_l", "volume_min_l", "volume_max_l",
+  "fill_pct", "fill_min_pct", "fill_max_pct", "air_temp_c", "air_temp_min_c", "air_temp_max_c", "uncertainty_m", "occupied_fraction",
+] as const;
+export type SeriesField = (typeof SERIES_FIELDS)[number];
+
 export const seriesQuerySchema = z
   .object({
     from: instant("from").optional(),
     to: instant("to").optional(),
     bucket: z.enum(["5m", "1h"], { message: "bucket is 5m or 1h." }).default("1h"),
+    fields: z
+      .string()
+      .transform((s) => s.split(","))
+      .pipe(z.array(z.enum(SERIES_FIELDS, { message: `fields is a comma-separated list of ${SERIES_FIELDS.join(", ")}.` })).min(1))
+      .optional(),
   })
   .refine(fromBeforeTo, { message: "from must be before to.", path: ["from"] })
   .refine((q) => !q.from || !q.to || q.to.getTime() - q.from.getTime() <= SERIES_MAX_DAYS[q.bucket] * DAY_MS, {
