@@ -14,6 +14,12 @@ function createSequelize(): Sequelize {
     dialectModule: pg,
     logging: false,
     pool: { max: Number(process.env.DB_POOL_MAX ?? 10), min: 0, idle: 10000, acquire: 5000 },
+    // A session left idle inside a transaction, or a statement that runs away, is ended by the server
+    // instead of holding a pooled connection and its locks (DB_STATEMENT_TIMEOUT_MS for long maintenance).
+    dialectOptions: {
+      statement_timeout: Number(process.env.DB_STATEMENT_TIMEOUT_MS ?? 120_000),
+      idle_in_transaction_session_timeout: Number(process.env.DB_IDLE_IN_TRANSACTION_TIMEOUT_MS ?? 60_000),
+    },
     define: { underscored: true, timestamps: true, createdAt: "created_at", updatedAt: "updated_at" },
   });
 }
