@@ -4,6 +4,11 @@ import { crossOriginProblem, hasBody, isStateChanging, mediaType } from "./same-
 type Handler<C> = (req: Request, ctx: C) => Promise<Response>;
 
 export interface RouteOptions {
+  /**
+   * The route authenticates with a bearer device key, never a cookie, so a cross-site page cannot use it
+   * on anyone's behalf: no Origin or body-type check (the device API checks its own body type).
+   */
+  deviceKey?: true;
   /** Body types a state-changing request may declare; JSON unless a route takes files. */
   bodyTypes?: readonly string[];
   /** Largest body accepted, checked against Content-Length before the handler runs (readers check again). */
@@ -23,7 +28,7 @@ export function route<C = { params: Promise<Record<string, string>> }>(handler: 
   const maxBodyBytes = options.maxBodyBytes ?? DEFAULT_MAX_BODY_BYTES;
   return async (req, ctx) => {
     try {
-      if (isStateChanging(req.method)) {
+      if (isStateChanging(req.method) && !options.deviceKey) {
         const problem = crossOriginProblem(req.headers);
         if (problem) throw new HttpError(403, "cross_origin", problem);
         const type = mediaType(req.headers);
