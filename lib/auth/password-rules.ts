@@ -1,14 +1,11 @@
-import { dictionary } from "@zxcvbn-ts/language-common";
-
 // Rules for a password that is the only factor, after NIST SP 800-63B Rev. 4 (section 3.1.1.2): at
-// least 15 characters (code points), no composition rules, and refused when it is on a list of
-// commonly used or breached passwords, repeats or runs one character pattern, or names the service.
-// The list is the "passwords-common" dictionary of @zxcvbn-ts/language-common (MIT; about 49 000
-// passwords drawn from public breach corpora), shipped with the app; nothing is looked up at run time.
+// least 15 characters (code points), no composition rules, and refused when it repeats or runs one
+// character pattern or names the service. Safe in the browser (the forms check the same rules); the
+// list of common and breached passwords is checked on the server only (password-list.ts), so that
+// 400 KB of passwords never reach a page.
 export const MIN_PASSWORD_CHARS = 15;
 export const MAX_PASSWORD_CHARS = 200;
 
-const COMMON = new Set(dictionary["passwords-common"] as string[]);
 const SERVICE_WORDS = ["halftrip"];
 
 /** Each character the previous one plus a fixed step of -1, 0 or +1: "aaaa…", "abcd…", "4321…". */
@@ -23,13 +20,12 @@ function isRepeat(s: string): boolean {
   return /^(.+?)\1+$/su.test(s);
 }
 
-/** Why this password is refused, or null when it is acceptable. */
-export function passwordProblem(password: string): string | null {
+/** Why this password is refused by its length or shape, or null when acceptable. */
+export function passwordShapeProblem(password: string): string | null {
   const chars = [...password];
   if (chars.length < MIN_PASSWORD_CHARS) return `Use at least ${MIN_PASSWORD_CHARS} characters; a few unrelated words make a long password easy to remember.`;
   if (chars.length > MAX_PASSWORD_CHARS) return `Use at most ${MAX_PASSWORD_CHARS} characters.`;
   const lower = password.toLowerCase();
-  if (COMMON.has(lower)) return "This password is on a list of common or breached passwords; choose another.";
   if (isRun(chars) || isRepeat(lower)) return "This password repeats one pattern; choose one that is harder to guess.";
   if (SERVICE_WORDS.some((w) => lower.includes(w))) return "Leave the name of the service out of your password.";
   return null;

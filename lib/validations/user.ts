@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { text } from "./common";
 import { ROLES } from "../auth/permissions";
-import { passwordProblem } from "../auth/password-rules";
+import { passwordShapeProblem } from "../auth/password-rules";
 
 export const emailSchema = text().trim().toLowerCase().email("Enter a valid e-mail address, like name@example.org.");
 
@@ -11,7 +11,7 @@ export const signInSchema = z.object({
 });
 
 export const passwordSchema = text().superRefine((password, ctx) => {
-  const problem = passwordProblem(password);
+  const problem = passwordShapeProblem(password);
   if (problem) ctx.addIssue({ code: "custom", message: problem });
 });
 

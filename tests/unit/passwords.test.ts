@@ -1,7 +1,7 @@
 import bcrypt from "bcryptjs";
 import { createHash } from "node:crypto";
 import { describe, expect, it } from "vitest";
-import { passwordProblem } from "@/lib/auth/password-rules";
+import { passwordProblem } from "@/lib/auth/password-list";
 import { hashPassword, verifyPassword } from "@/lib/auth/passwords";
 import { DEMO_PASSWORD } from "@/db/seeds/demo-accounts";
 
