@@ -8,6 +8,9 @@ export const metadata: Metadata = {
   icons: { icon: "/favicon.svg" },
 };
 
+// Pages carry a per-request script nonce (proxy.ts), so none may be prerendered without it.
+export const dynamic = "force-dynamic";
+
 export const viewport: Viewport = { width: "device-width", initialScale: 1 };
 
 export default function RootLayout({ children }: { children: React.ReactNode }) {

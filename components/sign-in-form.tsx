@@ -4,10 +4,11 @@ import { signIn } from "next-auth/react";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { signInSchema } from "@/lib/validations/user";
+import { sameOriginPath } from "@/lib/auth/redirects";
 
 const MESSAGES: Record<string, string> = {
   CredentialsSignin: "That e-mail and password do not match an active account.",
-  too_many_attempts: "Too many failed sign-ins for this e-mail. Wait 15 minutes and try again.",
+  too_many_attempts: "Too many failed sign-ins. Wait a few minutes and try again.",
 };
 
 export function SignInForm({ callbackUrl, initialError }: { callbackUrl: string; initialError?: string }) {
@@ -32,7 +33,8 @@ export function SignInForm({ callbackUrl, initialError }: { callbackUrl: string;
     try {
       const res = await signIn("credentials", { ...parsed.data, redirect: false });
       if (res?.ok && !res.error) {
-        router.replace(callbackUrl);
+        // Parsed again here: the form must not trust its prop to stay on our origin.
+        router.replace(sameOriginPath(callbackUrl, window.location.origin));
         router.refresh();
         return;
       }

@@ -23,6 +23,12 @@ const Settings = z.object({
   /** Comma-separated connection strings of read replicas; reads that may lag go there. */
   DATABASE_REPLICA_URLS: text,
   DB_POOL_MAX: count(10),
+  DB_STATEMENT_TIMEOUT_MS: count(120_000),
+  DB_IDLE_IN_TRANSACTION_TIMEOUT_MS: count(60_000),
+  /** Reverse proxies in front of the web server, each appending to X-Forwarded-For (sign-in throttling). */
+  HALFTRIP_PROXY_HOPS: z.preprocess(unsetIfEmpty, z.coerce.number().int().nonnegative().default(0)),
+  /** Set only by scripts/stack.mjs, which runs the mail sink itself on 127.0.0.1 beside `next start`. */
+  HALFTRIP_LOCAL_STACK: text,
   AUTH_SECRET: text,
   NEXTAUTH_SECRET: text,
   SMTP_URL: url,
@@ -101,6 +107,13 @@ export const env = {
   get dbPoolMax(): number {
     return settings().DB_POOL_MAX;
   },
+  get dbTimeouts() {
+    const s = settings();
+    return { statementMs: s.DB_STATEMENT_TIMEOUT_MS, idleInTransactionMs: s.DB_IDLE_IN_TRANSACTION_TIMEOUT_MS };
+  },
+  get proxyHops(): number {
+    return settings().HALFTRIP_PROXY_HOPS;
+  },
   get authSecret(): string {
     return required("AUTH_SECRET", settings().AUTH_SECRET ?? settings().NEXTAUTH_SECRET, localAuthSecret);
   },
@@ -110,9 +123,15 @@ export const env = {
   get mailFrom(): string {
     return settings().MAIL_FROM;
   },
-  /** The local mail sink's HTTP side; none in production. */
-  get mailSinkUrl(): string | null {
-    return settings().MAIL_SINK_URL ?? (isLocal() ? `http://127.0.0.1:${settings().SMTP_SINK_HTTP_PORT}` : null);
+  /** What decides whether the mail sink's page may exist here (lib/mail/sink-client.ts). */
+  get mailSinkSettings() {
+    const s = settings();
+    return { MAIL_SINK_URL: s.MAIL_SINK_URL, NODE_ENV: s.NODE_ENV, HALFTRIP_LOCAL_STACK: s.HALFTRIP_LOCAL_STACK };
+  },
+  /** The public base URL when one is configured (no local default): the origin state changes must come from. */
+  get configuredAppUrl(): string | null {
+    const s = settings();
+    return s.APP_URL ?? s.NEXTAUTH_URL ?? null;
   },
   /** Base URL for links in e-mails, without a trailing slash. */
   get appUrl(): string {

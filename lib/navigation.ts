@@ -1,4 +1,5 @@
 import { can, type Permission, type Role } from "./auth/permissions";
+import { isMailSinkEnabled } from "./mail/sink-client";
 
 // Only screens that exist are listed; each is shown to the roles that may open it, grouped in the
 // order a person uses them: what is wrong, the field work, the set-up, the administration.
@@ -6,6 +7,8 @@ export interface NavItem {
   href: string;
   label: string;
   permission: Permission;
+  /** Screens that exist only in some set-ups (the mail sink in development). */
+  present?: () => boolean;
 }
 
 export interface NavSection {
@@ -46,7 +49,7 @@ export const NAV_SECTIONS: NavSection[] = [
     items: [
       { href: "/users", label: "Users", permission: "user:manage" },
       { href: "/audit", label: "Audit log", permission: "audit:read" },
-      { href: "/mail", label: "Mail sink", permission: "mail:read" },
+      { href: "/mail", label: "Mail sink", permission: "mail:read", present: isMailSinkEnabled },
     ],
   },
 ];
@@ -54,6 +57,6 @@ export const NAV_SECTIONS: NavSection[] = [
 export function navFor(role: Role): { title: string; items: { href: string; label: string }[] }[] {
   return NAV_SECTIONS.map((s) => ({
     title: s.title,
-    items: s.items.filter((item) => can(role, item.permission)).map(({ href, label }) => ({ href, label })),
+    items: s.items.filter((item) => can(role, item.permission) && (item.present?.() ?? true)).map(({ href, label }) => ({ href, label })),
   })).filter((s) => s.items.length > 0);
 }

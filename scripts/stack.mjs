@@ -47,6 +47,8 @@ function baseEnv({ databaseUrl, port, smtpPort, sinkHttpPort }) {
     SMTP_SINK_PORT: String(smtpPort),
     SMTP_SINK_HTTP_PORT: String(sinkHttpPort),
     MAIL_SINK_URL: `http://127.0.0.1:${sinkHttpPort}`,
+    // This stack runs the mail sink itself on 127.0.0.1, so its Mail sink page may exist under `next start` too.
+    HALFTRIP_LOCAL_STACK: "1",
     APP_URL: process.env.APP_URL ?? `http://127.0.0.1:${port}`,
     NEXT_TELEMETRY_DISABLED: "1",
   };
@@ -91,7 +93,7 @@ async function serve(dev) {
   await waitForUrl(`http://127.0.0.1:${port}/api/health`, 120000);
   await startBackground(env, dev);
   log(`Halftrip is running at http://127.0.0.1:${port}`);
-  log("demo accounts (password halftrip-demo): admin@halftrip.test, operator@halftrip.test, technician@halftrip.test, viewer@halftrip.test");
+  log("demo accounts (password demo-tanks-and-bays): admin@halftrip.test, operator@halftrip.test, technician@halftrip.test, viewer@halftrip.test");
   log(`mail sink: ${env.MAIL_SINK_URL}/messages (also the Mail sink page for admins) · Ctrl-C stops everything`);
 }
 
@@ -115,7 +117,7 @@ async function sandbox(name, port) {
   await startSink(env);
   startService("web", bin("next"), ["dev", "-p", String(port)], { env: { ...env, NODE_ENV: "development" } });
   await waitForUrl(`${env.TEST_BASE_URL}/api/health`, 180000);
-  const keys = ["DATABASE_URL", "AUTH_SECRET", "TEST_BASE_URL", "MAIL_SINK_URL", "SMTP_URL", "PG_ADMIN_URL", "APP_URL", "HALFTRIP_TEST"];
+  const keys = ["DATABASE_URL", "AUTH_SECRET", "TEST_BASE_URL", "MAIL_SINK_URL", "SMTP_URL", "PG_ADMIN_URL", "APP_URL", "HALFTRIP_TEST", "HALFTRIP_LOCAL_STACK"];
   const file = path.join(dataDir, `sandbox-${name}.env`);
   fs.writeFileSync(file, keys.map((k) => `${k}=${env[k]}`).join("\n") + "\n");
   log(`sandbox ${name} ready at ${env.TEST_BASE_URL}; env in ${path.relative(root, file)}`);

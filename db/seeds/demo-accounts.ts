@@ -1,7 +1,7 @@
 import type { Role } from "../../lib/auth/permissions";
 
 // Demo scenario only (never seeded in production): one account per role.
-export const DEMO_PASSWORD = "halftrip-demo";
+export const DEMO_PASSWORD = "demo-tanks-and-bays";
 export const DEMO_ORGANISATION = "Brackenmoor Water Cooperative";
 export const DEMO_ACCOUNTS: { email: string; name: string; role: Role }[] = [
   { email: "admin@halftrip.test", name: "Ada Admin", role: "admin" },

@@ -2,7 +2,7 @@ import type { Role } from "./permissions";
 
 declare module "next-auth" {
   interface Session {
-    user: { id: string; organisationId: string; role: Role; name?: string | null; email?: string | null };
+    user: { id: string; organisationId: string; role: Role; sessionVersion: number; name?: string | null; email?: string | null };
   }
 }
 
@@ -11,5 +11,7 @@ declare module "next-auth/jwt" {
     uid?: string;
     org?: string;
     role?: Role;
+    /** users.session_version when the token was issued; a raised version ends the session. */
+    sv?: number;
   }
 }

@@ -16,14 +16,15 @@ export interface SessionUser {
 
 /**
  * The signed-in user as the database knows them now: a deactivated user or a changed role takes effect
- * on the next request, not when the session cookie expires.
+ * on the next request, not when the session cookie expires. A token issued before the user's session
+ * version was raised (sign-out, password, status or role change) no longer counts.
  */
 export async function currentUser(): Promise<SessionUser | null> {
   const session = await getServerSession(authOptions);
   const id = session?.user?.id;
   if (!id) return null;
   const user = await User.findByPk(id);
-  if (!user || user.status !== "active") return null;
+  if (!user || user.status !== "active" || user.session_version !== session.user.sessionVersion) return null;
   return { id: user.id, organisationId: user.organisation_id, role: user.role, email: user.email, name: user.name };
 }
 

@@ -30,7 +30,13 @@ function connectionOptions(url: string) {
     username: decodeURIComponent(u.username),
     password: decodeURIComponent(u.password),
     database: decodeURIComponent(u.pathname.replace(/^\//, "")),
-    ...(Object.keys(session).length ? { dialectOptions: session } : {}),
+    // A session left idle inside a transaction, or a statement that runs away, is ended by the server
+    // instead of holding a pooled connection and its locks (DB_STATEMENT_TIMEOUT_MS for long maintenance).
+    dialectOptions: {
+      ...session,
+      statement_timeout: env.dbTimeouts.statementMs,
+      idle_in_transaction_session_timeout: env.dbTimeouts.idleInTransactionMs,
+    },
   };
 }
 

@@ -84,11 +84,43 @@ export function isDatabaseUnavailable(err: unknown): boolean {
   );
 }
 
-/** Reads and validates a JSON body; malformed JSON is a 400, a wrong shape a 422 with field messages. */
-export async function parseJsonBody<S extends ZodType>(req: Request, schema: S): Promise<z.infer<S>> {
+/**
+ * Reads a request body while counting bytes, so an oversized body is refused as it arrives, with or
+ * without a Content-Length. `hint` tells the client what to send instead.
+ */
+export async function readBodyWithLimit(req: Request, maxBytes: number, hint = "send a smaller body"): Promise<string> {
+  const tooLarge = () => new HttpError(413, "too_large", `The body is over ${maxBytes / 1024} KiB; ${hint}.`);
+  const declared = Number(req.headers.get("content-length") ?? NaN);
+  if (Number.isFinite(declared) && declared > maxBytes) throw tooLarge();
+  if (!req.body) return "";
+  const reader = req.body.getReader();
+  const chunks: Uint8Array[] = [];
+  let total = 0;
+  for (;;) {
+    const { done, value } = await reader.read();
+    if (done) break;
+    total += value.byteLength;
+    if (total > maxBytes) {
+      await reader.cancel().catch(() => undefined);
+      throw tooLarge();
+    }
+    chunks.push(value);
+  }
+  return Buffer.concat(chunks, total).toString("utf8");
+}
+
+/** Bodies of the public routes (invite acceptance, acknowledge links): a token, a password, a comment. */
+export const PUBLIC_MAX_BODY_BYTES = 8 * 1024;
+
+/**
+ * Reads and validates a JSON body of at most `maxBytes` (the management API's 1 MiB unless a route says
+ * less); malformed JSON is a 400, a wrong shape a 422 with field messages.
+ */
+export async function parseJsonBody<S extends ZodType>(req: Request, schema: S, maxBytes = 1024 * 1024): Promise<z.infer<S>> {
+  const text = await readBodyWithLimit(req, maxBytes);
   let body: unknown;
   try {
-    body = await req.json();
+    body = JSON.parse(text);
   } catch {
     throw new HttpError(400, "malformed_json", "The body is not valid JSON.");
   }

@@ -2,7 +2,7 @@ import { deviceKeyMatches, prefixOfDeviceKey } from "../auth/device-keys";
 import { describeZodError, HttpError } from "../http/errors";
 import { findDeviceByKeyPrefix, storeReadings, type KeyedDevice } from "../services/ingest";
 import { batchSchema, checkReadingForDevice, MAX_BODY_BYTES, readingSchema, type ReadingInput } from "../validations/reading";
-import { readBodyWithLimit } from "./read-body";
+import { readBodyWithLimit } from "../http/errors";
 
 // One message for every key problem, so a caller learns nothing about which part was wrong.
 const BAD_KEY = "Send a valid device key as 'Authorization: Bearer <key>'.";
@@ -45,7 +45,7 @@ export async function acceptReadings(req: Request): Promise<Response> {
   const device = await authenticateDevice(req);
   const type = req.headers.get("content-type") ?? "";
   if (!/^application\/json\b/i.test(type)) throw new HttpError(415, "unsupported_media_type", "Send the body as JSON with 'Content-Type: application/json'.");
-  const text = await readBodyWithLimit(req, MAX_BODY_BYTES);
+  const text = await readBodyWithLimit(req, MAX_BODY_BYTES, "send fewer readings a request");
   let body: unknown;
   try {
     body = JSON.parse(text);

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { uuidSchema } from "./common";
+import { INSTANT_RANGE_MESSAGE, isSaneInstant, text, uuidSchema } from "./common";
 import { ALARM_KINDS, MAX_SHELVE_HOURS } from "../alarms/engine";
 import { ALARM_PRIORITIES, ALARM_STATES } from "../alarms/state-machine";
 
@@ -9,12 +9,15 @@ export const ALARM_SORTS = ["priority", "-priority", "activated_at", "-activated
 export type AlarmSort = (typeof ALARM_SORTS)[number];
 
 const commaList = <T extends string>(values: readonly T[], what: string) =>
-  z
-    .string()
+  text()
     .transform((s) => s.split(",").map((v) => v.trim()).filter(Boolean))
     .pipe(z.array(z.enum(values as [T, ...T[]], { message: `${what} is one of ${values.join(", ")}.` })));
 
-const instant = (what: string) => z.string().refine((s) => Number.isFinite(Date.parse(s)), `${what} is an ISO 8601 time.`).transform((s) => new Date(s));
+const instant = (what: string) =>
+  text()
+    .refine((s) => Number.isFinite(Date.parse(s)), `${what} is an ISO 8601 time.`)
+    .transform((s) => new Date(s))
+    .refine(isSaneInstant, `${what}: ${INSTANT_RANGE_MESSAGE}`);
 
 export const alarmListQuerySchema = z
   .object({
@@ -32,7 +35,7 @@ export const alarmListQuerySchema = z
   .refine((q) => !q.from || !q.to || q.from < q.to, { message: "from must be before to.", path: ["to"] });
 export type AlarmListQuery = z.infer<typeof alarmListQuerySchema>;
 
-const comment = z.string().trim().max(500, "Keep the comment under 500 characters.").optional();
+const comment = text().trim().max(500, "Keep the comment under 500 characters.").optional();
 
 export const acknowledgeSchema = z.object({ comment }).strict();
 
@@ -45,7 +48,7 @@ export const bulkAcknowledgeSchema = z
 
 export const shelveSchema = z
   .object({
-    reason: z.string({ message: "Give a reason for shelving." }).trim().min(1, "Give a reason for shelving.").max(500, "Keep the reason under 500 characters."),
+    reason: text({ message: "Give a reason for shelving." }).trim().min(1, "Give a reason for shelving.").max(500, "Keep the reason under 500 characters."),
     until: instant("until").optional(),
     duration_min: z.number().int("Whole minutes.").min(1, "Shelve for at least 1 minute.").max(MAX_SHELVE_HOURS * 60, `Shelve for at most ${MAX_SHELVE_HOURS} h.`).optional(),
     comment,
@@ -64,12 +67,12 @@ export function shelveExpiry(input: ShelveInput, now: Date): { until: Date } | {
 }
 
 export const outOfServiceSchema = z
-  .object({ reason: z.string({ message: "Give a reason." }).trim().min(1, "Give a reason.").max(500, "Keep the reason under 500 characters."), comment })
+  .object({ reason: text({ message: "Give a reason." }).trim().min(1, "Give a reason.").max(500, "Keep the reason under 500 characters."), comment })
   .strict();
 
 export const plainActionSchema = z.object({ comment }).strict();
 
-export const ackLinkSchema = z.object({ token: z.string().min(10, "The link is incomplete.").max(400), comment }).strict();
+export const ackLinkSchema = z.object({ token: text().min(10, "The link is incomplete.").max(400), comment }).strict();
 
 export const alarmHealthQuerySchema = z
   .object({

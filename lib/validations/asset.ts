@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { uuidSchema } from "./common";
+import { uuidSchema, text } from "./common";
 import { tankCapacity, type TankGeometry } from "../geometry/tank-volume";
 import { TANK_PURPOSES } from "../forecast/purpose";
 
@@ -56,7 +56,7 @@ const pct = (what: string) => z.number().min(0, `${what} is 0–100 %.`).max(100
 const assetFields = {
   site_id: uuidSchema,
   kind: z.enum(["tank", "bay", "point"], { message: "Kind is tank, bay or point." }),
-  name: z.string().trim().min(1, "Give the asset a name.").max(120, "Keep the name under 120 characters."),
+  name: text().trim().min(1, "Give the asset a name.").max(120, "Keep the name under 120 characters."),
   mount_height_m: metres("Mount height").nullable().optional(),
   purpose: z.enum(TANK_PURPOSES, { message: `Purpose is one of ${TANK_PURPOSES.join(", ")}.` }).nullable().optional(),
   // Given only with a strapping table, whose last row need not be the brim; other shapes derive it.
@@ -68,7 +68,7 @@ const assetFields = {
   geometry: geometrySchema.nullable().optional(),
   bay_row: z.number().int().min(0).max(500).nullable().optional(),
   bay_col: z.number().int().min(0).max(500).nullable().optional(),
-  bay_level: z.string().trim().max(60).nullable().optional(),
+  bay_level: text().trim().max(60).nullable().optional(),
 };
 
 type AssetShape = { kind?: string; purpose?: string | null; capacity_l?: number | null; mount_height_m?: number | null; geometry?: unknown; floor_distance_m?: number | null; occupied_below_m?: number | null; safe_fill_pct?: number | null; reorder_pct?: number | null };

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { uuidSchema } from "./common";
+import { uuidSchema, text } from "./common";
 
 // Which dips a calibration is fitted to; the server fits again from them when it applies, so a client
 // never sends the offset and scale itself.
@@ -12,7 +12,7 @@ export const calibrationRequestSchema = z
       .min(2, "Choose at least two dips.")
       .max(MAX_CALIBRATION_DIPS, `Choose at most ${MAX_CALIBRATION_DIPS} dips.`)
       .refine((ids) => new Set(ids).size === ids.length, "Each dip once."),
-    note: z.string().trim().max(500, "Keep the note under 500 characters.").optional(),
+    note: text().trim().max(500, "Keep the note under 500 characters.").optional(),
   })
   .strict();
 export type CalibrationRequest = z.infer<typeof calibrationRequestSchema>;

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { uuidSchema } from "./common";
+import { uuidSchema, text } from "./common";
 
 export const PROFILES = ["echo", "capture", "pulse_coded", "duty_coded"] as const;
 export type SignalProfile = (typeof PROFILES)[number];
@@ -24,8 +24,8 @@ export const channelSchema = z
 
 const deviceFields = {
   site_id: uuidSchema,
-  serial: z.string().trim().min(1, "Enter the serial printed on the unit.").max(64).regex(/^[A-Za-z0-9._-]+$/, "Serials use letters, digits, dot, dash and underscore."),
-  name: z.string().trim().min(1, "Give the device a name.").max(120),
+  serial: text().trim().min(1, "Enter the serial printed on the unit.").max(64).regex(/^[A-Za-z0-9._-]+$/, "Serials use letters, digits, dot, dash and underscore."),
+  name: text().trim().min(1, "Give the device a name.").max(120),
   profile: z.enum(PROFILES, { message: `Profile is one of ${PROFILES.join(", ")}.` }),
   clock_hz: z.number().positive("Clock must be above 0 Hz.").max(1e10).nullable().optional(),
   prescaler: z.number().int().min(1, "Prescaler is 1 or more.").max(65536).nullable().optional(),
@@ -35,7 +35,7 @@ const deviceFields = {
   span_m: z.number().positive("Span must be above 0 m.").max(100).nullable().optional(),
   expected_interval_s: z.number().int().min(1, "At least 1 s.").max(86400, "At most a day.").default(60),
   max_requests_per_min: z.number().int().min(1, "At least 1 a minute.").max(100000).default(120),
-  firmware: z.string().trim().max(60).nullable().optional(),
+  firmware: text().trim().max(60).nullable().optional(),
   channels: z
     .array(channelSchema)
     .min(1, "A device has at least one channel.")

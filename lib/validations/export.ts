@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { uuidSchema } from "./common";
+import { INSTANT_RANGE_MESSAGE, isSaneInstant, text, uuidSchema } from "./common";
 
 // CSV exports: a time range (a date means that day in UTC; a "to" date includes its whole day) no longer
 // than MAX_EXPORT_DAYS, and what to export.
@@ -7,9 +7,11 @@ export const MAX_EXPORT_DAYS = 366;
 export const MAX_EXPORT_ASSETS = 50;
 const DAY_MS = 86_400_000;
 
-const instant = z.union([z.iso.datetime({ offset: true }), z.iso.date()], {
-  message: "Use a date (2026-03-14) or an ISO 8601 date-time with a zone (2026-03-14T06:30:00Z).",
-});
+const instant = z
+  .union([z.iso.datetime({ offset: true }), z.iso.date()], {
+    message: "Use a date (2026-03-14) or an ISO 8601 date-time with a zone (2026-03-14T06:30:00Z).",
+  })
+  .refine((v) => isSaneInstant(toInstant(v, false)), INSTANT_RANGE_MESSAGE);
 
 function toInstant(value: string, end: boolean): Date {
   if (/^\d{4}-\d{2}-\d{2}$/.test(value)) return new Date(Date.parse(`${value}T00:00:00Z`) + (end ? DAY_MS : 0));
@@ -44,8 +46,7 @@ function asRange<T extends { from: string; to: string }>(value: T): Omit<T, "fro
 export const measurementsExportQuery = z
   .object({
     ...rangeFields,
-    asset_ids: z
-      .string({ message: "Choose at least one asset." })
+    asset_ids: text({ message: "Choose at least one asset." })
       .transform((s) => s.split(",").map((x) => x.trim()).filter(Boolean))
       .pipe(
         z

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { uuidSchema } from "./common";
+import { uuidSchema, text } from "./common";
 import type { SignalProfile } from "./device";
 import type { ColumnSpec } from "../csv/columns";
 
@@ -55,7 +55,7 @@ export const createUploadSchema = z
   .object({
     kind: z.enum(IMPORT_KINDS, { message: `Kind is one of ${IMPORT_KINDS.join(", ")}.` }),
     target_id: uuidSchema,
-    file_name: z.string().trim().min(1, "Name the file.").max(200, "Keep the file name under 200 characters."),
+    file_name: text().trim().min(1, "Name the file.").max(200, "Keep the file name under 200 characters."),
     size_bytes: z
       .number({ message: "size_bytes is the file's size in bytes." })
       .int()

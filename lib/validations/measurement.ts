@@ -1,8 +1,9 @@
 import { z } from "zod";
+import { INSTANT_RANGE_MESSAGE, isSaneInstant } from "./common";
 
 const DAY_MS = 86_400_000;
 
-const instant = (what: string) => z.coerce.date({ message: `${what} is a date and time, e.g. 2026-03-14T06:30:00Z.` });
+const instant = (what: string) => z.coerce.date({ message: `${what} is a date and time, e.g. 2026-03-14T06:30:00Z.` }).refine(isSaneInstant, `${what}: ${INSTANT_RANGE_MESSAGE}`);
 
 /** Longest period one request may cover, by bucket: about 8 900 five-minute or 9 600 hourly points. */
 export const SERIES_MAX_DAYS = { "5m": 31, "1h": 400 } as const;

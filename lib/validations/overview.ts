@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { uuidSchema } from "./common";
+import { INSTANT_RANGE_MESSAGE, isSaneInstant, text, uuidSchema } from "./common";
 
 // Query strings of the live screens' routes: the asset screen's period and the device-health table's
 // paging, sorting and filters. Shared by the route handlers and the screens that build the URLs.
@@ -8,7 +8,7 @@ import { uuidSchema } from "./common";
 export const MAX_PERIOD_DAYS = 366;
 const DAY_MS = 86_400_000;
 
-const instant = (what: string) => z.coerce.date({ message: `${what} is a date and time (ISO 8601).` }).refine((d) => !Number.isNaN(d.getTime()), `${what} is a date and time (ISO 8601).`);
+const instant = (what: string) => z.coerce.date({ message: `${what} is a date and time (ISO 8601).` }).refine((d) => !Number.isNaN(d.getTime()), `${what} is a date and time (ISO 8601).`).refine(isSaneInstant, `${what}: ${INSTANT_RANGE_MESSAGE}`);
 
 export const periodQuerySchema = z
   .object({ from: instant("from").optional(), to: instant("to").optional() })
@@ -33,7 +33,7 @@ export const deviceHealthQuerySchema = z
     page_size: z.coerce.number().int().min(1).max(200, "page_size is at most 200.").default(25),
     sort: z.enum(DEVICE_HEALTH_SORTS, { message: `sort is one of ${DEVICE_HEALTH_SORTS.join(", ")}.` }).default("name"),
     dir: z.enum(["asc", "desc"], { message: "dir is asc or desc." }).default("asc"),
-    q: z.string().trim().max(100).optional(),
+    q: text().trim().max(100).optional(),
     site_id: uuidSchema.optional(),
     state: z.enum(DEVICE_HEALTH_STATES, { message: `state is one of ${DEVICE_HEALTH_STATES.join(", ")}.` }).optional(),
     flag: z.enum(DEVICE_HEALTH_FLAGS, { message: `flag is one of ${DEVICE_HEALTH_FLAGS.join(", ")}.` }).optional(),

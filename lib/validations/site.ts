@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { uuidSchema } from "./common";
+import { uuidSchema, text } from "./common";
 
 function isTimeZone(tz: string): boolean {
   try {
@@ -11,8 +11,8 @@ function isTimeZone(tz: string): boolean {
 }
 
 const siteFields = {
-  name: z.string().trim().min(1, "Give the site a name.").max(120, "Keep the name under 120 characters."),
-  time_zone: z.string().refine(isTimeZone, "Use an IANA time zone such as Europe/Dublin."),
+  name: text().trim().min(1, "Give the site a name.").max(120, "Keep the name under 120 characters."),
+  time_zone: text().refine(isTimeZone, "Use an IANA time zone such as Europe/Dublin."),
   latitude: z.number().min(-90, "Latitude is between -90 and 90.").max(90, "Latitude is between -90 and 90.").nullable().optional(),
   longitude: z.number().min(-180, "Longitude is between -180 and 180.").max(180, "Longitude is between -180 and 180.").nullable().optional(),
   air_temp_c: z.number().min(-50, "A fixed air temperature is between -50 and 70 °C.").max(70, "A fixed air temperature is between -50 and 70 °C.").nullable().optional(),

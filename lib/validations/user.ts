@@ -1,21 +1,23 @@
 import { z } from "zod";
+import { text } from "./common";
 import { ROLES } from "../auth/permissions";
+import { passwordShapeProblem } from "../auth/password-rules";
 
-export const emailSchema = z.string().trim().toLowerCase().email("Enter a valid e-mail address, like name@example.org.");
+export const emailSchema = text().trim().toLowerCase().email("Enter a valid e-mail address, like name@example.org.");
 
 export const signInSchema = z.object({
   email: emailSchema,
-  password: z.string().min(1, "Enter your password."),
+  password: text().min(1, "Enter your password.").max(1000, "A password is at most 200 characters."),
 });
 
-export const passwordSchema = z
-  .string()
-  .min(10, "Use at least 10 characters.")
-  .max(200, "Use at most 200 characters.");
+export const passwordSchema = text().superRefine((password, ctx) => {
+  const problem = passwordShapeProblem(password);
+  if (problem) ctx.addIssue({ code: "custom", message: problem });
+});
 
 export const inviteUserSchema = z.object({
   email: emailSchema,
-  name: z.string().trim().max(120, "Keep the name under 120 characters.").default(""),
+  name: text().trim().max(120, "Keep the name under 120 characters.").default(""),
   role: z.enum(ROLES, { message: `Choose a role: ${ROLES.join(", ")}.` }),
 });
 
@@ -23,13 +25,13 @@ export const updateUserSchema = z
   .object({
     role: z.enum(ROLES, { message: `Choose a role: ${ROLES.join(", ")}.` }).optional(),
     status: z.enum(["active", "deactivated"], { message: "Status is active or deactivated." }).optional(),
-    name: z.string().trim().max(120).optional(),
+    name: text().trim().max(120).optional(),
   })
   .strict()
   .refine((v) => Object.keys(v).length > 0, "Send at least one of role, status, name.");
 
 export const acceptInviteSchema = z
-  .object({ token: z.string().min(10), password: passwordSchema, confirm: z.string() })
+  .object({ token: text().min(10), password: passwordSchema, confirm: text() })
   .refine((v) => v.password === v.confirm, { message: "The two passwords differ.", path: ["confirm"] });
 
 export type InviteUserInput = z.infer<typeof inviteUserSchema>;

@@ -1,6 +1,6 @@
 import { expect, test } from "@playwright/test";
 
-const PASSWORD = "halftrip-demo";
+const PASSWORD = "demo-tanks-and-bays";
 
 for (const role of ["admin", "operator", "technician", "viewer"] as const) {
   test(`${role} signs in, sees the shell and signs out`, async ({ page }) => {

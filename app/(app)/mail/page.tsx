@@ -1,15 +1,18 @@
 import type { Metadata } from "next";
+import { notFound } from "next/navigation";
 import { requirePageUser } from "@/lib/auth/session";
 import { PageHeader } from "@/components/page-header";
 import { MailSinkViewer } from "@/components/mail-sink-viewer";
+import { isMailSinkEnabled } from "@/lib/mail/sink-client";
 
 export const metadata: Metadata = { title: "Mail sink" };
 
 export default async function MailPage() {
   await requirePageUser("mail:read");
+  if (!isMailSinkEnabled()) notFound();
   return (
     <>
-      <PageHeader title="Mail sink" facts="What Halftrip sent, as the local SMTP sink caught it. In production mail goes to the relay in SMTP_URL and this page stays empty." />
+      <PageHeader title="Mail sink" facts="What Halftrip sent to members of your organisation, as the local SMTP sink caught it (development only). In production mail goes to the relay in SMTP_URL and this page does not exist." />
       <MailSinkViewer />
     </>
   );

@@ -1,8 +1,12 @@
 import { requirePermission } from "@/lib/auth/session";
+import { notFound } from "@/lib/errors";
 import { route } from "@/lib/http/route";
-import { fetchCaughtMessages, isMailSinkConfigured } from "@/lib/mail/sink-client";
+import { organisationAddresses } from "@/lib/services/mail-sink";
+import { fetchCaughtMessages, isMailSinkEnabled } from "@/lib/mail/sink-client";
 
+/** Mail the local sink caught for members of the admin's organisation; absent where there is no sink. */
 export const GET = route(async () => {
-  await requirePermission("mail:read");
-  return Response.json({ configured: isMailSinkConfigured(), items: await fetchCaughtMessages() });
+  const user = await requirePermission("mail:read");
+  if (!isMailSinkEnabled()) throw notFound("The mail sink");
+  return Response.json({ configured: true, items: await fetchCaughtMessages(await organisationAddresses(user)) });
 });

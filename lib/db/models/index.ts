@@ -20,6 +20,7 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare role: Role;
   declare status: CreationOptional<UserStatus>;
   declare password_hash: CreationOptional<string | null>;
+  declare session_version: CreationOptional<number>;
   declare created_at: CreationOptional<Date>;
 }
 
@@ -57,6 +58,7 @@ function defineModels(sequelize: Sequelize) {
       role: { type: DataTypes.ENUM("admin", "operator", "technician", "viewer"), allowNull: false },
       status: { type: DataTypes.ENUM("invited", "active", "deactivated"), allowNull: false, defaultValue: "invited" },
       password_hash: { type: DataTypes.TEXT, allowNull: true },
+      session_version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
       created_at: DataTypes.DATE,
     },
     {

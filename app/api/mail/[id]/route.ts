@@ -1,11 +1,14 @@
 import { requirePermission } from "@/lib/auth/session";
 import { notFound } from "@/lib/errors";
 import { route } from "@/lib/http/route";
-import { fetchCaughtMessage } from "@/lib/mail/sink-client";
+import { organisationAddresses } from "@/lib/services/mail-sink";
+import { fetchCaughtMessage, isMailSinkEnabled } from "@/lib/mail/sink-client";
 
 export const GET = route<{ params: Promise<{ id: string }> }>(async (_req, { params }) => {
-  await requirePermission("mail:read");
-  const message = await fetchCaughtMessage((await params).id);
+  const user = await requirePermission("mail:read");
+  if (!isMailSinkEnabled()) throw notFound("The mail sink");
+  // Mail to anyone outside the organisation answers 404, like an id of another organisation.
+  const message = await fetchCaughtMessage((await params).id, await organisationAddresses(user));
   if (!message) throw notFound("That message");
   return Response.json(message);
 });
