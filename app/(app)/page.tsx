@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { requirePageUser } from "@/lib/auth/session";
-import { PageHeader } from "@/components/page-header";
-import { FleetOverview } from "@/components/fleet-overview";
+import { PageHeader } from "@/components/ui/page-header";
+import { FleetOverview } from "@/components/fleet/fleet-overview";
 import { fetchOrganisationName } from "@/lib/db/queries/organisations";
 
 export const metadata: Metadata = { title: "Overview" };

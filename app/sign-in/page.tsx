@@ -1,8 +1,8 @@
 import type { Metadata } from "next";
 import { redirect } from "next/navigation";
 import { currentUser } from "@/lib/auth/session";
-import { Wordmark } from "@/components/wordmark";
-import { SignInForm } from "@/components/sign-in-form";
+import { Wordmark } from "@/components/shell/wordmark";
+import { SignInForm } from "@/components/shell/sign-in-form";
 
 export const metadata: Metadata = { title: "Sign in" };
 

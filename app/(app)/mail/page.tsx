@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { requirePageUser } from "@/lib/auth/session";
-import { PageHeader } from "@/components/page-header";
-import { MailSinkViewer } from "@/components/mail-sink-viewer";
+import { PageHeader } from "@/components/ui/page-header";
+import { MailSinkViewer } from "@/components/shell/mail-sink-viewer";
 
 export const metadata: Metadata = { title: "Mail sink" };
 

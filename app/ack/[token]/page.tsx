@@ -6,10 +6,10 @@ import { findAlarm } from "@/lib/db/queries/alarms";
 import { needsAcknowledgement } from "@/lib/alarms/engine";
 import type { AlarmPriority, AlarmState } from "@/lib/alarms/state-machine";
 import { formatSiteTime } from "@/lib/mail/alarm-mail";
-import { Wordmark } from "@/components/wordmark";
-import { AlarmCaution } from "@/components/alarm-caution";
-import { AlarmPriorityBadge, AlarmStateLabel, alarmFigure } from "@/components/alarm-badges";
-import { AlarmAckConfirm } from "@/components/alarm-ack-confirm";
+import { Wordmark } from "@/components/shell/wordmark";
+import { AlarmCaution } from "@/components/alarms/alarm-caution";
+import { AlarmPriorityBadge, AlarmStateLabel, alarmFigure } from "@/components/alarms/alarm-badges";
+import { AlarmAckConfirm } from "@/components/alarms/alarm-ack-confirm";
 
 export const metadata: Metadata = { title: "Acknowledge an alarm", robots: { index: false, follow: false } };
 export const dynamic = "force-dynamic";

@@ -4,9 +4,9 @@ import { requirePageUser } from "@/lib/auth/session";
 import { findAlarm } from "@/lib/db/queries/alarms";
 import { HttpError } from "@/lib/http/errors";
 import { isUuid } from "@/lib/validations/common";
-import { PageHeader } from "@/components/page-header";
-import { AlarmCaution } from "@/components/alarm-caution";
-import { AlarmDetail } from "@/components/alarm-detail";
+import { PageHeader } from "@/components/ui/page-header";
+import { AlarmCaution } from "@/components/alarms/alarm-caution";
+import { AlarmDetail } from "@/components/alarms/alarm-detail";
 
 export const metadata: Metadata = { title: "Alarm" };
 

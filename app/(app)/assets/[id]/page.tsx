@@ -8,9 +8,9 @@ import { findAsset } from "@/lib/db/queries/assets";
 import { findSite } from "@/lib/db/queries/sites";
 import { HttpError } from "@/lib/http/errors";
 import { isUuid } from "@/lib/validations/common";
-import { PageHeader } from "@/components/page-header";
-import { Loading } from "@/components/data-state";
-import { AssetLive } from "@/components/asset-live";
+import { PageHeader } from "@/components/ui/page-header";
+import { Loading } from "@/components/ui/data-state";
+import { AssetLive } from "@/components/assets/asset-live";
 
 export const metadata: Metadata = { title: "Asset" };
 

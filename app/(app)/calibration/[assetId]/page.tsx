@@ -6,8 +6,8 @@ import { findAsset } from "@/lib/db/queries/assets";
 import { findSite } from "@/lib/db/queries/sites";
 import { HttpError } from "@/lib/http/errors";
 import { isUuid } from "@/lib/validations/common";
-import { PageHeader } from "@/components/page-header";
-import { CalibrationWorkbench } from "@/components/calibration-workbench";
+import { PageHeader } from "@/components/ui/page-header";
+import { CalibrationWorkbench } from "@/components/calibration/calibration-workbench";
 
 export const metadata: Metadata = { title: "Dips and calibration" };
 

@@ -6,8 +6,8 @@ import { can } from "@/lib/auth/permissions";
 import { findDevice } from "@/lib/db/queries/devices";
 import { HttpError } from "@/lib/http/errors";
 import { isUuid } from "@/lib/validations/common";
-import { PageHeader } from "@/components/page-header";
-import { DeviceDetail } from "@/components/device-detail";
+import { PageHeader } from "@/components/ui/page-header";
+import { DeviceDetail } from "@/components/devices/device-detail";
 
 export const metadata: Metadata = { title: "Device" };
 

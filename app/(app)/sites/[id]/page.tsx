@@ -6,8 +6,8 @@ import { can } from "@/lib/auth/permissions";
 import { findSite } from "@/lib/db/queries/sites";
 import { HttpError } from "@/lib/http/errors";
 import { isUuid } from "@/lib/validations/common";
-import { PageHeader } from "@/components/page-header";
-import { SiteLive } from "@/components/site-live";
+import { PageHeader } from "@/components/ui/page-header";
+import { SiteLive } from "@/components/sites/site-live";
 
 export const metadata: Metadata = { title: "Site" };
 

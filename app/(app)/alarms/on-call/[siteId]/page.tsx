@@ -5,8 +5,8 @@ import { can } from "@/lib/auth/permissions";
 import { findSite } from "@/lib/db/queries/sites";
 import { HttpError } from "@/lib/http/errors";
 import { isUuid } from "@/lib/validations/common";
-import { PageHeader } from "@/components/page-header";
-import { AlarmOnCallForm } from "@/components/alarm-on-call-form";
+import { PageHeader } from "@/components/ui/page-header";
+import { AlarmOnCallForm } from "@/components/alarms/alarm-on-call-form";
 
 export const metadata: Metadata = { title: "On call" };
 

@@ -5,9 +5,9 @@ import { can } from "@/lib/auth/permissions";
 import { findAsset } from "@/lib/db/queries/assets";
 import { HttpError } from "@/lib/http/errors";
 import { isUuid } from "@/lib/validations/common";
-import { PageHeader } from "@/components/page-header";
-import { AlarmCaution } from "@/components/alarm-caution";
-import { AlarmSetpointForm } from "@/components/alarm-setpoint-form";
+import { PageHeader } from "@/components/ui/page-header";
+import { AlarmCaution } from "@/components/alarms/alarm-caution";
+import { AlarmSetpointForm } from "@/components/alarms/alarm-setpoint-form";
 
 export const metadata: Metadata = { title: "Alarm setpoints" };
 

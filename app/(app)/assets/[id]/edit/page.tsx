@@ -4,8 +4,8 @@ import { requirePageUser } from "@/lib/auth/session";
 import { findAsset } from "@/lib/db/queries/assets";
 import { HttpError } from "@/lib/http/errors";
 import { isUuid } from "@/lib/validations/common";
-import { PageHeader } from "@/components/page-header";
-import { AssetEditor } from "@/components/asset-form";
+import { PageHeader } from "@/components/ui/page-header";
+import { AssetEditor } from "@/components/assets/asset-form";
 
 export const metadata: Metadata = { title: "Edit asset" };
 

@@ -4,8 +4,8 @@ import { requirePageUser } from "@/lib/auth/session";
 import { findDevice } from "@/lib/db/queries/devices";
 import { HttpError } from "@/lib/http/errors";
 import { isUuid } from "@/lib/validations/common";
-import { PageHeader } from "@/components/page-header";
-import { DeviceEditor } from "@/components/device-form";
+import { PageHeader } from "@/components/ui/page-header";
+import { DeviceEditor } from "@/components/devices/device-form";
 
 export const metadata: Metadata = { title: "Edit device" };
 

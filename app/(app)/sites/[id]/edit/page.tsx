@@ -4,8 +4,8 @@ import { requirePageUser } from "@/lib/auth/session";
 import { findSite } from "@/lib/db/queries/sites";
 import { HttpError } from "@/lib/http/errors";
 import { isUuid } from "@/lib/validations/common";
-import { PageHeader } from "@/components/page-header";
-import { SiteEditor } from "@/components/site-form";
+import { PageHeader } from "@/components/ui/page-header";
+import { SiteEditor } from "@/components/sites/site-form";
 
 export const metadata: Metadata = { title: "Edit site" };
 

@@ -1,0 +1,90 @@
+"use client";
+
+import Link from "next/link";
+import { useState } from "react";
+import type { AlarmJson } from "@/lib/db/queries/alarms";
+import { fetchJson } from "@/lib/fetcher";
+import { formatMetres } from "@/components/fleet/fleet-figures";
+import { ALARM_STATE_LABELS, PriorityMark, sinceText } from "@/components/fleet/fleet-status";
+
+// The alarm row of LOOK.md for the live screens: glyph and priority word, what and where in one line,
+// the value against the setpoint, the state in words, the time since it began, and at the end the
+// actions the role may take (acknowledge here; shelving, with its reason and expiry, on the alarms page).
+
+// A health alarm's value has no unit (a count, a duration, a spread): its label and state say enough.
+function valueText(a: AlarmJson): string {
+  if (!a.unit) return "";
+  const fmt = (v: number) => (a.unit === "m" ? formatMetres(v) : `${Number(v.toPrecision(4))}\u00a0${a.unit}`);
+  if (a.value == null) return "—";
+  if (a.setpoint == null) return fmt(a.value);
+  return `${fmt(a.value)} against ${fmt(a.setpoint)}`;
+}
+
+const NEEDS_ACK = new Set(["unacknowledged", "returned_unacknowledged"]);
+
+export function FleetAlarmList({
+  alarms,
+  canAcknowledge,
+  onChanged,
+  showSite = false,
+  alarmsHref,
+}: {
+  alarms: AlarmJson[];
+  canAcknowledge: boolean;
+  onChanged: () => void;
+  showSite?: boolean;
+  alarmsHref: string;
+}) {
+  const [busy, setBusy] = useState<string | null>(null);
+  const [problem, setProblem] = useState<string | null>(null);
+
+  async function acknowledge(id: string) {
+    setBusy(id);
+    setProblem(null);
+    try {
+      await fetchJson(`/api/alarms/${id}/acknowledge`, { method: "POST", body: "{}" });
+      onChanged();
+    } catch (e) {
+      setProblem((e as Error).message);
+    } finally {
+      setBusy(null);
+    }
+  }
+
+  if (!alarms.length) return <p className="px-3 py-4 text-sm text-muted">No alarm needs attention here.</p>;
+  return (
+    <div>
+      {problem && (
+        <p role="alert" className="border-l-4 border-critical px-3 py-2 text-sm">
+          <span aria-hidden="true">◆ </span>Could not acknowledge: {problem}
+        </p>
+      )}
+      <ul className="divide-y divide-rule">
+        {alarms.map((a) => (
+          <li key={a.id} className="flex flex-wrap items-center gap-x-4 gap-y-1 px-3 py-2 text-sm md:min-h-10 md:flex-nowrap" data-testid="alarm-row">
+            <span className="w-24 shrink-0"><PriorityMark priority={a.priority} /></span>
+            <span className="min-w-0 flex-1">
+              <Link href={`/alarms/${a.id}`} className="font-bold underline">{a.label}</Link>
+              {" · "}
+              {a.asset ? <Link href={`/assets/${a.asset.id}`} className="underline">{a.asset.name}</Link> : a.channel?.device_name}
+              {showSite && <span className="text-muted"> · {a.site.name}</span>}
+            </span>
+            <span className="figures shrink-0">{valueText(a)}</span>
+            <span className="shrink-0">{ALARM_STATE_LABELS[a.state] ?? a.state}</span>
+            <span className="figures shrink-0 text-muted" title={a.activated_at ? new Date(a.activated_at).toLocaleString() : undefined}>
+              for {sinceText(a.activated_at)}
+            </span>
+            {canAcknowledge && NEEDS_ACK.has(a.state) && (
+              <button type="button" className="btn-quiet h-8 shrink-0" disabled={busy === a.id} onClick={() => acknowledge(a.id)} aria-label={`Acknowledge ${a.label} on ${a.asset?.name ?? a.site.name}`}>
+                {busy === a.id ? "Acknowledging…" : "Acknowledge"}
+              </button>
+            )}
+          </li>
+        ))}
+      </ul>
+      <p className="px-3 py-2 text-sm">
+        <Link href={alarmsHref} className="underline">All alarms here, with shelving, in the alarms table</Link>
+      </p>
+    </div>
+  );
+}
