@@ -1,34 +1,14 @@
-import { PRIORITY_GLYPHS } from "@/lib/alarms/engine";
-import type { AlarmPriority, AlarmState } from "@/lib/alarms/state-machine";
+import { ALARM_STATE_WORDS } from "@/lib/alarms/vocabulary";
+import type { AlarmState } from "@/lib/alarms/state-machine";
 import type { AlarmJson } from "@/lib/db/queries/alarms";
 
-// Priority and state told in words and a glyph; colour only while the alarm is not normal.
-const PRIORITY_TEXT: Record<AlarmPriority, string> = { critical: "text-critical", high: "text-high", medium: "text-medium", low: "text-low" };
-
-export const STATE_WORDS: Record<AlarmState, string> = {
-  normal: "Normal",
-  unacknowledged: "Unacknowledged",
-  acknowledged: "Acknowledged",
-  returned_unacknowledged: "Cleared, unacknowledged",
-  shelved: "Shelved",
-  suppressed: "Suppressed",
-  out_of_service: "Out of service",
-};
-
-export function AlarmPriorityBadge({ priority, calm = false }: { priority: AlarmPriority; calm?: boolean }) {
-  return (
-    <span className={`inline-flex items-center gap-1 whitespace-nowrap font-bold ${calm ? "text-muted" : PRIORITY_TEXT[priority]}`}>
-      <span aria-hidden="true">{PRIORITY_GLYPHS[priority]}</span>
-      <span>{priority[0].toUpperCase() + priority.slice(1)}</span>
-    </span>
-  );
-}
+// An alarm's state in words (bold while it waits for someone), its figures and where it is.
 
 export function AlarmStateLabel({ state, awaitingReset = false }: { state: AlarmState; awaitingReset?: boolean }) {
   const unacked = state === "unacknowledged" || state === "returned_unacknowledged";
   return (
     <span className={unacked ? "font-bold" : state === "normal" ? "text-muted" : undefined} data-state={state}>
-      {STATE_WORDS[state]}
+      {ALARM_STATE_WORDS[state]}
       {awaitingReset && ", awaiting reset"}
     </span>
   );

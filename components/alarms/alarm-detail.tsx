@@ -11,7 +11,9 @@ import type { AlarmPriority, AlarmState } from "@/lib/alarms/state-machine";
 import type { AlarmJson } from "@/lib/db/queries/alarms";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { STACKED_TABLE } from "@/components/ui/form-fields";
-import { AlarmPriorityBadge, AlarmStateLabel, STATE_WORDS, alarmFigure, alarmWhere } from "@/components/alarms/alarm-badges";
+import { AlarmStateLabel, alarmFigure, alarmWhere } from "@/components/alarms/alarm-badges";
+import { PriorityBadge } from "@/components/ui/priority-badge";
+import { ALARM_STATE_WORDS } from "@/lib/alarms/vocabulary";
 import { AlarmActionDialog, type AlarmDialogMode } from "@/components/alarms/alarm-actions";
 
 interface AlarmEventJson {
@@ -71,7 +73,7 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
   return (
     <div className="space-y-6">
       <section className="card grid gap-4 p-4 sm:grid-cols-4" aria-label="Now">
-        <div><p className="label">Priority</p><AlarmPriorityBadge priority={data.priority as AlarmPriority} calm={state === "normal"} /></div>
+        <div><p className="label">Priority</p><PriorityBadge priority={data.priority as AlarmPriority} calm={state === "normal"} /></div>
         <div><p className="label">State</p><AlarmStateLabel state={state} awaitingReset={data.awaiting_reset} />{data.shelved_until && <p className="text-sm text-muted">until {stamp(data.shelved_until)} — {data.shelve_reason}</p>}</div>
         <div><p className="label">Value / setpoint</p><p className="figures">{alarmFigure(data.value, data.unit, data.kind)}{data.setpoint !== null && <span className="text-muted"> / {alarmFigure(data.setpoint, data.unit, data.kind)}</span>}</p></div>
         <div><p className="label">Condition</p><p>{data.condition_active ? "Active" : "Clear"}</p></div>
@@ -93,7 +95,7 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
         {data.asset && data.channel === null && <Link className="btn-quiet" href={`/alarms/setpoints/${data.asset.id}`}>Setpoints</Link>}
         <Link className="btn-quiet" href={`/alarms/on-call/${data.site.id}`}>On-call list</Link>
       </div>
-      {problem && <p role="alert" className="field-error"><span aria-hidden="true">◆ </span>{problem}</p>}
+      {problem && <p role="alert" className="field-error">{problem}</p>}
 
       <section className="card overflow-x-auto" aria-labelledby="alarm-events-title">
         <h2 id="alarm-events-title" className="px-3 pt-3 text-lg font-bold">Events</h2>
@@ -106,7 +108,7 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
               <tr key={e.id}>
                 <td data-label="When" className="figures whitespace-nowrap">{stamp(e.at)}</td>
                 <td data-label="Event">{e.kind.replaceAll("_", " ")}</td>
-                <td data-label="State" className="whitespace-nowrap">{e.from_state && e.to_state ? `${STATE_WORDS[e.from_state]} → ${STATE_WORDS[e.to_state]}` : "—"}</td>
+                <td data-label="State" className="whitespace-nowrap">{e.from_state && e.to_state ? `${ALARM_STATE_WORDS[e.from_state]} → ${ALARM_STATE_WORDS[e.to_state]}` : "—"}</td>
                 <td data-label="Cause">{e.cause}</td>
                 <td data-label="Value" className="figures whitespace-nowrap">{alarmFigure(e.value, data.unit, data.kind)}</td>
                 <td data-label="Setpoint" className="figures whitespace-nowrap">{alarmFigure(e.setpoint, data.unit, data.kind)}</td>

@@ -28,8 +28,8 @@ const METRICS: { key: keyof AlarmHealthJson["metrics"]; label: string }[] = [
 
 const VERDICT: Record<BenchmarkVerdict, { text: string; className: string }> = {
   within: { text: "Within", className: "" },
-  manageable: { text: "■ Manageable", className: "font-bold text-medium" },
-  exceeds: { text: "▲ Beyond", className: "font-bold text-high" },
+  manageable: { text: "Manageable", className: "font-bold text-medium" },
+  exceeds: { text: "Beyond", className: "font-bold text-high" },
   no_data: { text: "No data", className: "text-muted" },
 };
 

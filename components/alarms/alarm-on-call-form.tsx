@@ -64,7 +64,7 @@ function OnCallFields({ data, editable, onSaved }: { data: OnCallJson; editable:
                 <span className="figures w-6 text-right">{i + 1}.</span>
                 <span className="min-w-0 flex-1">
                   <span className="font-bold">{p?.name || p?.email}</span> <span className="text-muted">{p?.email} · {p?.role}</span>
-                  {errors[`user_ids.${i}`] && <span className="field-error block"><span aria-hidden="true">◆ </span>{errors[`user_ids.${i}`]}</span>}
+                  {errors[`user_ids.${i}`] && <span className="field-error block">{errors[`user_ids.${i}`]}</span>}
                 </span>
                 {editable && (
                   <span className="flex gap-2">

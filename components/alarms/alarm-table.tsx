@@ -16,7 +16,9 @@ import type { AlarmJson } from "@/lib/db/queries/alarms";
 import type { SiteJson } from "@/lib/db/queries/sites";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { STACKED_TABLE } from "@/components/ui/form-fields";
-import { AlarmPriorityBadge, AlarmStateLabel, STATE_WORDS, alarmFigure, alarmWhere } from "@/components/alarms/alarm-badges";
+import { AlarmStateLabel, alarmFigure, alarmWhere } from "@/components/alarms/alarm-badges";
+import { PriorityBadge } from "@/components/ui/priority-badge";
+import { ALARM_STATE_WORDS } from "@/lib/alarms/vocabulary";
 import { AlarmActionDialog, type AlarmDialogMode } from "@/components/alarms/alarm-actions";
 
 interface AlarmPage {
@@ -138,7 +140,7 @@ export function AlarmTable({ role }: { role: Role }) {
       {
         id: "priority",
         header: "Priority",
-        cell: ({ row }) => <AlarmPriorityBadge priority={row.original.priority as AlarmPriority} calm={row.original.state === "normal"} />,
+        cell: ({ row }) => <PriorityBadge priority={row.original.priority as AlarmPriority} calm={row.original.state === "normal"} />,
       },
       {
         id: "alarm",
@@ -243,7 +245,7 @@ export function AlarmTable({ role }: { role: Role }) {
           <select id="alarm-filter-state" className="field" value={filters.state} onChange={(e) => setParam({ state: e.target.value === "active" ? "" : e.target.value })}>
             <option value="active">Needing attention or hidden (not normal)</option>
             <option value="all">All states</option>
-            {ALARM_STATES.map((s) => <option key={s} value={s}>{STATE_WORDS[s]}</option>)}
+            {ALARM_STATES.map((s) => <option key={s} value={s}>{ALARM_STATE_WORDS[s]}</option>)}
           </select>
         </div>
         <div>

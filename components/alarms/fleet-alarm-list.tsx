@@ -5,7 +5,9 @@ import { useState } from "react";
 import type { AlarmJson } from "@/lib/db/queries/alarms";
 import { fetchJson } from "@/lib/fetcher";
 import { formatMetres } from "@/components/fleet/fleet-figures";
-import { ALARM_STATE_LABELS, PriorityMark, sinceText } from "@/components/fleet/fleet-status";
+import { sinceText } from "@/components/fleet/fleet-status";
+import { PriorityBadge } from "@/components/ui/priority-badge";
+import { alarmStateWord } from "@/lib/alarms/vocabulary";
 
 // The alarm row of LOOK.md for the live screens: glyph and priority word, what and where in one line,
 // the value against the setpoint, the state in words, the time since it began, and at the end the
@@ -56,13 +58,13 @@ export function FleetAlarmList({
     <div>
       {problem && (
         <p role="alert" className="border-l-4 border-critical px-3 py-2 text-sm">
-          <span aria-hidden="true">◆ </span>Could not acknowledge: {problem}
+          Could not acknowledge: {problem}
         </p>
       )}
       <ul className="divide-y divide-rule">
         {alarms.map((a) => (
           <li key={a.id} className="flex flex-wrap items-center gap-x-4 gap-y-1 px-3 py-2 text-sm md:min-h-10 md:flex-nowrap" data-testid="alarm-row">
-            <span className="w-24 shrink-0"><PriorityMark priority={a.priority} /></span>
+            <span className="w-24 shrink-0"><PriorityBadge priority={a.priority} /></span>
             <span className="min-w-0 flex-1">
               <Link href={`/alarms/${a.id}`} className="font-bold underline">{a.label}</Link>
               {" · "}
@@ -70,7 +72,7 @@ export function FleetAlarmList({
               {showSite && <span className="text-muted"> · {a.site.name}</span>}
             </span>
             <span className="figures shrink-0">{valueText(a)}</span>
-            <span className="shrink-0">{ALARM_STATE_LABELS[a.state] ?? a.state}</span>
+            <span className="shrink-0">{alarmStateWord(a.state)}</span>
             <span className="figures shrink-0 text-muted" title={a.activated_at ? new Date(a.activated_at).toLocaleString() : undefined}>
               for {sinceText(a.activated_at)}
             </span>

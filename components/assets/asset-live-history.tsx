@@ -1,7 +1,9 @@
 import type { AssetOverviewJson } from "@/lib/db/queries/overview-asset";
 import { isAlarmKind, isLevelAlarmKind } from "@/lib/alarms/engine";
 import { formatDuration, formatMetres } from "@/components/fleet/fleet-figures";
-import { ALARM_STATE_LABELS, FlagTag, PriorityMark } from "@/components/fleet/fleet-status";
+import { FlagTag } from "@/components/fleet/fleet-status";
+import { PriorityBadge } from "@/components/ui/priority-badge";
+import { alarmStateWord } from "@/lib/alarms/vocabulary";
 import { STACKED_TABLE } from "@/components/ui/form-fields";
 
 // How the asset got here: its alarm history, the health flags of the period, its manual dips and its
@@ -28,10 +30,10 @@ export function AlarmHistory({ events }: { events: AssetOverviewJson["alarm_hist
         {events.map((e) => (
           <tr key={e.id}>
             <td data-label="When" className="figures whitespace-nowrap">{when(e.at)}</td>
-            <td data-label="Alarm">{e.priority && <PriorityMark priority={e.priority} />} {e.alarm_label}</td>
+            <td data-label="Alarm">{e.priority && <PriorityBadge priority={e.priority} />} {e.alarm_label}</td>
             <td data-label="Change">
               {e.from_state && e.to_state && e.from_state !== e.to_state
-                ? `${ALARM_STATE_LABELS[e.from_state] ?? e.from_state} → ${ALARM_STATE_LABELS[e.to_state] ?? e.to_state}`
+                ? `${alarmStateWord(e.from_state)} → ${alarmStateWord(e.to_state)}`
                 : e.kind.replace(/_/g, " ")}
               {e.comment && <span className="block text-xs text-muted">“{e.comment}”</span>}
             </td>

@@ -105,7 +105,7 @@ export function RangePicker({ period }: { period: Period }) {
             <input id="range-to" type="datetime-local" className="field h-9 py-1" value={to} onChange={(e) => setTo(e.target.value)} />
           </div>
           <button type="submit" className="btn h-9">Show range</button>
-          {problem && <p id="range-problem" role="alert" className="field-error w-full"><span aria-hidden="true">◆ </span>{problem}</p>}
+          {problem && <p id="range-problem" role="alert" className="field-error w-full">{problem}</p>}
         </form>
       )}
     </div>

@@ -154,7 +154,7 @@ function Trend({ o, period }: { o: Overview; period: Period }) {
       )}
       <p className="mt-1 text-xs text-muted">
         From {series.data.source}. Raw is what a unit without temperature compensation would report (a fixed speed of sound for 20 °C).
-        {series.error && <span role="alert" className="ml-2 font-bold text-critical"><span aria-hidden="true">◆ </span>The last refresh failed: {series.error.message}</span>}
+        {series.error && <span role="alert" className="ml-2 font-bold text-critical">The last refresh failed: {series.error.message}</span>}
       </p>
     </>
   );

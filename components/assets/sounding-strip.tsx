@@ -1,5 +1,6 @@
 import { formatMetres } from "@/components/fleet/fleet-figures";
-import { PRIORITY_GLYPH, type Priority } from "@/components/fleet/fleet-status";
+import type { Priority } from "@/components/fleet/fleet-status";
+import { priorityGlyph } from "@/components/ui/priority-badge";
 
 // The sounding strip of LOOK.md: a slim vertical scale, the contents as a flat fill up to the surface,
 // the setpoints as short labelled ticks on the right, the last 24 hours' minimum–maximum as a bracket
@@ -85,7 +86,7 @@ export function SoundingStrip({
             <line x1={SCALE_X + SCALE_W} x2={SCALE_X + SCALE_W + 6} y1={ty} y2={ty} className={s.alarm ? PRIORITY_STROKE[s.alarm] : "stroke-ink"} strokeWidth={s.alarm ? 2 : 1} />
             <text x={SCALE_X + SCALE_W + 8} y={ty + 3} className={`font-mono text-[9px] ${s.alarm ? `${PRIORITY_FILL[s.alarm]} font-bold` : "fill-muted"}`}>
               {s.key.toUpperCase()}
-              {s.alarm ? ` ${PRIORITY_GLYPH[s.alarm]}` : ""}
+              {s.alarm ? ` ${priorityGlyph(s.alarm)}` : ""}
             </text>
           </g>
         );

@@ -27,7 +27,6 @@ export function CalibrationPreview({ preview }: { preview: CalibrationPreviewJso
       </h3>
       {preview.proposed.note && (
         <p role="note" className="border-l-4 border-medium bg-card px-3 py-2 text-sm">
-          <span aria-hidden="true">■ </span>
           {preview.proposed.note}
         </p>
       )}

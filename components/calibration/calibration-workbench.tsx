@@ -168,7 +168,6 @@ export function CalibrationWorkbench({ assetId, canRecord, canApply }: { assetId
           </button>
           {problem && (
             <p role="alert" className="border-l-4 border-critical bg-card px-3 py-2 text-sm">
-              <span aria-hidden="true">◆ </span>
               {problem}
             </p>
           )}

@@ -48,7 +48,6 @@ function profileFacts(d: DeviceJson): [string, React.ReactNode][] {
 function Warning({ children }: { children: React.ReactNode }) {
   return (
     <p role="alert" className="border-l-4 border-high bg-card px-3 py-2 text-sm">
-      <span aria-hidden="true" className="text-high">▲ </span>
       {children}
     </p>
   );

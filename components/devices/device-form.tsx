@@ -204,7 +204,7 @@ export function DeviceForm({ device }: { device?: DeviceJson }) {
 
       <fieldset className="space-y-3 sm:col-span-2">
         <legend className="mb-2 text-lg font-bold">Channels</legend>
-        {read("channels") && <p className="field-error"><span aria-hidden="true">◆ </span>{read("channels")}</p>}
+        {read("channels") && <p className="field-error">{read("channels")}</p>}
         {!values.site_id && <p className="text-sm text-muted">Choose the site first: a channel watches an asset at the device&apos;s site.</p>}
         {channels.map((c, row) => {
           const cid = (field: string) => id(`channels.${row}.${field}`);

@@ -57,7 +57,7 @@ const columns = [
     cell: (c) => (
       <span className="figures">
         {c.getValue() ? formatAge(c.getValue() as string) : "never"}
-        {c.row.original.offline && <span className="ml-1 font-sans font-bold text-high"><span aria-hidden="true">▲ </span>offline</span>}
+        {c.row.original.offline && <span className="ml-1 font-sans font-bold text-high">offline</span>}
       </span>
     ),
   }),

@@ -68,7 +68,7 @@ export function DeviceKeyActions({ deviceId, hasActiveKey, onChanged }: { device
       <dialog ref={dialog} aria-labelledby="key-dialog-title" aria-describedby="key-dialog-body" className="card fixed inset-0 m-auto h-fit max-w-md p-6 text-ink backdrop:bg-ink/40">
         <h2 id="key-dialog-title" className="mb-2 text-lg font-bold">{wording.title}</h2>
         <p id="key-dialog-body" className="mb-4 text-sm">{wording.body}</p>
-        {error && <p role="alert" className="field-error mb-4"><span aria-hidden="true">◆ </span>{error}</p>}
+        {error && <p role="alert" className="field-error mb-4">{error}</p>}
         <div className="flex flex-wrap justify-end gap-3">
           <button type="button" className="btn-quiet" onClick={() => dialog.current?.close()}>Cancel</button>
           <button type="button" className="btn" onClick={confirm} disabled={busy}>{busy ? "Working…" : wording.verb}</button>

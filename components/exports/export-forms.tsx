@@ -41,7 +41,6 @@ function RangeFields({ idPrefix, from, to, setFrom, setTo, message }: { idPrefix
       </div>
       {message && (
         <p id={`${idPrefix}-range-error`} role="alert" className="field-error">
-          <span aria-hidden="true">◆ </span>
           {message}
         </p>
       )}
@@ -119,7 +118,7 @@ function MeasurementsExport() {
           ))}
           {assets.data && shown.length === 0 && <p className="text-sm text-muted">No assets here.</p>}
         </div>
-        {tooMany && <p className="field-error"><span aria-hidden="true">◆ </span>{tooMany}</p>}
+        {tooMany && <p className="field-error">{tooMany}</p>}
       </fieldset>
       <RangeFields idPrefix="measurements" {...range} />
       <Download href={href} label="Download measurements CSV" why={why} />

@@ -66,7 +66,7 @@ function SiteCard({ site, now }: { site: SiteSummary; now: number }) {
         <span className="text-sm"><AlarmCounts counts={site.alarms} /></span>
         <span className="text-sm">
           {site.devices.offline > 0 ? (
-            <span className="font-bold text-high"><span aria-hidden="true">▲ </span><span className="figures">{site.devices.offline}</span> of <span className="figures">{site.devices.total}</span> devices offline</span>
+            <span className="font-bold text-high"><span className="figures">{site.devices.offline}</span> of <span className="figures">{site.devices.total}</span> devices offline</span>
           ) : (
             <span className="text-muted"><span className="figures">{site.devices.total}</span> device{site.devices.total === 1 ? "" : "s"}, none offline</span>
           )}
@@ -136,7 +136,6 @@ export function FleetOverview() {
         <span><span className="figures">{t.sites}</span> sites · <span className="figures">{t.tanks}</span> tanks · <span className="figures">{t.bays}</span> bays, <span className="figures">{t.bays_occupied}</span> occupied</span>
         <span><AlarmCounts counts={t.alarms} /></span>
         <span className={t.devices_offline ? "font-bold text-high" : "text-muted"}>
-          {t.devices_offline > 0 && <span aria-hidden="true">▲ </span>}
           <span className="figures">{t.devices_offline}</span> of <span className="figures">{t.devices}</span> devices offline
         </span>
         <span className="text-muted">Live · as of <time dateTime={data.generated_at} className="figures">{new Date(data.generated_at).toLocaleTimeString()}</time></span>

@@ -1,30 +1,13 @@
-import { ALARM_CAUTION, PRIORITY_GLYPHS } from "@/lib/alarms/engine";
+import { ALARM_CAUTION } from "@/lib/alarms/engine";
+import { PriorityBadge } from "@/components/ui/priority-badge";
 import type { PriorityCounts } from "@/lib/db/queries/overview-alarms";
 import { ageWhenOverdue, formatAge } from "@/components/fleet/fleet-figures";
 
-// Words, glyphs and marks every live screen uses for states: a priority is a glyph and a word (its
-// colour only repeats them), a sensor fault a hatched tag with the flag's name.
+// Marks every live screen uses for states: alarm counts by priority (drawn by the priority badge), a
+// sensor fault a hatched tag with the flag's name.
 
 export const PRIORITIES = ["critical", "high", "medium", "low"] as const;
 export type Priority = (typeof PRIORITIES)[number];
-
-export const PRIORITY_GLYPH: Record<Priority, string> = PRIORITY_GLYPHS;
-const PRIORITY_WORD: Record<Priority, string> = { critical: "Critical", high: "High", medium: "Medium", low: "Low" };
-const PRIORITY_TEXT: Record<Priority, string> = { critical: "text-critical", high: "text-high", medium: "text-medium", low: "text-low" };
-
-function asPriority(p: string): Priority {
-  return (PRIORITIES as readonly string[]).includes(p) ? (p as Priority) : "low";
-}
-
-export const ALARM_STATE_LABELS: Record<string, string> = {
-  normal: "Normal",
-  unacknowledged: "Unacknowledged",
-  acknowledged: "Acknowledged",
-  returned_unacknowledged: "Returned, unacknowledged",
-  shelved: "Shelved",
-  suppressed: "Suppressed",
-  out_of_service: "Out of service",
-};
 
 export const FLAG_LABELS: Record<string, string> = {
   drift: "Drift",
@@ -38,25 +21,13 @@ export const FLAG_LABELS: Record<string, string> = {
 
 export const flagLabel = (flag: string) => FLAG_LABELS[flag] ?? flag;
 
-/** Glyph and word of a priority, in its colour. */
-export function PriorityMark({ priority, count }: { priority: string; count?: number }) {
-  const p = asPriority(priority);
-  return (
-    <span className={`inline-flex items-center gap-1 font-bold ${PRIORITY_TEXT[p]}`}>
-      <span aria-hidden="true">{PRIORITY_GLYPH[p]}</span>
-      {count != null && <span className="figures">{count}</span>}
-      <span>{count != null ? PRIORITY_WORD[p].toLowerCase() : PRIORITY_WORD[p]}</span>
-    </span>
-  );
-}
-
 /** Alarms needing attention by priority; "No alarms" when there are none (no colour then). */
 export function AlarmCounts({ counts }: { counts: PriorityCounts }) {
   const present = PRIORITIES.filter((p) => counts[p] > 0);
   if (!present.length) return <span className="text-muted">No alarms</span>;
   return (
     <span className="inline-flex flex-wrap gap-x-3 gap-y-1">
-      {present.map((p) => <PriorityMark key={p} priority={p} count={counts[p]} />)}
+      {present.map((p) => <PriorityBadge key={p} priority={p} count={counts[p]} />)}
     </span>
   );
 }

@@ -22,13 +22,13 @@ export function UploadStatusText({ upload }: { upload: Pick<UploadJson, "status"
     case "partial":
       return (
         <span className="text-medium">
-          <span aria-hidden="true">■ </span>good rows imported, {upload.error_count} skipped
+          good rows imported, {upload.error_count} skipped
         </span>
       );
     case "rejected":
       return (
         <span className="font-bold text-critical">
-          <span aria-hidden="true">◆ </span>rejected, nothing imported
+          rejected, nothing imported
         </span>
       );
   }

@@ -128,7 +128,7 @@ export function ImportUploader() {
             <option value="">{targets ? `Choose a ${targetWord}` : "Loading…"}</option>
             {targets?.map((t) => <option key={t.id} value={t.id}>{t.label}</option>)}
           </select>
-          {error && <p className="field-error"><span aria-hidden="true">◆ </span>Could not load the list: {error.message}</p>}
+          {error && <p className="field-error">Could not load the list: {error.message}</p>}
         </div>
         <div className="text-sm">
           <p>
@@ -160,7 +160,6 @@ export function ImportUploader() {
         </label>
         {problem && (
           <p role="alert" className="border-l-4 border-critical bg-card px-3 py-2 text-sm">
-            <span aria-hidden="true">◆ </span>
             {problem}
           </p>
         )}

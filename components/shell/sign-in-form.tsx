@@ -48,7 +48,6 @@ export function SignInForm({ callbackUrl, initialError }: { callbackUrl: string;
     <form onSubmit={onSubmit} noValidate className="space-y-4" aria-describedby={error ? "sign-in-error" : undefined}>
       {error && (
         <p id="sign-in-error" role="alert" className="rounded border border-critical bg-card px-3 py-2 text-sm text-critical">
-          <span aria-hidden="true">◆ </span>
           {error}
         </p>
       )}

@@ -2,7 +2,8 @@ import Link from "next/link";
 import type { AlarmJson } from "@/lib/db/queries/alarms";
 import type { SiteAssetJson } from "@/lib/db/queries/overview-site";
 import { formatDaysToReorder, formatLitres, formatMetres, formatPercent } from "@/components/fleet/fleet-figures";
-import { FlagTag, OverdueAge, PriorityMark, type Priority } from "@/components/fleet/fleet-status";
+import { FlagTag, OverdueAge, type Priority } from "@/components/fleet/fleet-status";
+import { PriorityBadge } from "@/components/ui/priority-badge";
 import { Sparkline } from "@/components/sites/site-live-sparkline";
 import { SoundingStrip } from "@/components/assets/sounding-strip";
 
@@ -26,7 +27,7 @@ export function TankCard({ tank, alarms, now }: { tank: SiteAssetJson; alarms: A
         </h3>
         {[...new Set(tank.flags.map((f) => f.flag))].map((f) => <FlagTag key={f} flag={f} />)}
         {mine.map((a) => (
-          <span key={a.id} className="text-sm"><PriorityMark priority={a.priority} /> {a.label}</span>
+          <span key={a.id} className="text-sm"><PriorityBadge priority={a.priority} /> {a.label}</span>
         ))}
       </header>
       <div className="flex gap-4">

@@ -31,7 +31,6 @@ export function SiteLive({ siteId, canAcknowledge }: { siteId: string; canAcknow
           <span className="figures">{data.tanks.length}</span> tanks · <span className="figures">{data.bays.length}</span> bays · <span className="figures">{data.points.length}</span> points
         </span>
         <span className={data.devices.offline ? "font-bold text-high" : "text-muted"}>
-          {data.devices.offline > 0 && <span aria-hidden="true">▲ </span>}
           <span className="figures">{data.devices.offline}</span> of <span className="figures">{data.devices.total}</span> devices offline
         </span>
         <span className="text-muted">Time zone {data.site.time_zone}</span>

@@ -10,7 +10,6 @@ export function Loading({ label = "Loading…" }: { label?: string }) {
 export function LoadError({ error, retry }: { error: Error; retry?: () => void }) {
   return (
     <div role="alert" className="flex items-center gap-3 border-l-4 border-critical bg-card px-3 py-3 text-sm">
-      <span aria-hidden="true">◆</span>
       <span>Could not load: {error.message}</span>
       {retry && (
         <button type="button" className="btn-quiet h-8" onClick={retry}>

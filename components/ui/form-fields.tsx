@@ -39,7 +39,7 @@ function Described({ id, error, hint }: Pick<FieldProps, "id" | "error" | "hint"
   return (
     <>
       {hint && <p id={`${id}-hint`} className="mt-1 text-xs text-muted">{hint}</p>}
-      {error && <p id={`${id}-error`} className="field-error"><span aria-hidden="true">◆ </span>{error}</p>}
+      {error && <p id={`${id}-error`} className="field-error">{error}</p>}
     </>
   );
 }
@@ -101,10 +101,10 @@ export function errorReader(errors: FieldErrors) {
 
 export function FormAlert({ errors, rest }: { errors: FieldErrors; rest: string[] }) {
   if (!Object.keys(errors).length) return null;
-  const lines = [errors._ ?? "Not saved: correct the fields marked ◆.", ...rest];
+  const lines = [errors._ ?? "Not saved: correct the fields marked below.", ...rest];
   return (
     <div role="alert" className="border-l-4 border-critical bg-card px-3 py-2 text-sm">
-      {lines.map((line) => <p key={line}><span aria-hidden="true">◆ </span>{line}</p>)}
+      {lines.map((line) => <p key={line}>{line}</p>)}
     </div>
   );
 }

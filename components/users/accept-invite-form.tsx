@@ -40,7 +40,7 @@ export function AcceptInviteForm({ token }: { token: string }) {
   }
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4">
-      {errors._ && <p role="alert" className="field-error">◆ {errors._}</p>}
+      {errors._ && <p role="alert" className="field-error">{errors._}</p>}
       <div>
         <label htmlFor="password" className="label">New password</label>
         <input id="password" name="password" type="password" autoComplete="new-password" className="field" />

@@ -28,7 +28,7 @@ export function UsersManager({ currentUserId }: { currentUserId: string }) {
     <div className="space-y-6">
       <InviteForm onInvited={(email) => { setNotice(`Invite sent to ${email}.`); mutate(); }} />
       {notice && <p role="status" className="text-sm">{notice}</p>}
-      {actionError && <p role="alert" className="text-sm text-critical">◆ {actionError}</p>}
+      {actionError && <p role="alert" className="text-sm text-critical">{actionError}</p>}
       <section className="card overflow-x-auto" aria-labelledby="users-heading">
         <h2 id="users-heading" className="px-3 pt-3 text-lg font-bold">People</h2>
         {isLoading && <Loading />}
