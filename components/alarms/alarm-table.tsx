@@ -3,19 +3,18 @@
 import Link from "next/link";
 import useSWR from "swr";
 import { useMemo, useState } from "react";
-import { usePathname, useRouter, useSearchParams } from "next/navigation";
-import { flexRender, getCoreRowModel, useReactTable, type ColumnDef, type RowSelectionState, type SortingState } from "@tanstack/react-table";
+import { getCoreRowModel, useReactTable, type ColumnDef, type RowSelectionState, type SortingState } from "@tanstack/react-table";
 import { formatDistanceToNowStrict } from "date-fns";
 import { can, type Role } from "@/lib/auth/permissions";
 import { swrFetcher } from "@/lib/fetcher";
 import { ALARM_KINDS, alarmKindLabel, needsAcknowledgement, type AlarmKind } from "@/lib/alarms/engine";
-import { ALARM_PRIORITIES, ALARM_STATES, type AlarmPriority, type AlarmState } from "@/lib/alarms/state-machine";
-import { ALARM_SORTS, type AlarmSort } from "@/lib/validations/alarm";
-import { isUuid } from "@/lib/validations/common";
+import { ALARM_PRIORITIES, ALARM_STATES, type AlarmState } from "@/lib/alarms/state-machine";
+import { alarmListQuerySchema, type AlarmSort } from "@/lib/validations/alarm";
 import type { AlarmJson } from "@/lib/db/queries/alarms";
 import type { SiteJson } from "@/lib/db/queries/sites";
-import { Loading, LoadError } from "@/components/ui/data-state";
-import { STACKED_TABLE } from "@/components/ui/form-fields";
+import { DataTableView } from "@/components/ui/data-table";
+import { useListParams } from "@/components/ui/list-params";
+import { ClearFilters } from "@/components/ui/clear-filters";
 import { AlarmStateLabel, alarmFigure, alarmWhere } from "@/components/alarms/alarm-badges";
 import { PriorityBadge } from "@/components/ui/priority-badge";
 import { ALARM_STATE_WORDS } from "@/lib/alarms/vocabulary";
@@ -44,6 +43,9 @@ function stateToSort(s: SortingState): AlarmSort {
   return (s[0].desc ? `-${key}` : key) as AlarmSort;
 }
 
+const FILTER_KEYS = ["state", "site_id", "priority", "kind", "from", "to"] as const;
+const URL_KEYS = [...FILTER_KEYS, "sort", "page"] as const;
+
 interface Filters {
   state: string;
   site_id: string;
@@ -55,18 +57,18 @@ interface Filters {
   page: number;
 }
 
-function readFilters(params: URLSearchParams): Filters {
-  const oneOf = (key: string, allowed: readonly string[], fallback = "") => (allowed.includes(params.get(key) ?? "") ? (params.get(key) as string) : fallback);
-  const date = (key: string) => (/^\d{4}-\d{2}-\d{2}$/.test(params.get(key) ?? "") ? (params.get(key) as string) : "");
+/** The URL's values as the table uses them: "all" states is the one value beyond the API's schema. */
+function asFilters(values: Partial<Record<(typeof URL_KEYS)[number], string>>, rawState: string | null): Filters {
+  const day = (v?: string) => (v && /^\d{4}-\d{2}-\d{2}$/.test(v) ? v : "");
   return {
-    state: oneOf("state", ["active", "all", ...ALARM_STATES], "active"),
-    site_id: isUuid(params.get("site_id") ?? "") ? (params.get("site_id") as string) : "",
-    priority: oneOf("priority", ALARM_PRIORITIES),
-    kind: oneOf("kind", ALARM_KINDS),
-    from: date("from"),
-    to: date("to"),
-    sort: oneOf("sort", ALARM_SORTS, "priority") as AlarmSort,
-    page: Math.max(1, Number(params.get("page") ?? 1) || 1),
+    state: rawState === "all" ? "all" : values.state && !values.state.includes(",") ? values.state : "active",
+    site_id: values.site_id ?? "",
+    priority: values.priority && !values.priority.includes(",") ? values.priority : "",
+    kind: values.kind && !values.kind.includes(",") ? values.kind : "",
+    from: day(values.from),
+    to: day(values.to),
+    sort: (values.sort ?? "priority") as AlarmSort,
+    page: Number(values.page ?? 1),
   };
 }
 
@@ -84,10 +86,8 @@ function apiQuery(f: Filters): string {
 
 /** The alarms list: server-paged and sorted, filters kept in the URL, acknowledge and shelve where the role allows. */
 export function AlarmTable({ role }: { role: Role }) {
-  const router = useRouter();
-  const pathname = usePathname();
-  const params = useSearchParams();
-  const filters = readFilters(new URLSearchParams(params.toString()));
+  const list = useListParams(alarmListQuerySchema, URL_KEYS, FILTER_KEYS);
+  const filters = asFilters(list.values, list.raw("state"));
   const { data, error, isLoading, mutate } = useSWR<AlarmPage>(`/api/alarms?${apiQuery(filters)}`, swrFetcher, { refreshInterval: 15_000, keepPreviousData: true });
   const sites = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
   const [selection, setSelection] = useState<RowSelectionState>({});
@@ -96,16 +96,9 @@ export function AlarmTable({ role }: { role: Role }) {
   const mayAck = can(role, "alarm:acknowledge");
   const mayShelve = can(role, "alarm:shelve");
 
-  function setParam(changes: Record<string, string>) {
-    const next = new URLSearchParams(params.toString());
-    for (const [k, v] of Object.entries(changes)) {
-      if (v) next.set(k, v);
-      else next.delete(k);
-    }
-    if (!("page" in changes)) next.delete("page");
-    const qs = next.toString();
+  function setParam(changes: Partial<Record<(typeof URL_KEYS)[number], string>>) {
     setSelection({});
-    router.replace(qs ? `${pathname}?${qs}` : pathname, { scroll: false });
+    list.set(changes);
   }
 
   const columns = useMemo<ColumnDef<AlarmJson>[]>(() => {
@@ -139,11 +132,14 @@ export function AlarmTable({ role }: { role: Role }) {
     cols.push(
       {
         id: "priority",
+        accessorFn: (a) => a.priority,
         header: "Priority",
-        cell: ({ row }) => <PriorityBadge priority={row.original.priority as AlarmPriority} calm={row.original.state === "normal"} />,
+        sortDescFirst: false,
+        cell: ({ row }) => <PriorityBadge priority={row.original.priority} calm={row.original.state === "normal"} />,
       },
       {
         id: "alarm",
+        accessorFn: (a) => a.asset?.name ?? a.label,
         header: "Alarm",
         cell: ({ row }) => (
           <Link href={`/alarms/${row.original.id}`} className="hover:underline">
@@ -152,7 +148,7 @@ export function AlarmTable({ role }: { role: Role }) {
           </Link>
         ),
       },
-      { id: "site", header: "Site", cell: ({ row }) => row.original.site.name },
+      { id: "site", accessorFn: (a) => a.site.name, header: "Site" },
       {
         id: "value",
         header: "Value / setpoint",
@@ -166,6 +162,7 @@ export function AlarmTable({ role }: { role: Role }) {
       },
       {
         id: "state",
+        accessorFn: (a) => a.state,
         header: "State",
         cell: ({ row }) => (
           <>
@@ -176,6 +173,7 @@ export function AlarmTable({ role }: { role: Role }) {
       },
       {
         id: "since",
+        accessorFn: (a) => a.activated_at,
         header: "Since",
         cell: ({ row }) =>
           row.original.state === "normal" ? (
@@ -242,41 +240,45 @@ export function AlarmTable({ role }: { role: Role }) {
       <div className="flex flex-wrap items-end gap-4" role="group" aria-label="Filters">
         <div>
           <label htmlFor="alarm-filter-state" className="label">State</label>
-          <select id="alarm-filter-state" className="field" value={filters.state} onChange={(e) => setParam({ state: e.target.value === "active" ? "" : e.target.value })}>
-            <option value="active">Needing attention or hidden (not normal)</option>
+          <select id="alarm-filter-state" className="field w-auto" value={filters.state} onChange={(e) => setParam({ state: e.target.value === "active" ? "" : e.target.value })}>
+            <option value="active">Not normal</option>
             <option value="all">All states</option>
             {ALARM_STATES.map((s) => <option key={s} value={s}>{ALARM_STATE_WORDS[s]}</option>)}
           </select>
         </div>
         <div>
           <label htmlFor="alarm-filter-site" className="label">Site</label>
-          <select id="alarm-filter-site" className="field" value={filters.site_id} onChange={(e) => setParam({ site_id: e.target.value })}>
+          <select id="alarm-filter-site" className="field w-auto" value={filters.site_id} onChange={(e) => setParam({ site_id: e.target.value })}>
             <option value="">All sites</option>
             {sites.data?.items.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
           </select>
         </div>
         <div>
           <label htmlFor="alarm-filter-priority" className="label">Priority</label>
-          <select id="alarm-filter-priority" className="field" value={filters.priority} onChange={(e) => setParam({ priority: e.target.value })}>
+          <select id="alarm-filter-priority" className="field w-auto" value={filters.priority} onChange={(e) => setParam({ priority: e.target.value })}>
             <option value="">All priorities</option>
             {ALARM_PRIORITIES.map((p) => <option key={p} value={p} className="capitalize">{p}</option>)}
           </select>
         </div>
         <div>
           <label htmlFor="alarm-filter-kind" className="label">Condition</label>
-          <select id="alarm-filter-kind" className="field" value={filters.kind} onChange={(e) => setParam({ kind: e.target.value })}>
+          <select id="alarm-filter-kind" className="field w-auto" value={filters.kind} onChange={(e) => setParam({ kind: e.target.value })}>
             <option value="">All conditions</option>
             {ALARM_KINDS.map((k) => <option key={k} value={k}>{alarmKindLabel(k as AlarmKind)}</option>)}
           </select>
         </div>
-        <div>
-          <label htmlFor="alarm-filter-from" className="label">Began from</label>
-          <input id="alarm-filter-from" type="date" className="field figures" value={filters.from} onChange={(e) => setParam({ from: e.target.value })} />
-        </div>
-        <div>
-          <label htmlFor="alarm-filter-to" className="label">to</label>
-          <input id="alarm-filter-to" type="date" className="field figures" value={filters.to} onChange={(e) => setParam({ to: e.target.value })} />
-        </div>
+        <fieldset className="flex items-end gap-2 whitespace-nowrap">
+          <legend className="sr-only">Began between</legend>
+          <div>
+            <label htmlFor="alarm-filter-from" className="label">Began from</label>
+            <input id="alarm-filter-from" type="date" className="field figures w-40" value={filters.from} onChange={(e) => setParam({ from: e.target.value })} />
+          </div>
+          <div>
+            <label htmlFor="alarm-filter-to" className="label">to</label>
+            <input id="alarm-filter-to" type="date" className="field figures w-40" value={filters.to} onChange={(e) => setParam({ to: e.target.value })} />
+          </div>
+        </fieldset>
+        <ClearFilters filtered={list.filtered} onClear={() => { setSelection({}); list.clearFilters(); }} />
       </div>
 
       {note && <p role="status" className="border-l-4 border-rule bg-card px-3 py-2 text-sm">{note}</p>}
@@ -289,56 +291,26 @@ export function AlarmTable({ role }: { role: Role }) {
         </div>
       )}
 
-      <section className="card overflow-x-auto" aria-label="Alarms">
-        {isLoading && !data && <Loading />}
-        {error && <LoadError error={error} retry={() => mutate()} />}
-        {data && data.items.length === 0 && <p className="px-3 py-6 text-sm text-muted">No alarms match these filters.</p>}
-        {data && data.items.length > 0 && (
-          <table className={STACKED_TABLE}>
-            <thead>
-              {table.getHeaderGroups().map((g) => (
-                <tr key={g.id}>
-                  {g.headers.map((h) => {
-                    const sorted = h.column.getIsSorted();
-                    return (
-                      <th key={h.id} scope="col" aria-sort={sorted ? (sorted === "desc" ? "descending" : "ascending") : undefined}>
-                        {h.column.getCanSort() && SORTABLE[h.column.id] ? (
-                          <button type="button" className="inline-flex items-center gap-1 uppercase hover:text-ink" onClick={h.column.getToggleSortingHandler()}>
-                            {flexRender(h.column.columnDef.header, h.getContext())}
-                            <span aria-hidden="true">{sorted === "asc" ? "↑" : sorted === "desc" ? "↓" : "↕"}</span>
-                          </button>
-                        ) : (
-                          flexRender(h.column.columnDef.header, h.getContext())
-                        )}
-                      </th>
-                    );
-                  })}
-                </tr>
-              ))}
-            </thead>
-            <tbody>
-              {table.getRowModel().rows.map((row) => (
-                <tr key={row.id} data-alarm-id={row.id} data-state={row.original.state}>
-                  {row.getVisibleCells().map((cell) => (
-                    <td key={cell.id} data-label={typeof cell.column.columnDef.header === "string" ? cell.column.columnDef.header : ""}>
-                      {flexRender(cell.column.columnDef.cell, cell.getContext())}
-                    </td>
-                  ))}
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        )}
-        {data && (
-          <nav aria-label="Pages" className="flex items-center gap-3 p-3 text-sm">
-            <span className="figures">
-              {data.total} alarm{data.total === 1 ? "" : "s"} · page {data.page} of {pages}
-            </span>
-            {filters.page > 1 && <button type="button" className="btn-quiet h-8" onClick={() => setParam({ page: String(filters.page - 1) })}>Previous</button>}
-            {filters.page < pages && <button type="button" className="btn-quiet h-8" onClick={() => setParam({ page: String(filters.page + 1) })}>Next</button>}
-          </nav>
-        )}
-      </section>
+      <DataTableView
+        table={table}
+        label="Alarms"
+        loading={isLoading}
+        error={error}
+        retry={() => mutate()}
+        empty="No alarms match these filters."
+        rowProps={(row) => ({ "data-alarm-id": row.id, "data-state": row.original.state })}
+        footer={
+          data && (
+            <nav aria-label="Pages" className="flex items-center gap-3 p-3 text-sm">
+              <span className="figures">
+                {data.total} alarm{data.total === 1 ? "" : "s"} · page {data.page} of {pages}
+              </span>
+              {filters.page > 1 && <button type="button" className="btn-quiet" onClick={() => setParam({ page: String(filters.page - 1) })}>Previous</button>}
+              {filters.page < pages && <button type="button" className="btn-quiet" onClick={() => setParam({ page: String(filters.page + 1) })}>Next</button>}
+            </nav>
+          )
+        }
+      />
 
       {dialog && (
         <AlarmActionDialog

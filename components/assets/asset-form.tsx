@@ -10,7 +10,7 @@ import { assetConsistencyIssues, createAssetSchema, geometrySchema, updateAssetS
 import type { AssetJson } from "@/lib/db/queries/assets";
 import type { SiteJson } from "@/lib/db/queries/sites";
 import { Loading, LoadError } from "@/components/ui/data-state";
-import { ASSET_KINDS } from "@/components/assets/asset-table";
+import { ASSET_KINDS } from "@/lib/validations/asset";
 import { formatLitres, formatMetres } from "@/components/fleet/fleet-figures";
 import {
   errorReader,

@@ -2,17 +2,19 @@
 
 import Link from "next/link";
 import useSWR from "swr";
-import { usePathname, useRouter, useSearchParams } from "next/navigation";
+import { createColumnHelper } from "@tanstack/react-table";
 import { can, type Role } from "@/lib/auth/permissions";
 import { swrFetcher } from "@/lib/fetcher";
-import { isUuid } from "@/lib/validations/common";
+import { ASSET_KINDS, assetListQuerySchema } from "@/lib/validations/asset";
 import type { AssetJson } from "@/lib/db/queries/assets";
 import type { SiteJson } from "@/lib/db/queries/sites";
-import { Loading, LoadError } from "@/components/ui/data-state";
 import { formatLitres, formatMetres, formatPercent } from "@/components/fleet/fleet-figures";
-import { STACKED_TABLE } from "@/components/ui/form-fields";
+import { DataTable } from "@/components/ui/data-table";
+import { useListParams } from "@/components/ui/list-params";
+import { ClearFilters } from "@/components/ui/clear-filters";
 
-export const ASSET_KINDS = ["tank", "bay", "point"] as const;
+const FILTERS = ["site_id", "kind"] as const;
+const column = createColumnHelper<AssetJson>();
 
 function describeAsset(a: AssetJson): string {
   if (a.kind === "tank") return [a.geometry?.shape.replace("_", " "), a.mount_height_m != null && `sensor at ${formatMetres(a.mount_height_m)}`].filter(Boolean).join(", ");
@@ -25,86 +27,48 @@ function describeAsset(a: AssetJson): string {
 
 /** Assets filtered by site and kind; the filters live in the URL so a filtered list can be shared. */
 export function AssetTable({ role }: { role: Role }) {
-  const router = useRouter();
-  const pathname = usePathname();
-  const params = useSearchParams();
-  const siteId = isUuid(params.get("site_id") ?? "") ? params.get("site_id")! : "";
-  const kind = (ASSET_KINDS as readonly string[]).includes(params.get("kind") ?? "") ? params.get("kind")! : "";
-  const filter = new URLSearchParams();
-  if (siteId) filter.set("site_id", siteId);
-  if (kind) filter.set("kind", kind);
-  const query = filter.toString();
+  const list = useListParams(assetListQuerySchema, FILTERS, FILTERS);
+  const { site_id: siteId = "", kind = "" } = list.values;
+  const query = new URLSearchParams(list.values as Record<string, string>).toString();
 
   const sites = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
   const { data, error, isLoading, mutate } = useSWR<{ items: AssetJson[] }>(`/api/assets${query ? `?${query}` : ""}`, swrFetcher);
   const siteName = (id: string) => sites.data?.items.find((s) => s.id === id)?.name ?? "…";
   const manage = can(role, "asset:manage");
 
-  function setFilter(key: "site_id" | "kind", value: string) {
-    const next = new URLSearchParams(params.toString());
-    if (value) next.set(key, value);
-    else next.delete(key);
-    const qs = next.toString();
-    router.replace(qs ? `${pathname}?${qs}` : pathname, { scroll: false });
-  }
+  const columns = [
+    column.accessor("name", { header: "Name", cell: (c) => <Link href={`/assets/${c.row.original.id}`} className="font-bold underline">{c.getValue()}</Link> }),
+    column.accessor("kind", { header: "Kind" }),
+    column.accessor((a) => siteName(a.site_id), { id: "site", header: "Site" }),
+    column.accessor("capacity_l", { header: "Capacity", cell: (c) => formatLitres(c.getValue()), meta: { cellClassName: "figures" } }),
+    column.accessor("tank_height_m", { header: "Height", cell: (c) => formatMetres(c.getValue()), meta: { cellClassName: "figures" } }),
+    column.accessor("safe_fill_pct", { header: "Safe fill", cell: (c) => formatPercent(c.getValue()), meta: { cellClassName: "figures" } }),
+    column.display({ id: "details", header: "Details", cell: (c) => describeAsset(c.row.original), meta: { cellClassName: "text-muted" } }),
+    ...(manage
+      ? [column.display({ id: "actions", header: () => <span className="sr-only">Actions</span>, cell: (c) => <Link className="btn-quiet" href={`/assets/${c.row.original.id}/edit`} aria-label={`Edit ${c.row.original.name}`}>Edit</Link>, meta: { cellClassName: "text-right" } })]
+      : []),
+  ];
 
   return (
     <div className="space-y-4">
       <div className="flex flex-wrap gap-4" role="group" aria-label="Filters">
         <div>
           <label htmlFor="asset-filter-site" className="label">Site</label>
-          <select id="asset-filter-site" className="field" value={siteId} onChange={(e) => setFilter("site_id", e.target.value)}>
+          <select id="asset-filter-site" className="field" value={siteId} onChange={(e) => list.set({ site_id: e.target.value })}>
             <option value="">All sites</option>
             {sites.data?.items.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
           </select>
         </div>
         <div>
           <label htmlFor="asset-filter-kind" className="label">Kind</label>
-          <select id="asset-filter-kind" className="field" value={kind} onChange={(e) => setFilter("kind", e.target.value)}>
+          <select id="asset-filter-kind" className="field" value={kind} onChange={(e) => list.set({ kind: e.target.value })}>
             <option value="">All kinds</option>
             {ASSET_KINDS.map((k) => <option key={k} value={k}>{k}</option>)}
           </select>
         </div>
+        <ClearFilters filtered={list.filtered} onClear={list.clearFilters} />
       </div>
-      <section className="card overflow-x-auto" aria-label="Assets">
-        {isLoading && <Loading />}
-        {error && <LoadError error={error} retry={() => mutate()} />}
-        {data && data.items.length === 0 && <p className="px-3 py-6 text-sm text-muted">No assets match these filters.</p>}
-        {data && data.items.length > 0 && (
-          <table className={STACKED_TABLE}>
-            <thead>
-              <tr>
-                <th scope="col">Name</th>
-                <th scope="col">Kind</th>
-                <th scope="col">Site</th>
-                <th scope="col">Capacity</th>
-                <th scope="col">Height</th>
-                <th scope="col">Safe fill</th>
-                <th scope="col">Details</th>
-                {manage && <th scope="col"><span className="sr-only">Actions</span></th>}
-              </tr>
-            </thead>
-            <tbody>
-              {data.items.map((a) => (
-                <tr key={a.id}>
-                  <td data-label="Name" className="font-bold">{a.name}</td>
-                  <td data-label="Kind">{a.kind}</td>
-                  <td data-label="Site">{siteName(a.site_id)}</td>
-                  <td data-label="Capacity" className="figures">{formatLitres(a.capacity_l)}</td>
-                  <td data-label="Height" className="figures">{formatMetres(a.tank_height_m)}</td>
-                  <td data-label="Safe fill" className="figures">{formatPercent(a.safe_fill_pct)}</td>
-                  <td data-label="Details" className="text-muted">{describeAsset(a)}</td>
-                  {manage && (
-                    <td data-label="" className="text-right">
-                      <Link className="btn-quiet h-8" href={`/assets/${a.id}/edit`} aria-label={`Edit ${a.name}`}>Edit</Link>
-                    </td>
-                  )}
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        )}
-      </section>
+      <DataTable data={data?.items} columns={columns} getRowId={(a) => a.id} label="Assets" loading={isLoading} error={error} retry={() => mutate()} empty="No assets match these filters." />
     </div>
   );
 }

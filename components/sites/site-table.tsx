@@ -7,15 +7,17 @@ import { swrFetcher } from "@/lib/fetcher";
 import type { SiteJson } from "@/lib/db/queries/sites";
 import type { AssetJson } from "@/lib/db/queries/assets";
 import type { DeviceJson } from "@/lib/db/queries/devices";
-import { Loading, LoadError } from "@/components/ui/data-state";
+import { createColumnHelper } from "@tanstack/react-table";
 import { formatCelsius, formatPercent } from "@/components/fleet/fleet-figures";
-import { STACKED_TABLE } from "@/components/ui/form-fields";
+import { DataTable } from "@/components/ui/data-table";
 
 function countBySite(items: { site_id: string }[] | undefined): Map<string, number> {
   const counts = new Map<string, number>();
   for (const item of items ?? []) counts.set(item.site_id, (counts.get(item.site_id) ?? 0) + 1);
   return counts;
 }
+
+const column = createColumnHelper<SiteJson>();
 
 export function SiteTable({ role }: { role: Role }) {
   const { data, error, isLoading, mutate } = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
@@ -27,49 +29,18 @@ export function SiteTable({ role }: { role: Role }) {
   const count = (counts: Map<string, number>, ready: boolean, id: string) => (ready ? String(counts.get(id) ?? 0) : "…");
   const manage = can(role, "site:manage");
 
-  return (
-    <section className="card overflow-x-auto" aria-label="Sites">
-      {isLoading && <Loading />}
-      {error && <LoadError error={error} retry={() => mutate()} />}
-      {data && data.items.length === 0 && <p className="px-3 py-6 text-sm text-muted">No sites yet.{manage && " Add the first one."}</p>}
-      {data && data.items.length > 0 && (
-        <table className={STACKED_TABLE}>
-          <thead>
-            <tr>
-              <th scope="col">Name</th>
-              <th scope="col">Time zone</th>
-              <th scope="col">Fallback air temperature</th>
-              <th scope="col">Humidity</th>
-              <th scope="col">Escalation delay</th>
-              <th scope="col">Assets</th>
-              <th scope="col">Devices</th>
-              {manage && <th scope="col"><span className="sr-only">Actions</span></th>}
-            </tr>
-          </thead>
-          <tbody>
-            {data.items.map((s) => (
-              <tr key={s.id}>
-                <td data-label="Name" className="font-bold">{s.name}</td>
-                <td data-label="Time zone">{s.time_zone}</td>
-                <td data-label="Fallback air temperature" className="figures">{s.air_temp_c == null ? "none (20 °C)" : formatCelsius(s.air_temp_c)}</td>
-                <td data-label="Humidity" className="figures">{formatPercent(s.humidity_pct)}</td>
-                <td data-label="Escalation delay" className="figures">{s.escalation_delay_min} min</td>
-                <td data-label="Assets" className="figures">
-                  <Link className="underline" href={`/assets?site_id=${s.id}`}>{count(assetCounts, !!assets.data, s.id)}</Link>
-                </td>
-                <td data-label="Devices" className="figures">
-                  <Link className="underline" href={`/devices?site_id=${s.id}`}>{count(deviceCounts, !!devices.data, s.id)}</Link>
-                </td>
-                {manage && (
-                  <td data-label="" className="text-right">
-                    <Link className="btn-quiet h-8" href={`/sites/${s.id}/edit`} aria-label={`Edit ${s.name}`}>Edit</Link>
-                  </td>
-                )}
-              </tr>
-            ))}
-          </tbody>
-        </table>
-      )}
-    </section>
-  );
+  const columns = [
+    column.accessor("name", { header: "Name", cell: (c) => <Link href={`/sites/${c.row.original.id}`} className="font-bold underline">{c.getValue()}</Link> }),
+    column.accessor("time_zone", { header: "Time zone" }),
+    column.accessor("air_temp_c", { header: "Fallback air temperature", cell: (c) => (c.getValue() == null ? "none (20 °C)" : formatCelsius(c.getValue())), meta: { cellClassName: "figures" } }),
+    column.accessor("humidity_pct", { header: "Humidity", cell: (c) => formatPercent(c.getValue()), meta: { cellClassName: "figures" } }),
+    column.accessor("escalation_delay_min", { header: "Escalation delay", cell: (c) => `${c.getValue()} min`, meta: { cellClassName: "figures" } }),
+    column.accessor((s) => assetCounts.get(s.id) ?? 0, { id: "assets", header: "Assets", cell: (c) => <Link className="underline" href={`/assets?site_id=${c.row.original.id}`}>{count(assetCounts, !!assets.data, c.row.original.id)}</Link>, meta: { cellClassName: "figures" } }),
+    column.accessor((s) => deviceCounts.get(s.id) ?? 0, { id: "devices", header: "Devices", cell: (c) => <Link className="underline" href={`/devices?site_id=${c.row.original.id}`}>{count(deviceCounts, !!devices.data, c.row.original.id)}</Link>, meta: { cellClassName: "figures" } }),
+    ...(manage
+      ? [column.display({ id: "actions", header: () => <span className="sr-only">Actions</span>, cell: (c) => <Link className="btn-quiet" href={`/sites/${c.row.original.id}/edit`} aria-label={`Edit ${c.row.original.name}`}>Edit</Link>, meta: { cellClassName: "text-right" } })]
+      : []),
+  ];
+
+  return <DataTable data={data?.items} columns={columns} getRowId={(s) => s.id} label="Sites" loading={isLoading} error={error} retry={() => mutate()} empty={`No sites yet.${manage ? " Add the first one." : ""}`} />;
 }
