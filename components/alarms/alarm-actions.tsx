@@ -1,11 +1,12 @@
 "use client";
 
-import { useEffect, useState } from "react";
+import { useState } from "react";
 import { fetchJson } from "@/lib/fetcher";
 import { MAX_SHELVE_HOURS } from "@/lib/alarms/engine";
 import { acknowledgeSchema, outOfServiceSchema, shelveSchema } from "@/lib/validations/alarm";
 import { errorsFromApi, FormAlert, SelectField, TextAreaField, errorReader, type FieldErrors } from "@/components/ui/form-fields";
 import { fieldErrors } from "@/lib/http/errors";
+import { Dialog } from "@/components/ui/dialog";
 
 // The dialogs behind Acknowledge (one or many, optional comment), Shelve for… (reason and how long,
 // at most 24 h) and Take out of service (reason): each posts to the alarm API and reports back.
@@ -42,12 +43,6 @@ export function AlarmActionDialog({ mode, ids, title, onClose, onDone }: { mode:
   const [busy, setBusy] = useState(false);
   const { read, rest } = errorReader(errors);
 
-  useEffect(() => {
-    const onKey = (e: KeyboardEvent) => e.key === "Escape" && onClose();
-    window.addEventListener("keydown", onKey);
-    return () => window.removeEventListener("keydown", onKey);
-  }, [onClose]);
-
   async function onSubmit(event: React.FormEvent) {
     event.preventDefault();
     const c = comment.trim() ? { comment: comment.trim() } : {};
@@ -70,43 +65,40 @@ export function AlarmActionDialog({ mode, ids, title, onClose, onDone }: { mode:
 
   const verb = mode === "acknowledge" ? "Acknowledge" : mode === "shelve" ? "Shelve" : "Take out of service";
   return (
-    <div className="fixed inset-0 z-30 flex items-center justify-center bg-ink/30 px-4" onMouseDown={(e) => e.target === e.currentTarget && onClose()}>
-      <div role="dialog" aria-modal="true" aria-labelledby="alarm-dialog-title" className="card w-full max-w-md p-4 shadow-lg">
-        <h2 id="alarm-dialog-title" className="mb-3 text-lg font-bold">{title}</h2>
-        <form onSubmit={onSubmit} noValidate className="space-y-4">
-          {mode !== "acknowledge" && (
-            <TextAreaField
-              id="alarm-dialog-reason"
-              label="Reason"
-              autoFocus
-              rows={2}
-              value={reason}
-              onChange={(e) => setReason(e.target.value)}
-              error={read("reason")}
-              hint={mode === "shelve" ? "Why this alarm may stay silent for a while (it is still evaluated and logged)." : "Why the alarm is taken out of service."}
-            />
-          )}
-          {mode === "shelve" && (
-            <SelectField id="alarm-dialog-duration" label="For" value={duration} onChange={(e) => setDuration(e.target.value)} error={read("duration_min")} hint={`At most ${MAX_SHELVE_HOURS} h; it returns by itself.`}>
-              {SHELVE_DURATIONS_MIN.map((m) => <option key={m} value={m}>{durationWords(m)}</option>)}
-            </SelectField>
-          )}
+    <Dialog title={title} onClose={onClose}>
+      <form onSubmit={onSubmit} noValidate className="space-y-4">
+        {mode !== "acknowledge" && (
           <TextAreaField
-            id="alarm-dialog-comment"
-            label="Comment (optional)"
-            autoFocus={mode === "acknowledge"}
+            id="alarm-dialog-reason"
+            label="Reason"
+            autoFocus
             rows={2}
-            value={comment}
-            onChange={(e) => setComment(e.target.value)}
-            error={read("comment")}
+            value={reason}
+            onChange={(e) => setReason(e.target.value)}
+            error={read("reason")}
+            hint={mode === "shelve" ? "Why this alarm may stay silent for a while (it is still evaluated and logged)." : "Why the alarm is taken out of service."}
           />
-          <FormAlert errors={errors} rest={rest()} />
-          <div className="flex gap-3">
-            <button type="submit" className="btn" disabled={busy}>{busy ? "Saving…" : verb}</button>
-            <button type="button" className="btn-quiet" onClick={onClose}>Cancel</button>
-          </div>
-        </form>
-      </div>
-    </div>
+        )}
+        {mode === "shelve" && (
+          <SelectField id="alarm-dialog-duration" label="For" value={duration} onChange={(e) => setDuration(e.target.value)} error={read("duration_min")} hint={`At most ${MAX_SHELVE_HOURS} h; it returns by itself.`}>
+            {SHELVE_DURATIONS_MIN.map((m) => <option key={m} value={m}>{durationWords(m)}</option>)}
+          </SelectField>
+        )}
+        <TextAreaField
+          id="alarm-dialog-comment"
+          label="Comment (optional)"
+          autoFocus={mode === "acknowledge"}
+          rows={2}
+          value={comment}
+          onChange={(e) => setComment(e.target.value)}
+          error={read("comment")}
+        />
+        <FormAlert errors={errors} rest={rest()} />
+        <div className="flex gap-3">
+          <button type="submit" className="btn" disabled={busy}>{busy ? "Saving…" : verb}</button>
+          <button type="button" className="btn-quiet" onClick={onClose}>Cancel</button>
+        </div>
+      </form>
+    </Dialog>
   );
 }

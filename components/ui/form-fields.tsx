@@ -1,6 +1,7 @@
 "use client";
 
 import Link from "next/link";
+import type { FieldValues, Path, UseFormReturn } from "react-hook-form";
 import { ApiError } from "@/lib/fetcher";
 
 // Shared pieces of the provisioning screens (sites, assets, devices): labelled fields with their error,
@@ -21,6 +22,14 @@ export function textOf(value: number | string | null | undefined): string {
 export function errorsFromApi(e: unknown): FieldErrors {
   if (e instanceof ApiError && e.fields && Object.keys(e.fields).length) return e.fields;
   return { _: (e as Error).message };
+}
+
+/** Puts the API's 422 field messages on the form's fields, anything else on the form as a whole. */
+export function applyApiErrors<T extends FieldValues>(form: Pick<UseFormReturn<T>, "setError">, e: unknown) {
+  const errors = errorsFromApi(e);
+  for (const [key, message] of Object.entries(errors)) {
+    form.setError(key === "_" ? "root" : (key as Path<T>), { message });
+  }
 }
 
 /** After a save, every cached list or record under this API path is fetched again. */
