@@ -68,9 +68,9 @@ function OnCallFields({ data, editable, onSaved }: { data: OnCallJson; editable:
                 </span>
                 {editable && (
                   <span className="flex gap-2">
-                    <button type="button" className="btn-quiet h-8 px-3" disabled={i === 0} onClick={() => move(i, -1)} aria-label={`Move ${p?.email} up`}>Up</button>
-                    <button type="button" className="btn-quiet h-8 px-3" disabled={i === ids.length - 1} onClick={() => move(i, 1)} aria-label={`Move ${p?.email} down`}>Down</button>
-                    <button type="button" className="btn-quiet h-8 px-3" onClick={() => setIds((l) => l.filter((x) => x !== id))} aria-label={`Remove ${p?.email}`}>Remove</button>
+                    <button type="button" className="btn-quiet md:h-8 px-3" disabled={i === 0} onClick={() => move(i, -1)} aria-label={`Move ${p?.email} up`}>Up</button>
+                    <button type="button" className="btn-quiet md:h-8 px-3" disabled={i === ids.length - 1} onClick={() => move(i, 1)} aria-label={`Move ${p?.email} down`}>Down</button>
+                    <button type="button" className="btn-quiet md:h-8 px-3" onClick={() => setIds((l) => l.filter((x) => x !== id))} aria-label={`Remove ${p?.email}`}>Remove</button>
                   </span>
                 )}
               </li>

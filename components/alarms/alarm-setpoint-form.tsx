@@ -15,20 +15,28 @@ const LABELS: Record<SetpointKey, string> = { hh: "HH", h: "H", l: "L", ll: "LL"
 // Highest first, as the sounding strip shows them.
 const ORDER: SetpointKey[] = [...SETPOINT_KEYS].reverse();
 
+/** One control per setpoint: absent, alarming, or kept with its values but silent. */
+type Mode = "off" | "on" | "silent";
+
+const MODE_WORDS: Record<Mode, string> = { off: "Not set", on: "On: alarms", silent: "Kept, not alarming" };
+
 interface Row {
-  use: boolean;
+  mode: Mode;
   value: string;
   deadband_m: string;
   on_delay_s: string;
   priority: string;
-  enabled: boolean;
   latching: boolean;
 }
 
 interface Values {
   unit: "m" | "pct";
   rows: Record<SetpointKey, Row>;
-  roc: { use: boolean; limit: string; priority: string; enabled: boolean };
+  roc: { mode: Mode; limit: string; priority: string };
+}
+
+function modeOf(s: { enabled: boolean } | null): Mode {
+  return s === null ? "off" : s.enabled ? "on" : "silent";
 }
 
 function initial(d: SetpointsJson, unit: "m" | "pct"): Values {
@@ -39,12 +47,11 @@ function initial(d: SetpointsJson, unit: "m" | "pct"): Values {
       return [
         key,
         {
-          use: s !== null,
+          mode: modeOf(s),
           value: value === null ? "" : String(Number(value.toFixed(unit === "pct" ? 1 : 3))),
           deadband_m: textOf(s?.deadband_m ?? Number(d.defaults.deadband_m.toFixed(3))),
           on_delay_s: textOf(s?.on_delay_s ?? d.defaults.on_delay_s),
           priority: s?.priority ?? d.defaults.priorities[key],
-          enabled: s?.enabled ?? true,
           latching: s?.latching ?? false,
         },
       ];
@@ -54,22 +61,30 @@ function initial(d: SetpointsJson, unit: "m" | "pct"): Values {
   return {
     unit,
     rows,
-    roc: { use: r !== null, limit: textOf(r?.limit_m_per_h), priority: r?.priority ?? d.defaults.priorities.rate_of_change, enabled: r?.enabled ?? true },
+    roc: { mode: modeOf(r), limit: textOf(r?.limit_m_per_h), priority: r?.priority ?? d.defaults.priorities.rate_of_change },
   };
 }
 
 function payloadOf(v: Values) {
   const setpoints = Object.fromEntries(
-    SETPOINT_KEYS.filter((k) => v.rows[k].use).map((k) => {
+    SETPOINT_KEYS.filter((k) => v.rows[k].mode !== "off").map((k) => {
       const r = v.rows[k];
-      return [k, { value: numberOrNull(r.value), deadband_m: numberOrNull(r.deadband_m) ?? undefined, on_delay_s: numberOrNull(r.on_delay_s) ?? undefined, priority: r.priority, enabled: r.enabled, latching: r.latching }];
+      return [k, { value: numberOrNull(r.value), deadband_m: numberOrNull(r.deadband_m) ?? undefined, on_delay_s: numberOrNull(r.on_delay_s) ?? undefined, priority: r.priority, enabled: r.mode === "on", latching: r.latching }];
     }),
   );
   return {
     unit: v.unit,
     setpoints,
-    rate_of_change: v.roc.use ? { limit_m_per_h: numberOrNull(v.roc.limit), priority: v.roc.priority, enabled: v.roc.enabled } : null,
+    rate_of_change: v.roc.mode !== "off" ? { limit_m_per_h: numberOrNull(v.roc.limit), priority: v.roc.priority, enabled: v.roc.mode === "on" } : null,
   };
+}
+
+function ModeField({ id, label, mode, onChange, hint }: { id: string; label: string; mode: Mode; onChange: (m: Mode) => void; hint?: string }) {
+  return (
+    <SelectField id={id} label={label} value={mode} onChange={(e) => onChange(e.target.value as Mode)} hint={hint} className="sm:col-span-2">
+      {(Object.keys(MODE_WORDS) as Mode[]).map((m) => <option key={m} value={m}>{MODE_WORDS[m]}</option>)}
+    </SelectField>
+  );
 }
 
 function Check({ id, label, checked, onChange, disabled }: { id: string; label: string; checked: boolean; onChange: (v: boolean) => void; disabled?: boolean }) {
@@ -136,10 +151,9 @@ function SetpointFields({ data, editable, onSaved }: { data: SetpointsJson; edit
         return (
           <fieldset key={key} className="grid gap-3 border-t border-rule pt-3 sm:grid-cols-6" disabled={!editable}>
             <legend className="sr-only">{LABELS[key]} setpoint</legend>
-            <div className="flex items-end sm:col-span-6">
-              <Check id={id("use")} label={`${LABELS[key]} setpoint`} checked={r.use} onChange={(use) => setRow(key, { use })} />
-            </div>
-            {r.use && (
+            <ModeField id={id("mode")} label={`${LABELS[key]} setpoint`} mode={r.mode} onChange={(mode) => setRow(key, { mode })} hint={r.mode === "silent" ? "Its values are kept and shown on the sounding strip; it raises no alarm." : undefined} />
+            <div className="hidden sm:col-span-4 sm:block" />
+            {r.mode !== "off" && (
               <>
                 <NumberField id={id("value")} label={LABELS[key]} unit={unitWord} value={r.value} onChange={(e) => setRow(key, { value: e.target.value })} error={read(`setpoints.${key}.value`)} />
                 <NumberField id={id("deadband")} label="Deadband" unit="m" value={r.deadband_m} onChange={(e) => setRow(key, { deadband_m: e.target.value })} error={read(`setpoints.${key}.deadband_m`)} />
@@ -147,8 +161,7 @@ function SetpointFields({ data, editable, onSaved }: { data: SetpointsJson; edit
                 <SelectField id={id("priority")} label="Priority" value={r.priority} onChange={(e) => setRow(key, { priority: e.target.value })} error={read(`setpoints.${key}.priority`)}>
                   {ALARM_PRIORITIES.map((p) => <option key={p} value={p}>{p}</option>)}
                 </SelectField>
-                <div className="flex flex-col justify-end gap-2 sm:col-span-2">
-                  <Check id={id("enabled")} label="Enabled" checked={r.enabled} onChange={(enabled) => setRow(key, { enabled })} />
+                <div className="flex flex-col justify-end sm:col-span-2">
                   <Check id={id("latching")} label="Latching (needs a reset after it clears)" checked={r.latching} onChange={(latching) => setRow(key, { latching })} />
                 </div>
               </>
@@ -158,18 +171,14 @@ function SetpointFields({ data, editable, onSaved }: { data: SetpointsJson; edit
       })}
       <fieldset className="grid gap-3 border-t border-rule pt-3 sm:grid-cols-6" disabled={!editable}>
         <legend className="sr-only">Rate of change</legend>
-        <div className="sm:col-span-6">
-          <Check id="setpoint-roc-use" label="Leak alarm: level falling faster than a limit" checked={values.roc.use} onChange={(use) => setValues((v) => ({ ...v, roc: { ...v.roc, use } }))} />
-        </div>
-        {values.roc.use && (
+        <ModeField id="setpoint-roc-mode" label="Leak alarm: level falling faster than a limit" mode={values.roc.mode} onChange={(mode) => setValues((v) => ({ ...v, roc: { ...v.roc, mode } }))} />
+        <div className="hidden sm:col-span-4 sm:block" />
+        {values.roc.mode !== "off" && (
           <>
             <NumberField id="setpoint-roc-limit" label="Limit" unit="m/h" value={values.roc.limit} onChange={(e) => setValues((v) => ({ ...v, roc: { ...v.roc, limit: e.target.value } }))} error={read("rate_of_change.limit_m_per_h")} hint="Judged on the trend of the last hour (at least 30 min of readings)." className="sm:col-span-2" />
             <SelectField id="setpoint-roc-priority" label="Priority" value={values.roc.priority} onChange={(e) => setValues((v) => ({ ...v, roc: { ...v.roc, priority: e.target.value } }))}>
               {ALARM_PRIORITIES.map((p) => <option key={p} value={p}>{p}</option>)}
             </SelectField>
-            <div className="flex items-end">
-              <Check id="setpoint-roc-enabled" label="Enabled" checked={values.roc.enabled} onChange={(enabled) => setValues((v) => ({ ...v, roc: { ...v.roc, enabled } }))} />
-            </div>
           </>
         )}
       </fieldset>

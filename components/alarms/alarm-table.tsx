@@ -198,12 +198,12 @@ export function AlarmTable({ role }: { role: Role }) {
           return (
             <span className="flex justify-end gap-2 whitespace-nowrap">
               {mayAck && needsAcknowledgement(a.state as AlarmState) && (
-                <button type="button" className="btn-quiet h-8 px-3" aria-label={`Acknowledge ${what}`} onClick={() => setDialog({ mode: "acknowledge", ids: [a.id], title: `Acknowledge ${what}` })}>
+                <button type="button" className="btn-quiet md:h-8 px-3" aria-label={`Acknowledge ${what}`} onClick={() => setDialog({ mode: "acknowledge", ids: [a.id], title: `Acknowledge ${what}` })}>
                   Acknowledge
                 </button>
               )}
               {mayShelve && !["shelved", "suppressed", "out_of_service"].includes(a.state) && (
-                <button type="button" className="btn-quiet h-8 px-3" aria-label={`Shelve ${what}`} onClick={() => setDialog({ mode: "shelve", ids: [a.id], title: `Shelve ${what}` })}>
+                <button type="button" className="btn-quiet md:h-8 px-3" aria-label={`Shelve ${what}`} onClick={() => setDialog({ mode: "shelve", ids: [a.id], title: `Shelve ${what}` })}>
                   Shelve for…
                 </button>
               )}
@@ -285,7 +285,7 @@ export function AlarmTable({ role }: { role: Role }) {
       {mayAck && selected.length > 0 && (
         <div className="flex items-center gap-3 text-sm" role="group" aria-label="Selected alarms">
           <span className="figures">{selected.length} selected</span>
-          <button type="button" className="btn h-9" onClick={() => setDialog({ mode: "acknowledge", ids: selected, title: `Acknowledge ${selected.length} alarm${selected.length > 1 ? "s" : ""}` })}>
+          <button type="button" className="btn md:h-9" onClick={() => setDialog({ mode: "acknowledge", ids: selected, title: `Acknowledge ${selected.length} alarm${selected.length > 1 ? "s" : ""}` })}>
             Acknowledge selected
           </button>
         </div>

@@ -77,7 +77,7 @@ export function FleetAlarmList({
               for {sinceText(a.activated_at)}
             </span>
             {canAcknowledge && NEEDS_ACK.has(a.state) && (
-              <button type="button" className="btn-quiet h-8 shrink-0" disabled={busy === a.id} onClick={() => acknowledge(a.id)} aria-label={`Acknowledge ${a.label} on ${a.asset?.name ?? a.site.name}`}>
+              <button type="button" className="btn-quiet md:h-8 shrink-0" disabled={busy === a.id} onClick={() => acknowledge(a.id)} aria-label={`Acknowledge ${a.label} on ${a.asset?.name ?? a.site.name}`}>
                 {busy === a.id ? "Acknowledging…" : "Acknowledge"}
               </button>
             )}

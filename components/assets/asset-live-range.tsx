@@ -84,12 +84,12 @@ export function RangePicker({ period }: { period: Period }) {
       <fieldset className="flex flex-wrap gap-1">
         <legend className="label">Period</legend>
         {RANGES.map((r) => (
-          <label key={r.key} className={`btn-quiet h-9 cursor-pointer ${FOCUS_WITHIN} ${selected === r.key ? "border-ink font-bold" : ""}`}>
+          <label key={r.key} className={`btn-quiet md:h-9 cursor-pointer ${FOCUS_WITHIN} ${selected === r.key ? "border-ink font-bold" : ""}`}>
             <input type="radio" name="trend-range" className="sr-only" checked={selected === r.key} onChange={() => chooseRange(r.key)} />
             {r.label}
           </label>
         ))}
-        <label className={`btn-quiet h-9 cursor-pointer ${FOCUS_WITHIN} ${selected === "custom" ? "border-ink font-bold" : ""}`}>
+        <label className={`btn-quiet md:h-9 cursor-pointer ${FOCUS_WITHIN} ${selected === "custom" ? "border-ink font-bold" : ""}`}>
           <input type="radio" name="trend-range" className="sr-only" checked={selected === "custom"} onChange={() => setCustom(true)} />
           Range…
         </label>
@@ -104,7 +104,7 @@ export function RangePicker({ period }: { period: Period }) {
             <label htmlFor="range-to" className="label">To</label>
             <input id="range-to" type="datetime-local" className="field h-9 py-1" value={to} onChange={(e) => setTo(e.target.value)} />
           </div>
-          <button type="submit" className="btn h-9">Show range</button>
+          <button type="submit" className="btn md:h-9">Show range</button>
           {problem && <p id="range-problem" role="alert" className="field-error w-full">{problem}</p>}
         </form>
       )}

@@ -1,10 +1,13 @@
 "use client";
 
-import { useState } from "react";
+import { useMemo, useState } from "react";
+import { useForm } from "react-hook-form";
+import { zodResolver } from "@hookform/resolvers/zod";
+import { z } from "zod";
 import { fetchJson } from "@/lib/fetcher";
-import { recordDipSchema } from "@/lib/validations/dip";
-import { describeZodError } from "@/lib/http/errors";
-import { errorReader, errorsFromApi, FormAlert, InputField, NumberField, TextAreaField, type FieldErrors } from "@/components/ui/form-fields";
+import { recordDipSchema, type RecordDipInput } from "@/lib/validations/dip";
+import { applyApiErrors, InputField, NumberField, TextAreaField } from "@/components/ui/form-fields";
+import { parseDecimal } from "@/components/ui/decimal";
 
 /** The moment now as a datetime-local value in the browser's zone (YYYY-MM-DDTHH:mm). */
 export function localNow(now = new Date()): string {
@@ -23,68 +26,61 @@ export function DipCaution() {
   );
 }
 
-export function DipForm({ assetId, maxLevelM, onRecorded }: { assetId: string; maxLevelM: number | null; onRecorded: () => void }) {
-  const [level, setLevel] = useState("");
-  const [at, setAt] = useState(() => localNow());
-  const [note, setNote] = useState("");
-  const [errors, setErrors] = useState<FieldErrors>({});
-  const [busy, setBusy] = useState(false);
-  const [saved, setSaved] = useState<string | null>(null);
-  const { read, rest } = errorReader(errors);
+/** The dip form's boxes read through the API's own schema: the level with the user's decimal separator, the local time as an instant. */
+function dipFormSchema(maxLevelM: number | null) {
+  return z
+    .object({ level: z.string(), at: z.string(), note: z.string() })
+    .transform((v): z.input<typeof recordDipSchema> => ({
+      level_m: v.level.trim() === "" ? Number.NaN : parseDecimal(v.level),
+      at: Number.isNaN(new Date(v.at).getTime()) ? v.at : new Date(v.at).toISOString(),
+      note: v.note.trim() || undefined,
+    }))
+    .pipe(recordDipSchema)
+    .refine((d) => maxLevelM === null || d.level_m <= maxLevelM, { path: ["level"], message: `The tank is ${maxLevelM?.toFixed(3)} m tall; a dip cannot read higher.` });
+}
 
-  async function submit(e: React.FormEvent) {
-    e.preventDefault();
+type DipFormValues = { level: string; at: string; note: string };
+
+export function DipForm({ assetId, maxLevelM, onRecorded }: { assetId: string; maxLevelM: number | null; onRecorded: () => void }) {
+  const schema = useMemo(() => dipFormSchema(maxLevelM), [maxLevelM]);
+  const form = useForm<DipFormValues, unknown, RecordDipInput>({ resolver: zodResolver(schema), defaultValues: { level: "", at: localNow(), note: "" } });
+  const { register, handleSubmit, formState: { errors, isSubmitting } } = form;
+  const [saved, setSaved] = useState<string | null>(null);
+  // The API's schema names the level level_m; the box is "level".
+  const levelError = errors.level?.message ?? (errors as Record<string, { message?: string }>).level_m?.message;
+
+  const onSubmit = handleSubmit(async (dip) => {
     setSaved(null);
-    const when = new Date(at);
-    const body = { level_m: level.trim() === "" ? Number.NaN : Number(level), at: Number.isNaN(when.getTime()) ? at : when.toISOString(), note: note.trim() || undefined };
-    const parsed = recordDipSchema.safeParse(body);
-    if (!parsed.success) {
-      const fields: FieldErrors = {};
-      for (const issue of parsed.error.issues) fields[String(issue.path[0] ?? "_")] ??= issue.message;
-      setErrors(Object.keys(fields).length ? fields : { _: describeZodError(parsed.error) });
-      return;
-    }
-    if (maxLevelM !== null && parsed.data.level_m > maxLevelM) {
-      setErrors({ level_m: `The tank is ${maxLevelM.toFixed(3)} m tall; a dip cannot read higher.` });
-      return;
-    }
-    setBusy(true);
     try {
-      await fetchJson(`/api/assets/${assetId}/dips`, { method: "POST", body: JSON.stringify(parsed.data) });
-      setErrors({});
-      setLevel("");
-      setNote("");
-      setSaved(`Recorded a dip of ${parsed.data.level_m.toFixed(3)} m.`);
+      await fetchJson(`/api/assets/${assetId}/dips`, { method: "POST", body: JSON.stringify(dip) });
+      form.reset({ level: "", at: localNow(), note: "" });
+      setSaved(`Recorded a dip of ${dip.level_m.toFixed(3)} m.`);
       onRecorded();
     } catch (err) {
-      setErrors(errorsFromApi(err));
-    } finally {
-      setBusy(false);
+      applyApiErrors(form, err);
     }
-  }
+  });
 
   return (
-    <form onSubmit={submit} noValidate className="card space-y-4 p-4" aria-labelledby="dip-form-title">
-      <h2 id="dip-form-title" className="text-lg font-bold">Record a dip</h2>
+    <form onSubmit={onSubmit} noValidate className="card space-y-4 p-4" aria-labelledby="dip-form-title">
+      <h2 id="dip-form-title" className="scroll-mt-4 text-lg font-bold">Record a dip</h2>
       <DipCaution />
       <div className="grid gap-4 sm:grid-cols-2">
         <NumberField
           id="dip-level"
           label="Dipped level"
           unit="m"
-          value={level}
-          onChange={(e) => setLevel(e.target.value)}
-          error={read("level_m")}
+          {...register("level")}
+          error={levelError}
           hint={maxLevelM !== null ? `From the tank bottom; at most ${maxLevelM.toFixed(3)} m.` : "From the tank bottom."}
-          min={0}
           required
         />
-        <InputField id="dip-at" label="Time of the dip" type="datetime-local" value={at} onChange={(e) => setAt(e.target.value)} error={read("at")} hint="Your device's local time." required />
+        <InputField id="dip-at" label="Time of the dip" type="datetime-local" {...register("at")} error={errors.at?.message} hint="Your device's local time." required />
       </div>
-      <TextAreaField id="dip-note" label="Note" rows={2} value={note} onChange={(e) => setNote(e.target.value)} error={read("note")} hint="Tape or dipstick, who was with you, anything unusual." />
-      <FormAlert errors={errors} rest={rest()} />
+      <TextAreaField id="dip-note" label="Note" rows={2} {...register("note")} error={errors.note?.message} hint="Tape or dipstick, who was with you, anything unusual." />
+      {errors.root && <p role="alert" className="field-error">{errors.root.message}</p>}
       {saved && <p role="status" className="text-sm">{saved}</p>}
-      <button type="submit" className="btn" disabled={busy}>{busy ? "Recording…" : "Record the dip"}</button>
+      <button type="submit" className="btn" disabled={isSubmitting}>{isSubmitting ? "Recording…" : "Record the dip"}</button>
     </form>
   );
 }

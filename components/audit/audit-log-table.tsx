@@ -43,8 +43,8 @@ export function AuditLogTable() {
           </table>
           <nav aria-label="Pages" className="flex items-center gap-3 p-3 text-sm">
             <span className="figures">Page {data.page} of {pages}</span>
-            {page > 1 && <Link className="btn-quiet h-8" href={`?page=${page - 1}`}>Previous</Link>}
-            {page < pages && <Link className="btn-quiet h-8" href={`?page=${page + 1}`}>Next</Link>}
+            {page > 1 && <Link className="btn-quiet md:h-8" href={`?page=${page - 1}`}>Previous</Link>}
+            {page < pages && <Link className="btn-quiet md:h-8" href={`?page=${page + 1}`}>Next</Link>}
           </nav>
         </>
       )}

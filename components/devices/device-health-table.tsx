@@ -202,11 +202,11 @@ export function DeviceHealthTable() {
 
       {data && (
         <nav aria-label="Pages" className="flex flex-wrap items-center gap-3 text-sm">
-          <button type="button" className="btn-quiet h-9" disabled={page <= 1} onClick={() => update({ page: String(page - 1) }, false)}>Previous page</button>
+          <button type="button" className="btn-quiet md:h-9" disabled={page <= 1} onClick={() => update({ page: String(page - 1) }, false)}>Previous page</button>
           <span>
             Page <span className="figures">{page}</span> of <span className="figures">{pageCount}</span> · <span className="figures">{data.total}</span> devices
           </span>
-          <button type="button" className="btn-quiet h-9" disabled={page >= pageCount} onClick={() => update({ page: String(page + 1) }, false)}>Next page</button>
+          <button type="button" className="btn-quiet md:h-9" disabled={page >= pageCount} onClick={() => update({ page: String(page + 1) }, false)}>Next page</button>
           <label htmlFor="health-page-size" className="ml-auto">Rows a page</label>
           <select id="health-page-size" className="field h-9 w-auto py-1" value={pageSize} onChange={(e) => update({ page_size: e.target.value })}>
             {PAGE_SIZES.map((n) => <option key={n} value={n}>{n}</option>)}

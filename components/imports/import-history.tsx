@@ -48,7 +48,7 @@ export function ImportHistory() {
                   <td data-label="Rows imported" className="figures">{u.rows_imported}</td>
                   <td data-label="By">{u.by ?? "—"}</td>
                   <td data-label="Details">
-                    <button type="button" className="btn-quiet h-8" aria-expanded={open === u.id} onClick={() => setOpen(open === u.id ? null : u.id)}>
+                    <button type="button" className="btn-quiet md:h-8" aria-expanded={open === u.id} onClick={() => setOpen(open === u.id ? null : u.id)}>
                       {open === u.id ? "Hide" : "Details"}<span className="sr-only"> of {u.file_name}</span>
                     </button>
                   </td>

@@ -15,7 +15,7 @@ export function NavLinks({ sections }: { sections: Section[] }) {
     <nav aria-label="Main" className="md:w-48 md:shrink-0">
       <button
         type="button"
-        className="btn-quiet h-9 md:hidden"
+        className="btn-quiet md:h-9 md:hidden"
         aria-expanded={open}
         aria-controls="main-nav-sections"
         onClick={() => setOpen((v) => !v)}

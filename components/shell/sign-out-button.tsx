@@ -4,7 +4,7 @@ import { signOut } from "next-auth/react";
 
 export function SignOutButton() {
   return (
-    <button type="button" className="btn-quiet h-9" onClick={() => signOut({ callbackUrl: "/sign-in" })}>
+    <button type="button" className="btn-quiet md:h-9" onClick={() => signOut({ callbackUrl: "/sign-in" })}>
       Sign out
     </button>
   );

@@ -29,7 +29,7 @@ export function CopyButton({ text, targetId, label = "Copy" }: { text: string; t
 
   return (
     <span className="inline-flex items-center gap-3">
-      <button type="button" className="btn-quiet h-9" onClick={copy}>{label}</button>
+      <button type="button" className="btn-quiet md:h-9" onClick={copy}>{label}</button>
       <span role="status" className="text-sm">
         {outcome === "copied" && "Copied"}
         {outcome === "selected" && "The browser refused the clipboard: the text is selected, press Ctrl+C (⌘C) to copy it."}

@@ -12,7 +12,7 @@ export function LoadError({ error, retry }: { error: Error; retry?: () => void }
     <div role="alert" className="flex items-center gap-3 border-l-4 border-critical bg-card px-3 py-3 text-sm">
       <span>Could not load: {error.message}</span>
       {retry && (
-        <button type="button" className="btn-quiet h-8" onClick={retry}>
+        <button type="button" className="btn-quiet md:h-8" onClick={retry}>
           Try again
         </button>
       )}

@@ -9,10 +9,7 @@ import { ApiError } from "@/lib/fetcher";
 
 export type FieldErrors = Record<string, string>;
 
-/** An empty box is "not given" (null); anything else is read as a number (NaN fails the schema). */
-export function numberOrNull(text: string | undefined): number | null {
-  return text == null || text.trim() === "" ? null : Number(text);
-}
+export { numberOrNull } from "@/components/ui/decimal";
 
 export function textOf(value: number | string | null | undefined): string {
   return value == null ? "" : String(value);
@@ -61,15 +58,18 @@ export function InputField({ id, label, error, hint, unit, className, ...input }
   return (
     <div className={className}>
       <label htmlFor={id} className="label">{label}{unit && <span className="font-normal text-muted"> ({unit})</span>}</label>
-      <input id={id} className={input.type === "number" ? "field figures" : "field"} aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, error, hint)} {...input} />
+      <input id={id} className={input.inputMode === "decimal" ? "field figures" : "field"} aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, error, hint)} {...input} />
       <Described id={id} error={error} hint={hint} />
     </div>
   );
 }
 
-/** A number box in a unit; accepts decimals and shows figures in tabular digits. */
-export function NumberField(props: FieldProps & Omit<React.InputHTMLAttributes<HTMLInputElement>, "type">) {
-  return <InputField type="number" step="any" inputMode="decimal" {...props} />;
+/**
+ * A number box in a unit, in tabular digits. A text box with the decimal keypad rather than type="number",
+ * whose parsing depends on the browser's locale: the form reads it with parseDecimal ("2,1" is 2.1).
+ */
+export function NumberField({ step: _step, ...props }: FieldProps & Omit<React.InputHTMLAttributes<HTMLInputElement>, "type">) {
+  return <InputField type="text" inputMode="decimal" autoComplete="off" {...props} />;
 }
 
 export function SelectField({ id, label, error, hint, className, children, ...select }: FieldProps & React.SelectHTMLAttributes<HTMLSelectElement>) {

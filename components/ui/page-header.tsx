@@ -10,7 +10,7 @@ export function PageHeader({ title, path = [], facts, actions }: { title: string
             {path.map((p, i) => (
               <span key={p.href}>
                 {i > 0 && <span aria-hidden="true"> › </span>}
-                <Link href={p.href} className="hover:underline">{p.label}</Link>
+                <Link href={p.href} className="hover:underline max-md:inline-flex max-md:min-h-11 max-md:items-center">{p.label}</Link>
               </span>
             ))}
           </nav>
@@ -18,7 +18,7 @@ export function PageHeader({ title, path = [], facts, actions }: { title: string
         <h1 className="text-2xl font-bold">{title}</h1>
         {facts && <p className="mt-1 text-sm text-muted">{facts}</p>}
       </div>
-      {actions}
+      {actions && <div className="flex flex-wrap gap-3">{actions}</div>}
     </div>
   );
 }

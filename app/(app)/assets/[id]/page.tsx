@@ -31,7 +31,12 @@ export default async function AssetPage({ params }: { params: Promise<{ id: stri
         title={asset.name}
         path={[{ href: "/", label: "Overview" }, { href: `/sites/${site.id}`, label: site.name }]}
         facts={<>{KIND_WORDS[asset.kind]} at {site.name}{asset.kind === "bay" && asset.bay_level ? ` · ${asset.bay_level}` : ""}</>}
-        actions={can(user.role, "asset:manage") && <Link href={`/assets/${id}/edit`} className="btn-quiet">Edit asset</Link>}
+        actions={
+          <>
+            {asset.kind === "tank" && can(user.role, "dip:record") && <Link href={`/calibration/${id}#dip-form-title`} className="btn">Record a dip</Link>}
+            {can(user.role, "asset:manage") && <Link href={`/assets/${id}/edit`} className="btn-quiet">Edit asset</Link>}
+          </>
+        }
       />
       <Suspense fallback={<Loading />}>
         <AssetLive assetId={id} canAcknowledge={can(user.role, "alarm:acknowledge")} />
