@@ -179,9 +179,9 @@ export function AssetForm({ asset, siteId = "" }: { asset?: AssetJson; siteId?: 
     setErrors({});
     setBusy(true);
     try {
-      await fetchJson(asset ? `/api/assets/${asset.id}` : "/api/assets", { method: asset ? "PATCH" : "POST", body: JSON.stringify(data) });
+      const saved = await fetchJson<{ id: string }>(asset ? `/api/assets/${asset.id}` : "/api/assets", { method: asset ? "PATCH" : "POST", body: JSON.stringify(data) });
       await mutate(isUnder("/api/assets"));
-      router.push("/assets");
+      router.push(`/assets/${saved.id}`);
       router.refresh();
     } catch (e) {
       setErrors(errorsFromApi(e));

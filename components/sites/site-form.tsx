@@ -54,9 +54,9 @@ export function SiteForm({ site, timeZones }: { site?: SiteJson; timeZones: stri
     setErrors({});
     setBusy(true);
     try {
-      await fetchJson(site ? `/api/sites/${site.id}` : "/api/sites", { method: site ? "PATCH" : "POST", body: JSON.stringify(parsed.data) });
+      const saved = await fetchJson<{ id: string }>(site ? `/api/sites/${site.id}` : "/api/sites", { method: site ? "PATCH" : "POST", body: JSON.stringify(parsed.data) });
       await mutate(isUnder("/api/sites"));
-      router.push("/sites");
+      router.push(`/sites/${saved.id}`);
       router.refresh();
     } catch (e) {
       setErrors(errorsFromApi(e));
