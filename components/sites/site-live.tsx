@@ -39,7 +39,7 @@ export function SiteLive({ siteId, canAcknowledge }: { siteId: string; canAcknow
 
       <section className="card" aria-labelledby="site-alarms">
         <h2 id="site-alarms" className="border-b border-rule px-3 py-2 text-lg font-bold">Alarms needing attention</h2>
-        <FleetAlarmList alarms={data.alarms} canAcknowledge={canAcknowledge} onChanged={() => mutate()} alarmsHref={`/alarms?site_id=${siteId}`} />
+        <FleetAlarmList alarms={data.alarms} canAcknowledge={canAcknowledge} onChanged={() => mutate()} alarmsHref={`/alarms?site_id=${siteId}`} limit={5} />
       </section>
 
       {data.tanks.length > 0 && (
