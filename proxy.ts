@@ -3,7 +3,7 @@ import { NextResponse, type NextRequest } from "next/server";
 
 // Cheap first gate (no database): signed-out page requests go to sign-in. Route handlers and pages still
 // check the session and role themselves through requirePermission/requirePageUser.
-const PUBLIC_PREFIXES = ["/sign-in", "/invite/", "/ack/", "/_next/", "/favicon", "/wordmark"];
+const PUBLIC_PREFIXES = ["/sign-in", "/invite/", "/ack/", "/_next/", "/favicon", "/wordmark", "/manifest.webmanifest", "/icons/"];
 
 export async function proxy(req: NextRequest) {
   const { pathname, search } = req.nextUrl;

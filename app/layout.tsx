@@ -5,10 +5,11 @@ import { figureFont, textFont } from "./fonts";
 export const metadata: Metadata = {
   title: { default: "Halftrip", template: "%s · Halftrip" },
   description: "Levels, volumes and occupancy from ultrasonic sensors in the field.",
-  icons: { icon: "/favicon.svg" },
+  icons: { icon: "/favicon.svg", apple: "/icons/apple-touch-icon.png" },
+  appleWebApp: { capable: true, title: "Halftrip", statusBarStyle: "default" },
 };
 
-export const viewport: Viewport = { width: "device-width", initialScale: 1 };
+export const viewport: Viewport = { width: "device-width", initialScale: 1, themeColor: "#1f2a30" };
 
 export default function RootLayout({ children }: { children: React.ReactNode }) {
   return (

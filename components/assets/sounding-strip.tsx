@@ -16,12 +16,26 @@ export interface StripSetpoint {
 const PRIORITY_FILL: Record<Priority, string> = { critical: "fill-critical", high: "fill-high", medium: "fill-medium", low: "fill-low" };
 const PRIORITY_STROKE: Record<Priority, string> = { critical: "stroke-critical", high: "stroke-high", medium: "stroke-medium", low: "stroke-low" };
 
-const W = 106;
-const H = 200;
-const TOP = 8;
+// Drawn at 1:1, so labels are 11 px: readable on a phone in the field.
+const LABEL_PX = 11;
+const W = 118;
+const H = 220;
+const TOP = 10;
 const BOTTOM = H - 8;
-const SCALE_X = 40;
+const SCALE_X = 54;
 const SCALE_W = 20;
+
+/** Label heights for the setpoint ticks, pushed apart so two close setpoints (HH and H) never overlap. */
+function labelRows(ys: number[]): number[] {
+  const order = ys.map((y, i) => ({ y, i })).sort((a, b) => a.y - b.y);
+  const out = new Array<number>(ys.length);
+  let last = -Infinity;
+  for (const { y, i } of order) {
+    last = Math.max(y, last + LABEL_PX + 1);
+    out[i] = last;
+  }
+  return out;
+}
 
 // Scale marks every 0.1 … 10 m, whichever leaves at most five intervals on the strip.
 const STEPS = [0.1, 0.2, 0.25, 0.5, 1, 2, 5, 10];
@@ -56,6 +70,7 @@ export function SoundingStrip({
     dayRange ? `last 24 h between ${formatMetres(dayRange[0])} and ${formatMetres(dayRange[1])}` : "",
   ].filter(Boolean);
 
+  const labelYs = labelRows(setpoints.map((s) => y(s.value_m)));
   return (
     <svg viewBox={`0 0 ${W} ${H}`} width={W} height={H} role="img" aria-label={`${name}: ${description.join("; ")}`} className="shrink-0">
       <rect x={SCALE_X} y={TOP} width={SCALE_W} height={BOTTOM - TOP} className="fill-card stroke-rule" strokeWidth={1} />
@@ -63,7 +78,7 @@ export function SoundingStrip({
       {ticks.map((m, i) => (
         <g key={m}>
           <line x1={SCALE_X} x2={SCALE_X + 4} y1={y(m)} y2={y(m)} className="stroke-muted" strokeWidth={1} />
-          <text x={SCALE_X - 11} y={y(m) + 3} className="fill-muted font-mono text-[8px]" textAnchor="end" aria-hidden="true">
+          <text x={SCALE_X - 11} y={y(m) + 4} className="fill-muted font-mono text-[11px]" textAnchor="end" aria-hidden="true">
             {m}
             {i === ticks.length - 1 ? " m" : ""}
           </text>
@@ -79,12 +94,13 @@ export function SoundingStrip({
           aria-hidden="true"
         />
       )}
-      {setpoints.map((s) => {
+      {setpoints.map((s, i) => {
         const ty = y(s.value_m);
+        const labelY = labelYs[i];
         return (
           <g key={s.key} aria-hidden="true">
             <line x1={SCALE_X + SCALE_W} x2={SCALE_X + SCALE_W + 6} y1={ty} y2={ty} className={s.alarm ? PRIORITY_STROKE[s.alarm] : "stroke-ink"} strokeWidth={s.alarm ? 2 : 1} />
-            <text x={SCALE_X + SCALE_W + 8} y={ty + 3} className={`font-mono text-[9px] ${s.alarm ? `${PRIORITY_FILL[s.alarm]} font-bold` : "fill-muted"}`}>
+            <text x={SCALE_X + SCALE_W + 8} y={labelY + 4} className={`font-mono text-[11px] ${s.alarm ? `${PRIORITY_FILL[s.alarm]} font-bold` : "fill-muted"}`}>
               {s.key.toUpperCase()}
               {s.alarm ? ` ${priorityGlyph(s.alarm)}` : ""}
             </text>
