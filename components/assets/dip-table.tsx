@@ -2,7 +2,8 @@
 
 import type { DipJson } from "@/lib/db/queries/dips";
 import { formatMetres } from "@/components/fleet/fleet-figures";
-import { STACKED_TABLE } from "@/components/ui/form-fields";
+import { createColumnHelper } from "@tanstack/react-table";
+import { DataTable } from "@/components/ui/data-table";
 
 const MINUS = "\u2212";
 
@@ -18,49 +19,41 @@ export function formatWhen(at: string | Date): string {
   return new Date(at).toLocaleString(undefined, { dateStyle: "medium", timeStyle: "short" });
 }
 
+const column = createColumnHelper<DipJson>();
+
 /** Dips with the sensor's level at their time; a checkbox per dip chooses it for a calibration. */
 export function DipTable({ dips, selected, onToggle, selectable }: { dips: DipJson[]; selected: ReadonlySet<string>; onToggle: (id: string) => void; selectable: boolean }) {
-  if (dips.length === 0) return <p className="px-3 py-6 text-sm text-muted">No dips recorded for this tank yet.</p>;
-  return (
-    <table className={STACKED_TABLE}>
-      <caption className="sr-only">Manual dips beside the sensor</caption>
-      <thead>
-        <tr>
-          {selectable && <th scope="col">Use</th>}
-          <th scope="col">Time</th>
-          <th scope="col">Dipped level</th>
-          <th scope="col">Sensor level then</th>
-          <th scope="col">Sensor − dip</th>
-          <th scope="col">By</th>
-          <th scope="col">Note</th>
-        </tr>
-      </thead>
-      <tbody>
-        {dips.map((d) => (
-          <tr key={d.id}>
-            {selectable && (
-              <td data-label="Use">
-                <input
-                  type="checkbox"
-                  className="h-5 w-5"
-                  checked={selected.has(d.id)}
-                  disabled={d.sensor === null}
-                  onChange={() => onToggle(d.id)}
-                  aria-label={`Use the dip of ${formatWhen(d.at)} (${d.level_m.toFixed(3)} m)`}
-                />
-              </td>
-            )}
-            <td data-label="Time" className="figures">{formatWhen(d.at)}</td>
-            <td data-label="Dipped level" className="figures">{formatMetres(d.level_m)}</td>
-            <td data-label="Sensor level then" className="figures">
-              {d.sensor ? formatMetres(d.sensor.level_m) : <span className="font-sans text-muted">no reading within an hour</span>}
-            </td>
-            <td data-label="Sensor − dip" className="figures">{formatSignedMm(d.difference_m)}</td>
-            <td data-label="By">{d.by ?? "—"}</td>
-            <td data-label="Note">{d.note ?? ""}</td>
-          </tr>
-        ))}
-      </tbody>
-    </table>
-  );
+  const columns = [
+    ...(selectable
+      ? [
+          column.display({
+            id: "use",
+            header: "Use",
+            cell: ({ row: { original: d } }) => (
+              <input
+                type="checkbox"
+                className="h-5 w-5"
+                checked={selected.has(d.id)}
+                disabled={d.sensor === null}
+                onChange={() => onToggle(d.id)}
+                aria-label={`Use the dip of ${formatWhen(d.at)} (${d.level_m.toFixed(3)} m)`}
+              />
+            ),
+          }),
+        ]
+      : []),
+    column.accessor((d) => new Date(d.at).getTime(), { id: "time", header: "Time", cell: (c) => formatWhen(c.row.original.at), meta: { cellClassName: "figures" } }),
+    column.accessor("level_m", { header: "Dipped level", cell: (c) => formatMetres(c.getValue()), meta: { cellClassName: "figures" } }),
+    column.accessor((d) => d.sensor?.level_m ?? null, {
+      id: "sensor",
+      header: "Sensor level then",
+      sortUndefined: "last",
+      cell: (c) => (c.row.original.sensor ? formatMetres(c.row.original.sensor.level_m) : <span className="font-sans text-muted">no reading within an hour</span>),
+      meta: { cellClassName: "figures" },
+    }),
+    column.accessor("difference_m", { header: "Sensor − dip", cell: (c) => formatSignedMm(c.getValue()), meta: { cellClassName: "figures" } }),
+    column.accessor((d) => d.by ?? "—", { id: "by", header: "By" }),
+    column.accessor((d) => d.note ?? "", { id: "note", header: "Note", enableSorting: false }),
+  ];
+  return <DataTable data={dips} columns={columns} getRowId={(d) => d.id} label="Manual dips beside the sensor" empty="No dips recorded for this tank yet." />;
 }

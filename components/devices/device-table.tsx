@@ -2,14 +2,15 @@
 
 import Link from "next/link";
 import useSWR from "swr";
-import { usePathname, useRouter, useSearchParams } from "next/navigation";
+import { createColumnHelper } from "@tanstack/react-table";
 import { swrFetcher } from "@/lib/fetcher";
-import { isUuid } from "@/lib/validations/common";
+import { deviceListQuerySchema } from "@/lib/validations/device";
 import type { DeviceJson } from "@/lib/db/queries/devices";
 import type { SiteJson } from "@/lib/db/queries/sites";
-import { Loading, LoadError } from "@/components/ui/data-state";
 import { formatAge, formatDbm, formatVolts } from "@/components/fleet/fleet-figures";
-import { STACKED_TABLE } from "@/components/ui/form-fields";
+import { DataTable } from "@/components/ui/data-table";
+import { useListParams } from "@/components/ui/list-params";
+import { ClearFilters } from "@/components/ui/clear-filters";
 
 export const PROFILE_LABELS: Record<string, string> = { echo: "echo time", capture: "timer capture", pulse_coded: "pulse-coded", duty_coded: "duty-coded" };
 
@@ -18,66 +19,49 @@ export function isOffline(d: Pick<DeviceJson, "last_seen_at" | "expected_interva
   return !!d.last_seen_at && now - new Date(d.last_seen_at).getTime() > 3 * d.expected_interval_s * 1000;
 }
 
+const column = createColumnHelper<DeviceJson>();
+const FILTERS = ["site_id"] as const;
+
 export function DeviceTable() {
-  const router = useRouter();
-  const pathname = usePathname();
-  const params = useSearchParams();
-  const siteId = isUuid(params.get("site_id") ?? "") ? params.get("site_id")! : "";
+  const list = useListParams(deviceListQuerySchema, FILTERS, FILTERS);
+  const siteId = list.values.site_id ?? "";
   const sites = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
   const { data, error, isLoading, mutate } = useSWR<{ items: DeviceJson[] }>(siteId ? `/api/devices?site_id=${siteId}` : "/api/devices", swrFetcher, { refreshInterval: 30000 });
   const siteName = (id: string) => sites.data?.items.find((s) => s.id === id)?.name ?? "…";
 
-  function setSite(value: string) {
-    router.replace(value ? `${pathname}?site_id=${value}` : pathname, { scroll: false });
-  }
+  const columns = [
+    column.accessor("name", { header: "Name", cell: (c) => <Link href={`/devices/${c.row.original.id}`} className="font-bold underline">{c.getValue()}</Link> }),
+    column.accessor("serial", { header: "Serial", meta: { cellClassName: "figures" } }),
+    column.accessor((d) => siteName(d.site_id), { id: "site", header: "Site" }),
+    column.accessor((d) => PROFILE_LABELS[d.profile] ?? d.profile, { id: "profile", header: "Profile" }),
+    column.accessor((d) => d.channels.length, { id: "channels", header: "Channels", meta: { cellClassName: "figures" } }),
+    column.accessor("last_seen_at", {
+      header: "Last seen",
+      meta: { cellClassName: "figures" },
+      cell: (c) => (
+        <>
+          {c.getValue() ? formatAge(c.getValue()!) : "never"}
+          {isOffline(c.row.original) && <span className="font-sans"> · offline</span>}
+        </>
+      ),
+    }),
+    column.accessor("battery_v", { header: "Battery", cell: (c) => formatVolts(c.getValue()), meta: { cellClassName: "figures" } }),
+    column.accessor("rssi_dbm", { header: "Signal", cell: (c) => formatDbm(c.getValue()), meta: { cellClassName: "figures" } }),
+  ];
 
   return (
     <div className="space-y-4">
-      <div>
-        <label htmlFor="device-filter-site" className="label">Site</label>
-        <select id="device-filter-site" className="field w-auto" value={siteId} onChange={(e) => setSite(e.target.value)}>
-          <option value="">All sites</option>
-          {sites.data?.items.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
-        </select>
+      <div className="flex flex-wrap gap-4" role="group" aria-label="Filters">
+        <div>
+          <label htmlFor="device-filter-site" className="label">Site</label>
+          <select id="device-filter-site" className="field w-auto" value={siteId} onChange={(e) => list.set({ site_id: e.target.value })}>
+            <option value="">All sites</option>
+            {sites.data?.items.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
+          </select>
+        </div>
+        <ClearFilters filtered={list.filtered} onClear={list.clearFilters} />
       </div>
-      <section className="card overflow-x-auto" aria-label="Devices">
-        {isLoading && <Loading />}
-        {error && <LoadError error={error} retry={() => mutate()} />}
-        {data && data.items.length === 0 && <p className="px-3 py-6 text-sm text-muted">No devices here yet.</p>}
-        {data && data.items.length > 0 && (
-          <table className={STACKED_TABLE}>
-            <thead>
-              <tr>
-                <th scope="col">Name</th>
-                <th scope="col">Serial</th>
-                <th scope="col">Site</th>
-                <th scope="col">Profile</th>
-                <th scope="col">Channels</th>
-                <th scope="col">Last seen</th>
-                <th scope="col">Battery</th>
-                <th scope="col">Signal</th>
-              </tr>
-            </thead>
-            <tbody>
-              {data.items.map((d) => (
-                <tr key={d.id}>
-                  <td data-label="Name"><Link href={`/devices/${d.id}`} className="font-bold underline">{d.name}</Link></td>
-                  <td data-label="Serial" className="figures">{d.serial}</td>
-                  <td data-label="Site">{siteName(d.site_id)}</td>
-                  <td data-label="Profile">{PROFILE_LABELS[d.profile] ?? d.profile}</td>
-                  <td data-label="Channels" className="figures">{d.channels.length}</td>
-                  <td data-label="Last seen" className="figures">
-                    {d.last_seen_at ? formatAge(d.last_seen_at) : "never"}
-                    {isOffline(d) && <span className="font-sans"> · offline</span>}
-                  </td>
-                  <td data-label="Battery" className="figures">{formatVolts(d.battery_v)}</td>
-                  <td data-label="Signal" className="figures">{formatDbm(d.rssi_dbm)}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        )}
-      </section>
+      <DataTable data={data?.items} columns={columns} getRowId={(d) => d.id} label="Devices" loading={isLoading} error={error} retry={() => mutate()} empty="No devices here yet." />
     </div>
   );
 }
