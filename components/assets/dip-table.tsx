@@ -55,5 +55,5 @@ export function DipTable({ dips, selected, onToggle, selectable }: { dips: DipJs
     column.accessor((d) => d.by ?? "—", { id: "by", header: "By" }),
     column.accessor((d) => d.note ?? "", { id: "note", header: "Note", enableSorting: false }),
   ];
-  return <DataTable data={dips} columns={columns} getRowId={(d) => d.id} label="Manual dips beside the sensor" empty="No dips recorded for this tank yet." />;
+  return <DataTable data={dips} columns={columns} getRowId={(d) => d.id} label="Dip list" empty="No dips recorded for this tank yet." />;
 }
