@@ -4,16 +4,16 @@ import Link from "next/link";
 import { usePathname, useRouter, useSearchParams } from "next/navigation";
 import { useState } from "react";
 import useSWR from "swr";
-import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
+import { createColumnHelper, getCoreRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
 import type { DeviceHealthPage, DeviceHealthRow } from "@/lib/db/queries/overview-devices";
 import type { SiteJson } from "@/lib/db/queries/sites";
 import { swrFetcher } from "@/lib/fetcher";
 import { DEVICE_HEALTH_FLAGS, DEVICE_HEALTH_SORTS, type DeviceHealthSort } from "@/lib/validations/overview";
-import { Loading, LoadError } from "@/components/ui/data-state";
 import { formatAge, formatDbm, formatVolts } from "@/components/fleet/fleet-figures";
 import { LIVE_REFRESH_MS } from "@/components/fleet/fleet-overview";
 import { FlagTag, flagLabel } from "@/components/fleet/fleet-status";
-import { STACKED_TABLE } from "@/components/ui/form-fields";
+import { DataTableView } from "@/components/ui/data-table";
+import { ClearFilters } from "@/components/ui/clear-filters";
 
 // The devices health table: when each device was last heard, its battery, signal, firmware and the
 // open sensor flags of each channel. Paged, sorted and filtered on the server; every choice is kept in
@@ -159,46 +159,24 @@ export function DeviceHealthTable() {
             {DEVICE_HEALTH_FLAGS.map((f) => <option key={f} value={f}>{flagLabel(f)}</option>)}
           </select>
         </div>
+        <ClearFilters
+          filtered={["q", "site_id", "state", "flag"].some((k) => params.get(k))}
+          onClear={() => {
+            setSearch("");
+            update({ q: null, site_id: null, state: null, flag: null });
+          }}
+        />
       </form>
 
-      <section className="card overflow-x-auto" aria-label="Device health">
-        {isLoading && !data && <Loading label="Loading the devices…" />}
-        {error && <LoadError error={error} retry={() => mutate()} />}
-        {data && data.items.length === 0 && <p className="px-3 py-6 text-sm text-muted">No device matches these filters.</p>}
-        {data && data.items.length > 0 && (
-          <table className={STACKED_TABLE}>
-            <thead>
-              {table.getHeaderGroups().map((g) => (
-                <tr key={g.id}>
-                  {g.headers.map((h) => {
-                    const sorted = h.column.getIsSorted();
-                    return (
-                      <th key={h.id} scope="col" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : "none"}>
-                        <button type="button" className="inline-flex items-center gap-1 uppercase hover:underline" onClick={h.column.getToggleSortingHandler()}>
-                          {flexRender(h.column.columnDef.header, h.getContext())}
-                          <span aria-hidden="true">{sorted === "asc" ? "↑" : sorted === "desc" ? "↓" : ""}</span>
-                          <span className="sr-only">{sorted ? `, sorted ${sorted === "asc" ? "ascending" : "descending"}` : ", sort"}</span>
-                        </button>
-                      </th>
-                    );
-                  })}
-                </tr>
-              ))}
-            </thead>
-            <tbody>
-              {table.getRowModel().rows.map((r) => (
-                <tr key={r.id} data-testid="device-health-row">
-                  {r.getVisibleCells().map((c) => (
-                    <td key={c.id} data-label={String(c.column.columnDef.header)} className="align-top">
-                      {flexRender(c.column.columnDef.cell, c.getContext())}
-                    </td>
-                  ))}
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        )}
-      </section>
+      <DataTableView
+        table={table}
+        label="Device health"
+        loading={isLoading}
+        error={error}
+        retry={() => mutate()}
+        empty="No device matches these filters."
+        rowProps={() => ({ "data-testid": "device-health-row" })}
+      />
 
       {data && (
         <nav aria-label="Pages" className="flex flex-wrap items-center gap-3 text-sm">
