@@ -4,8 +4,9 @@
 /**
  * Reads a typed decimal number. Spaces (also no-break and narrow no-break) group digits; with both "," and
  * "." the last one is the decimal separator; a lone "," or "." is always the decimal separator (so "2,1"
- * is 2.1, never 21); a separator that repeats without the other is a grouping ("1.234.567"). Anything
- * else is NaN, for the schema to refuse.
+ * is 2.1, never 21, and "1,234" is 1.234: thousands are typed without a separator or with a space); a
+ * separator that repeats without the other is a grouping ("1.234.567"). Anything else is NaN, for the
+ * schema to refuse.
  */
 export function parseDecimal(text: string): number {
   const t = text.trim().replace(/[\s\u00a0\u202f]/g, "").replace(/^\u2212/, "-");
