@@ -51,7 +51,7 @@ test("an admin provisions a site, a tank and a device, and the device's key send
   const tankRow = page.getByRole("row", { name: new RegExp(tankName) });
   await expect(tankRow).toContainText(/3\u202f000\u00a0L/);
   // Asset names in the list lead to their pages.
-  await expect(tankRow.getByRole("link", { name: tankName })).toHaveAttribute("href", /\/assets\/[0-9a-f-]{36}$/);
+  await expect(tankRow.getByRole("link", { name: tankName, exact: true })).toHaveAttribute("href", /\/assets\/[0-9a-f-]{36}$/);
 
   await page.goto("/devices/new");
   await page.getByLabel("Site").selectOption({ label: siteName });
