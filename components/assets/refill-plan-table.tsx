@@ -6,9 +6,9 @@ import { usePathname, useRouter, useSearchParams } from "next/navigation";
 import { swrFetcher } from "@/lib/fetcher";
 import type { RefillPlanJson } from "@/lib/db/queries/refill-plan";
 import { MAX_HORIZON_DAYS } from "@/lib/validations/export";
-import { Loading, LoadError } from "@/components/ui/data-state";
+import { createColumnHelper } from "@tanstack/react-table";
 import { formatAge, formatDaysToReorder, formatLitres, formatPercent } from "@/components/fleet/fleet-figures";
-import { STACKED_TABLE } from "@/components/ui/form-fields";
+import { DataTable } from "@/components/ui/data-table";
 
 export const HORIZON_CHOICES = [3, 7, 14, 30, 60, MAX_HORIZON_DAYS] as const;
 const DEFAULT_HORIZON = 14;
@@ -23,6 +23,28 @@ function dueText(row: RefillPlanJson["items"][number]): string {
   const when = row.days_to_reorder <= 0 ? "now, by the forecast" : formatDaysToReorder(row.days_to_reorder);
   return `${when} (${new Date(row.due_at).toLocaleDateString(undefined, { dateStyle: "medium" })})`;
 }
+
+type PlanRow = RefillPlanJson["items"][number];
+const column = createColumnHelper<PlanRow>();
+const columns = [
+  column.accessor((r) => new Date(r.due_at).getTime(), { id: "due", header: "Due", cell: (c) => <span className={c.row.original.reason === "below_reorder" ? "font-bold" : undefined}>{dueText(c.row.original)}</span> }),
+  column.accessor("asset_name", { header: "Tank", cell: (c) => <Link href={`/assets/${c.row.original.asset_id}`} className="underline">{c.getValue()}</Link> }),
+  column.accessor("site_name", { header: "Site" }),
+  column.accessor("fill_pct", { header: "Fill now", cell: (c) => formatPercent(c.getValue()), meta: { cellClassName: "figures" } }),
+  column.accessor("current_volume_l", { header: "Volume now", cell: (c) => formatLitres(c.getValue()), meta: { cellClassName: "figures" } }),
+  column.accessor("deliver_l", {
+    header: "Deliver to safe fill",
+    meta: { cellClassName: "figures" },
+    cell: ({ row: { original: r } }) => (
+      <>
+        {r.deliver_l === null ? <span className="font-sans text-muted">{r.safe_fill_pct === null ? "no safe fill set" : "no volume yet"}</span> : formatLitres(r.deliver_l)}
+        {r.safe_fill_pct !== null && <span className="font-sans text-xs text-muted"> to {formatPercent(r.safe_fill_pct)}</span>}
+      </>
+    ),
+  }),
+  column.accessor("days_to_empty", { header: "Empty in", cell: (c) => (c.getValue() == null ? "—" : `${c.getValue()!.toFixed(1)}\u00a0d`), meta: { cellClassName: "figures" } }),
+  column.accessor("measured_at", { header: "Measured", cell: (c) => (c.getValue() ? formatAge(c.getValue()!) : "never") }),
+];
 
 /**
  * The refill plan for a horizon kept in the URL: read-only for every role (a delivery partner plans
@@ -55,45 +77,17 @@ export function RefillPlanTable({ canExport }: { canExport: boolean }) {
           </a>
         )}
       </div>
-      <section className="card overflow-x-auto" aria-label="Refill plan">
-        {isLoading && <Loading />}
-        {error && <LoadError error={error} retry={() => mutate()} />}
-        {data && data.items.length === 0 && <p className="px-3 py-6 text-sm text-muted">No tank reaches its reorder level in the next {horizon} days.</p>}
-        {data && data.items.length > 0 && (
-          <table className={STACKED_TABLE}>
-            <caption className="sr-only">Tanks to refill in the next {horizon} days, soonest first</caption>
-            <thead>
-              <tr>
-                <th scope="col">Due</th>
-                <th scope="col">Tank</th>
-                <th scope="col">Site</th>
-                <th scope="col">Fill now</th>
-                <th scope="col">Volume now</th>
-                <th scope="col">Deliver to safe fill</th>
-                <th scope="col">Empty in</th>
-                <th scope="col">Measured</th>
-              </tr>
-            </thead>
-            <tbody>
-              {data.items.map((r) => (
-                <tr key={r.asset_id}>
-                  <td data-label="Due" className={r.reason === "below_reorder" ? "font-bold" : undefined}>{dueText(r)}</td>
-                  <td data-label="Tank"><Link href={`/assets/${r.asset_id}`} className="underline">{r.asset_name}</Link></td>
-                  <td data-label="Site">{r.site_name}</td>
-                  <td data-label="Fill now" className="figures">{formatPercent(r.fill_pct)}</td>
-                  <td data-label="Volume now" className="figures">{formatLitres(r.current_volume_l)}</td>
-                  <td data-label="Deliver to safe fill" className="figures">
-                    {r.deliver_l === null ? <span className="font-sans text-muted">{r.safe_fill_pct === null ? "no safe fill set" : "no volume yet"}</span> : formatLitres(r.deliver_l)}
-                    {r.safe_fill_pct !== null && <span className="font-sans text-xs text-muted"> to {formatPercent(r.safe_fill_pct)}</span>}
-                  </td>
-                  <td data-label="Empty in" className="figures">{r.days_to_empty == null ? "—" : `${r.days_to_empty.toFixed(1)}\u00a0d`}</td>
-                  <td data-label="Measured">{r.measured_at ? formatAge(r.measured_at) : "never"}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        )}
-      </section>
+      <DataTable
+        data={data?.items}
+        columns={columns}
+        getRowId={(r) => r.asset_id}
+        label="Refill plan"
+        sortable={false}
+        loading={isLoading}
+        error={error}
+        retry={() => mutate()}
+        empty={`No tank reaches its reorder level in the next ${horizon} days.`}
+      />
       {data && <p className="text-xs text-muted">Volume to deliver = capacity × safe fill − volume now. Forecasts follow each tank&apos;s recent consumption, with refills left out.</p>}
     </div>
   );

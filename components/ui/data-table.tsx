@@ -106,8 +106,11 @@ export function DataTable<T>({
   columns,
   getRowId,
   initialSorting = [],
+  sortable = true,
   ...states
 }: DataTableStates<T> & {
+  /** False for a list whose order is its meaning (the refill plan, soonest first). */
+  sortable?: boolean;
   data: T[] | undefined;
   // eslint-disable-next-line @typescript-eslint/no-explicit-any -- TanStack's own type for columns of mixed value types
   columns: ColumnDef<T, any>[];
@@ -120,6 +123,7 @@ export function DataTable<T>({
     columns,
     getRowId,
     state: { sorting },
+    enableSorting: sortable,
     onSortingChange: setSorting,
     getCoreRowModel: getCoreRowModel(),
     getSortedRowModel: getSortedRowModel(),
