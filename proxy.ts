@@ -5,7 +5,7 @@ import { pageCsp } from "./lib/http/security-headers.mjs";
 
 // Cheap first gate (no database): signed-out page requests go to sign-in. Route handlers and pages still
 // check the session and role themselves through requirePermission/requirePageUser.
-const PUBLIC_PREFIXES = ["/sign-in", "/invite/", "/ack/", "/_next/", "/favicon", "/wordmark"];
+const PUBLIC_PREFIXES = ["/sign-in", "/invite/", "/ack/", "/_next/", "/favicon", "/wordmark", "/manifest.webmanifest", "/icons/"];
 
 // Each page answer gets a fresh nonce in its Content-Security-Policy; Next.js reads it from the request
 // header and puts it on its own scripts (so every page renders dynamically: see app/layout.tsx).

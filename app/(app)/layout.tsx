@@ -1,5 +1,5 @@
 import { requirePageUser } from "@/lib/auth/session";
-import { AppShell } from "@/components/app-shell";
+import { AppShell } from "@/components/shell/app-shell";
 
 export const dynamic = "force-dynamic";
 

@@ -1,8 +1,8 @@
 import type { Metadata } from "next";
 import { requirePageUser } from "@/lib/auth/session";
-import { PageHeader } from "@/components/page-header";
-import { FleetOverview } from "@/components/fleet-overview";
 import { fetchOrganisationName } from "@/lib/services/organisations";
+import { PageHeader } from "@/components/ui/page-header";
+import { FleetOverview } from "@/components/fleet/fleet-overview";
 
 export const metadata: Metadata = { title: "Overview" };
 

@@ -2,8 +2,8 @@ import type { Metadata } from "next";
 import { redirect } from "next/navigation";
 import { currentUser } from "@/lib/auth/session";
 import { sameOriginPath } from "@/lib/auth/redirects";
-import { Wordmark } from "@/components/wordmark";
-import { SignInForm } from "@/components/sign-in-form";
+import { Wordmark } from "@/components/shell/wordmark";
+import { SignInForm } from "@/components/shell/sign-in-form";
 
 export const metadata: Metadata = { title: "Sign in" };
 

@@ -92,8 +92,6 @@ export const DEFAULT_PRIORITIES: Record<AlarmKind, AlarmPriority> = {
   common_cause: "low",
 };
 
-export const PRIORITY_GLYPHS: Record<AlarmPriority, string> = { critical: "◆", high: "▲", medium: "■", low: "●" };
-
 /** The caution PRODUCT.md asks for on every screen and e-mail with tank alarms. */
 export const ALARM_CAUTION =
   "Halftrip raises operational alarms only; it is not an overfill-prevention or safety system. Follow API 2350 / IEC 61511, local codes and licensed practice for overfill protection and safety functions.";

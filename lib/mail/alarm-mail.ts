@@ -1,7 +1,8 @@
 // The alarm e-mail: one alarm's own message, or a summary when several at one site fall due together.
 // Plain text first (a phone in the field), a simple HTML twin; times in the site's own time zone.
 
-import { ALARM_CAUTION, PRIORITY_GLYPHS } from "../alarms/engine";
+import { ALARM_CAUTION } from "../alarms/engine";
+import { priorityText } from "../alarms/vocabulary";
 import type { AlarmPriority } from "../alarms/state-machine";
 
 export interface AlarmMailItem {
@@ -55,10 +56,6 @@ function figure(v: number | null, unit: string | null): string {
   return unit === "m" ? `${v.toFixed(3)} m` : unit ? `${Number(v.toFixed(3))} ${unit}` : String(Number(v.toFixed(3)));
 }
 
-function priorityWord(p: AlarmPriority): string {
-  return `${PRIORITY_GLYPHS[p]} ${p[0].toUpperCase()}${p.slice(1)}`;
-}
-
 function where(item: AlarmMailItem): string {
   return [item.assetName, item.channelLabel].filter(Boolean).join(" · ") || "the site";
 }
@@ -69,7 +66,7 @@ function escapeHtml(s: string): string {
 
 function itemLines(item: AlarmMailItem, input: AlarmMailInput): string[] {
   return [
-    `${priorityWord(item.priority)} priority — ${item.condition}${item.escalation ? " (escalated to you: not acknowledged in time)" : ""}`,
+    `${priorityText(item.priority)} priority — ${item.condition}${item.escalation ? " (escalated to you: not acknowledged in time)" : ""}`,
     `Site: ${input.siteName}`,
     `Asset: ${where(item)}`,
     `Value: ${figure(item.value, item.unit)}   Setpoint: ${figure(item.setpoint, item.unit)}`,
@@ -85,7 +82,7 @@ export function composeAlarmMail(input: AlarmMailInput): ComposedMail {
   if (items.length === 0) throw new RangeError("an alarm e-mail needs at least one alarm");
   const single = items.length === 1;
   const subject = single
-    ? `${priorityWord(items[0].priority)} alarm: ${items[0].condition} at ${where(items[0])}, ${input.siteName}`
+    ? `${priorityText(items[0].priority)} alarm: ${items[0].condition} at ${where(items[0])}, ${input.siteName}`
     : `${items.length} alarms at ${input.siteName}`;
   const linkNote = `Each acknowledge link opens a confirmation page; it works once, for you only, for ${input.ackTtlHours} h.`;
   const intro = single
@@ -105,7 +102,7 @@ export function composeAlarmMail(input: AlarmMailInput): ComposedMail {
       ]
         .map(([k, v]) => `<tr><th align="left" style="padding:2px 12px 2px 0">${k}</th><td>${v}</td></tr>`)
         .join("");
-      const heading = `${escapeHtml(priorityWord(item.priority))} priority — ${escapeHtml(item.condition)}${item.escalation ? " (escalated to you)" : ""}`;
+      const heading = `${escapeHtml(priorityText(item.priority))} priority — ${escapeHtml(item.condition)}${item.escalation ? " (escalated to you)" : ""}`;
       return `<h2 style="font-size:16px;margin:16px 0 4px">${heading}</h2><table>${rows}</table><p><a href="${escapeHtml(item.ackUrl)}">Acknowledge this alarm</a></p>`;
     })
     .join("");

@@ -3,6 +3,8 @@ import { uuidSchema, text } from "./common";
 import { tankCapacity, type TankGeometry } from "../geometry/tank-volume";
 import { TANK_PURPOSES } from "../forecast/purpose";
 
+export const ASSET_KINDS = ["tank", "bay", "point"] as const;
+
 const metres = (what: string) => z.number({ message: `${what} is a number of metres.` }).positive(`${what} must be above 0 m.`).max(100, `${what} must be at most 100 m.`);
 
 const verticalCylinder = z
@@ -55,7 +57,7 @@ const pct = (what: string) => z.number().min(0, `${what} is 0–100 %.`).max(100
 
 const assetFields = {
   site_id: uuidSchema,
-  kind: z.enum(["tank", "bay", "point"], { message: "Kind is tank, bay or point." }),
+  kind: z.enum(ASSET_KINDS, { message: "Kind is tank, bay or point." }),
   name: text().trim().min(1, "Give the asset a name.").max(120, "Keep the name under 120 characters."),
   mount_height_m: metres("Mount height").nullable().optional(),
   purpose: z.enum(TANK_PURPOSES, { message: `Purpose is one of ${TANK_PURPOSES.join(", ")}.` }).nullable().optional(),
@@ -124,3 +126,6 @@ export const createAssetSchema = z
 export const updateAssetSchema = z.object(assetFields).omit({ kind: true, site_id: true }).partial().strict();
 export type AssetInput = z.infer<typeof createAssetSchema>;
 export type AssetPatch = z.infer<typeof updateAssetSchema>;
+
+/** The asset list's filters, in the API's query string and in the screen's URL. */
+export const assetListQuerySchema = z.object({ site_id: uuidSchema.optional(), kind: z.enum(ASSET_KINDS).optional() });

@@ -74,3 +74,6 @@ export const updateDeviceSchema = z.object(deviceFields).omit({ site_id: true })
 export type DeviceInput = z.infer<typeof createDeviceSchema>;
 export type DevicePatch = z.infer<typeof updateDeviceSchema>;
 export type ChannelInput = z.infer<typeof channelSchema>;
+
+/** The device list's filter, in the API's query string and in the screen's URL. */
+export const deviceListQuerySchema = z.object({ site_id: uuidSchema.optional() });

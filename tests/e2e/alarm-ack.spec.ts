@@ -67,6 +67,10 @@ test("the technician acknowledges an H alarm from the e-mail link, and the alarm
   await page.getByLabel("Comment (optional)").fill("checking the inlet valve");
   await page.getByRole("button", { name: "Acknowledge" }).click();
   await expect(page.getByRole("status")).toContainText("Acknowledged as technician@halftrip.test");
+  // The page no longer asks: its heading and the state row say what happened.
+  await expect(page.getByRole("heading", { name: "Alarm acknowledged" })).toBeVisible();
+  await expect(page.getByRole("heading", { name: "Acknowledge this alarm?" })).toHaveCount(0);
+  await expect(page.locator("dd [data-state]")).toHaveText("Acknowledged");
   const acked = await alarmOf(t.operator, t.tank.id, "h");
   expect(acked.state).toBe("acknowledged");
   expect(acked.acknowledged_by.email).toBe("technician@halftrip.test");

@@ -18,7 +18,10 @@ test("an admin provisions a site, a tank and a device, and the device's key send
   await page.getByLabel("Time zone").fill("Europe/Dublin");
   await page.getByLabel("Fixed air temperature (°C)").fill("12");
   await page.getByRole("button", { name: "Add site" }).click();
-  await expect(page).toHaveURL(/\/sites$/);
+  // After creating, the app shows what was created.
+  await expect(page).toHaveURL(/\/sites\/[0-9a-f-]{36}$/);
+  await expect(page.getByRole("heading", { name: siteName })).toBeVisible();
+  await page.goto("/sites");
   await expect(page.getByRole("row", { name: new RegExp(siteName) })).toContainText("Europe/Dublin");
 
   await page.goto("/assets/new");
@@ -30,7 +33,8 @@ test("an admin provisions a site, a tank and a device, and the device's key send
   await page.getByLabel("Name", { exact: true }).fill(tankName);
   await page.getByLabel("Shape").selectOption("rectangular");
   await page.getByLabel("Length (m)", { exact: true }).fill("2");
-  await page.getByLabel("Width (m)", { exact: true }).fill("1.5");
+  // A decimal comma is read as the decimal separator: 1,5 m, not 15 m.
+  await page.getByLabel("Width (m)", { exact: true }).fill("1,5");
   await page.getByLabel("Height (m)", { exact: true }).fill("1");
   // 2 m × 1.5 m × 1 m = 3 m³ = 3000 L, by hand.
   const capacity = page.getByTestId("live-capacity");
@@ -41,8 +45,13 @@ test("an admin provisions a site, a tank and a device, and the device's key send
   await page.getByLabel("Safe fill (%)").fill("95");
   await expect(page.getByRole("note")).toContainText("not an overfill-prevention or safety system");
   await page.getByRole("button", { name: "Add asset" }).click();
-  await expect(page).toHaveURL(/\/assets$/);
-  await expect(page.getByRole("row", { name: new RegExp(tankName) })).toContainText(/3\u202f000\u00a0L/);
+  await expect(page).toHaveURL(/\/assets\/[0-9a-f-]{36}$/);
+  await expect(page.getByRole("heading", { name: tankName })).toBeVisible();
+  await page.goto("/assets");
+  const tankRow = page.getByRole("row", { name: new RegExp(tankName) });
+  await expect(tankRow).toContainText(/3\u202f000\u00a0L/);
+  // Asset names in the list lead to their pages.
+  await expect(tankRow.getByRole("link", { name: tankName, exact: true })).toHaveAttribute("href", /\/assets\/[0-9a-f-]{36}$/);
 
   await page.goto("/devices/new");
   await page.getByLabel("Site").selectOption({ label: siteName });

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { alarmFigure } from "@/components/alarm-badges";
+import { alarmFigure } from "@/components/alarms/alarm-badges";
 
 // How an alarm's value reads: level alarms in metres, health alarms in what their flag measures.
 describe("alarmFigure", () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { buildTrend, forecastLine, sourceForPeriod, uncompensatedDistance, type SeriesPoint } from "@/components/asset-live-series";
+import { buildTrend, forecastLine, sourceForPeriod, uncompensatedDistance, type SeriesPoint } from "@/components/assets/asset-live-series";
 
 const IDENTITY = { offsetM: 0, scale: 1, faceOffsetM: 0 };
 

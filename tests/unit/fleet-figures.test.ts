@@ -10,7 +10,7 @@ import {
   groupDigits,
   isOverdue,
   roundUncertainty,
-} from "@/components/fleet-figures";
+} from "@/components/fleet/fleet-figures";
 
 const NBSP = "\u00a0";
 const NARROW = "\u202f";

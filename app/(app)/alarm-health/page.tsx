@@ -1,10 +1,10 @@
 import type { Metadata } from "next";
 import { Suspense } from "react";
 import { requirePageUser } from "@/lib/auth/session";
-import { PageHeader } from "@/components/page-header";
-import { Loading } from "@/components/data-state";
-import { AlarmCaution } from "@/components/alarm-caution";
-import { AlarmHealthReport } from "@/components/alarm-health-report";
+import { PageHeader } from "@/components/ui/page-header";
+import { Loading } from "@/components/ui/data-state";
+import { AlarmCaution } from "@/components/alarms/alarm-caution";
+import { AlarmHealthReport } from "@/components/alarms/alarm-health-report";
 
 export const metadata: Metadata = { title: "Alarm health" };
 

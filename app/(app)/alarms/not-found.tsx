@@ -1,4 +1,4 @@
-import { NotFoundPanel } from "@/components/site-provisioning-kit";
+import { NotFoundPanel } from "@/components/ui/form-fields";
 
 export default function AlarmNotFound() {
   return <NotFoundPanel what="Alarm" backHref="/alarms" backLabel="Back to the alarms" />;

@@ -2,10 +2,10 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { Suspense } from "react";
 import { requirePageUser } from "@/lib/auth/session";
-import { PageHeader } from "@/components/page-header";
-import { Loading } from "@/components/data-state";
-import { AlarmCaution } from "@/components/alarm-caution";
-import { AlarmTable } from "@/components/alarm-table";
+import { PageHeader } from "@/components/ui/page-header";
+import { Loading } from "@/components/ui/data-state";
+import { AlarmCaution } from "@/components/alarms/alarm-caution";
+import { AlarmTable } from "@/components/alarms/alarm-table";
 
 export const metadata: Metadata = { title: "Alarms" };
 

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { requirePageUser } from "@/lib/auth/session";
-import { PageHeader } from "@/components/page-header";
-import { AuditLogTable } from "@/components/audit-log-table";
+import { PageHeader } from "@/components/ui/page-header";
+import { AuditLogTable } from "@/components/audit/audit-log-table";
 
 export const metadata: Metadata = { title: "Audit log" };
 

@@ -1,9 +1,9 @@
 import type { Metadata } from "next";
 import { Suspense } from "react";
 import { requirePageUser } from "@/lib/auth/session";
-import { PageHeader } from "@/components/page-header";
-import { Loading } from "@/components/data-state";
-import { CalibrationTankList } from "@/components/calibration-tank-list";
+import { PageHeader } from "@/components/ui/page-header";
+import { Loading } from "@/components/ui/data-state";
+import { CalibrationTankList } from "@/components/calibration/calibration-tank-list";
 
 export const metadata: Metadata = { title: "Calibration" };
 

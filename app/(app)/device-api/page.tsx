@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import { requirePageUser } from "@/lib/auth/session";
-import { PageHeader } from "@/components/page-header";
+import { PageHeader } from "@/components/ui/page-header";
 import { appUrl } from "@/lib/mail/send-mail";
 import { MAX_BODY_BYTES, MAX_READINGS_PER_REQUEST } from "@/lib/validations/reading";
 

@@ -3,9 +3,9 @@ import Link from "next/link";
 import { Suspense } from "react";
 import { requirePageUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
-import { PageHeader } from "@/components/page-header";
-import { Loading } from "@/components/data-state";
-import { DeviceTable } from "@/components/device-table";
+import { PageHeader } from "@/components/ui/page-header";
+import { Loading } from "@/components/ui/data-state";
+import { DeviceTable } from "@/components/devices/device-table";
 
 export const metadata: Metadata = { title: "Devices" };
 

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { requirePageUser } from "@/lib/auth/session";
-import { PageHeader } from "@/components/page-header";
-import { ExportForms } from "@/components/export-forms";
+import { PageHeader } from "@/components/ui/page-header";
+import { ExportForms } from "@/components/exports/export-forms";
 
 export const metadata: Metadata = { title: "Exports" };
 

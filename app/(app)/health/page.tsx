@@ -1,9 +1,9 @@
 import type { Metadata } from "next";
 import { Suspense } from "react";
 import { requirePageUser } from "@/lib/auth/session";
-import { PageHeader } from "@/components/page-header";
-import { Loading } from "@/components/data-state";
-import { DeviceHealthTable } from "@/components/device-health-table";
+import { PageHeader } from "@/components/ui/page-header";
+import { Loading } from "@/components/ui/data-state";
+import { DeviceHealthTable } from "@/components/devices/device-health-table";
 
 export const metadata: Metadata = { title: "Device health" };
 

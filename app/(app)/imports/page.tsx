@@ -1,8 +1,8 @@
 import type { Metadata } from "next";
 import { requirePageUser } from "@/lib/auth/session";
-import { PageHeader } from "@/components/page-header";
-import { ImportHistory } from "@/components/import-history";
-import { ImportUploader } from "@/components/import-uploader";
+import { PageHeader } from "@/components/ui/page-header";
+import { ImportHistory } from "@/components/imports/import-history";
+import { ImportUploader } from "@/components/imports/import-uploader";
 
 export const metadata: Metadata = { title: "Imports" };
 

@@ -1,9 +1,9 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { requirePageUser } from "@/lib/auth/session";
-import { PageHeader } from "@/components/page-header";
-import { MailSinkViewer } from "@/components/mail-sink-viewer";
 import { isMailSinkEnabled } from "@/lib/mail/sink-client";
+import { PageHeader } from "@/components/ui/page-header";
+import { MailSinkViewer } from "@/components/shell/mail-sink-viewer";
 
 export const metadata: Metadata = { title: "Mail sink" };
 

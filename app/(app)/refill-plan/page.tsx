@@ -2,9 +2,9 @@ import type { Metadata } from "next";
 import { Suspense } from "react";
 import { requirePageUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
-import { PageHeader } from "@/components/page-header";
-import { Loading } from "@/components/data-state";
-import { RefillPlanTable } from "@/components/refill-plan-table";
+import { PageHeader } from "@/components/ui/page-header";
+import { Loading } from "@/components/ui/data-state";
+import { RefillPlanTable } from "@/components/assets/refill-plan-table";
 
 export const metadata: Metadata = { title: "Refill plan" };
 

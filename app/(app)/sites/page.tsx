@@ -2,8 +2,8 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { requirePageUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
-import { PageHeader } from "@/components/page-header";
-import { SiteTable } from "@/components/site-table";
+import { PageHeader } from "@/components/ui/page-header";
+import { SiteTable } from "@/components/sites/site-table";
 
 export const metadata: Metadata = { title: "Sites" };
 

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { requirePageUser } from "@/lib/auth/session";
-import { PageHeader } from "@/components/page-header";
-import { UsersManager } from "@/components/users-manager";
+import { PageHeader } from "@/components/ui/page-header";
+import { UsersManager } from "@/components/users/users-manager";
 
 export const metadata: Metadata = { title: "Users" };
 

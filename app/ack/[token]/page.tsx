@@ -4,12 +4,14 @@ import { currentUser } from "@/lib/auth/session";
 import { ackLinkProblemMessage, lookUpAckLink } from "@/lib/services/notifications";
 import { findAlarm } from "@/lib/services/alarms";
 import { needsAcknowledgement } from "@/lib/alarms/engine";
-import type { AlarmPriority, AlarmState } from "@/lib/alarms/state-machine";
+import type { AlarmState } from "@/lib/alarms/state-machine";
 import { formatSiteTime } from "@/lib/mail/alarm-mail";
-import { Wordmark } from "@/components/wordmark";
-import { AlarmCaution } from "@/components/alarm-caution";
-import { AlarmPriorityBadge, AlarmStateLabel, alarmFigure } from "@/components/alarm-badges";
-import { AlarmAckConfirm } from "@/components/alarm-ack-confirm";
+import { Wordmark } from "@/components/shell/wordmark";
+import { AlarmCaution } from "@/components/alarms/alarm-caution";
+import { AlarmStateLabel, alarmFigure } from "@/components/alarms/alarm-badges";
+import { PriorityBadge } from "@/components/ui/priority-badge";
+import { AlarmAckConfirm, AlarmFacts } from "@/components/alarms/alarm-ack-confirm";
+import { alarmStateWord } from "@/lib/alarms/vocabulary";
 
 export const metadata: Metadata = { title: "Acknowledge an alarm", robots: { index: false, follow: false } };
 export const dynamic = "force-dynamic";
@@ -21,35 +23,39 @@ export default async function AckPage({ params }: { params: Promise<{ token: str
   const viewer = await currentUser();
   const link = await lookUpAckLink(token, viewer?.organisationId ?? null);
   const alarm = link.ok ? await findAlarm(link.organisationId, link.alarmId) : null;
+  const details = alarm && (
+    <>
+      <dt className="font-bold">Alarm</dt>
+      <dd><PriorityBadge priority={alarm.priority} calm={alarm.state === "normal"} /> {alarm.label}</dd>
+      <dt className="font-bold">Site</dt>
+      <dd>{alarm.site.name}</dd>
+      <dt className="font-bold">Asset</dt>
+      <dd>{alarm.asset?.name ?? (alarm.channel ? `${alarm.channel.device_name}, channel ${alarm.channel.index}` : "—")}</dd>
+      <dt className="font-bold">Value / setpoint</dt>
+      <dd className="figures">{alarmFigure(alarm.value, alarm.unit, alarm.kind)}{alarm.setpoint !== null && ` / ${alarmFigure(alarm.setpoint, alarm.unit, alarm.kind)}`}</dd>
+      <dt className="font-bold">Since</dt>
+      <dd className="figures">{alarm.activated_at ? formatSiteTime(new Date(alarm.activated_at), alarm.site.time_zone) : "—"}</dd>
+    </>
+  );
   return (
     <main className="flex min-h-screen items-center justify-center px-4 py-8">
       <div className="w-full max-w-md">
         <Wordmark className="mb-8" />
         {link.ok && alarm ? (
           <>
-            <h1 className="mb-1 text-2xl font-bold">Acknowledge this alarm?</h1>
-            <p className="mb-4 text-sm text-muted">The acknowledgement is recorded as {link.recipient.name} ({link.recipient.email}). This link works once.</p>
-            <dl className="card mb-4 grid grid-cols-[auto,1fr] gap-x-4 gap-y-2 p-4 text-sm">
-              <dt className="font-bold">Alarm</dt>
-              <dd><AlarmPriorityBadge priority={alarm.priority as AlarmPriority} calm={alarm.state === "normal"} /> {alarm.label}</dd>
-              <dt className="font-bold">Site</dt>
-              <dd>{alarm.site.name}</dd>
-              <dt className="font-bold">Asset</dt>
-              <dd>{alarm.asset?.name ?? (alarm.channel ? `${alarm.channel.device_name}, channel ${alarm.channel.index}` : "—")}</dd>
-              <dt className="font-bold">Value / setpoint</dt>
-              <dd className="figures">{alarmFigure(alarm.value, alarm.unit, alarm.kind)}{alarm.setpoint !== null && ` / ${alarmFigure(alarm.setpoint, alarm.unit, alarm.kind)}`}</dd>
-              <dt className="font-bold">Since</dt>
-              <dd className="figures">{alarm.activated_at ? formatSiteTime(new Date(alarm.activated_at), alarm.site.time_zone) : "—"}</dd>
-              <dt className="font-bold">State</dt>
-              <dd><AlarmStateLabel state={alarm.state as AlarmState} /></dd>
-            </dl>
             {needsAcknowledgement(alarm.state as AlarmState) ? (
-              <AlarmAckConfirm token={token} recipient={link.recipient.email} />
+              <AlarmAckConfirm token={token} recipient={link.recipient.email} state={alarm.state as AlarmState} details={details}>
+                The acknowledgement is recorded as {link.recipient.name} ({link.recipient.email}). This link works once.
+              </AlarmAckConfirm>
             ) : (
-              <p role="status" className="border-l-4 border-rule bg-card px-3 py-2">
-                There is nothing to acknowledge: this alarm is {alarm.state.replaceAll("_", " ")}
-                {alarm.acknowledged_by ? `, acknowledged by ${alarm.acknowledged_by.email}` : ""}. Nothing was changed.
-              </p>
+              <>
+                <h1 className="mb-4 text-2xl font-bold">Nothing to acknowledge</h1>
+                <AlarmFacts details={details} state={<AlarmStateLabel state={alarm.state as AlarmState} />} />
+                <p role="status" className="border-l-4 border-rule bg-card px-3 py-2">
+                  This alarm is {alarmStateWord(alarm.state).toLowerCase()}
+                  {alarm.acknowledged_by ? `, acknowledged by ${alarm.acknowledged_by.email}` : ""}. Nothing was changed.
+                </p>
+              </>
             )}
             <div className="mt-6"><AlarmCaution /></div>
           </>

@@ -1,16 +1,12 @@
-import { z } from "zod";
 import { actorOf, requirePermission } from "@/lib/auth/session";
 import { createAsset, listAssets } from "@/lib/services/assets";
 import { parseJsonBody, parseQuery } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
-import { createAssetSchema } from "@/lib/validations/asset";
-import { uuidSchema } from "@/lib/validations/common";
-
-const listQuery = z.object({ site_id: uuidSchema.optional(), kind: z.enum(["tank", "bay", "point"]).optional() });
+import { assetListQuerySchema, createAssetSchema } from "@/lib/validations/asset";
 
 export const GET = route(async (req) => {
   const user = await requirePermission("dashboard:read");
-  return Response.json({ items: await listAssets(user.organisationId, parseQuery(req.url, listQuery)) });
+  return Response.json({ items: await listAssets(user.organisationId, parseQuery(req.url, assetListQuerySchema)) });
 });
 
 export const POST = route(async (req) => {

@@ -1,16 +1,12 @@
-import { z } from "zod";
 import { actorOf, requirePermission } from "@/lib/auth/session";
 import { createDevice, listDevices } from "@/lib/services/devices";
 import { parseJsonBody, parseQuery } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
-import { uuidSchema } from "@/lib/validations/common";
-import { createDeviceSchema } from "@/lib/validations/device";
-
-const listQuery = z.object({ site_id: uuidSchema.optional() });
+import { createDeviceSchema, deviceListQuerySchema } from "@/lib/validations/device";
 
 export const GET = route(async (req) => {
   const user = await requirePermission("dashboard:read");
-  return Response.json({ items: await listDevices(user.organisationId, parseQuery(req.url, listQuery)) });
+  return Response.json({ items: await listDevices(user.organisationId, parseQuery(req.url, deviceListQuerySchema)) });
 });
 
 export const POST = route(async (req) => {

@@ -2,8 +2,8 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { lookUpInvite } from "@/lib/services/users";
 import { inviteProblem } from "@/lib/auth/invite-messages";
-import { Wordmark } from "@/components/wordmark";
-import { AcceptInviteForm } from "@/components/accept-invite-form";
+import { Wordmark } from "@/components/shell/wordmark";
+import { AcceptInviteForm } from "@/components/users/accept-invite-form";
 
 export const metadata: Metadata = { title: "Set your password" };
 export const dynamic = "force-dynamic";

@@ -2,9 +2,9 @@ import type { Metadata } from "next";
 import { requirePageUser } from "@/lib/auth/session";
 import { findAlarm } from "@/lib/services/alarms";
 import { findOrNotFound } from "@/lib/http/not-found";
-import { PageHeader } from "@/components/page-header";
-import { AlarmCaution } from "@/components/alarm-caution";
-import { AlarmDetail } from "@/components/alarm-detail";
+import { PageHeader } from "@/components/ui/page-header";
+import { AlarmCaution } from "@/components/alarms/alarm-caution";
+import { AlarmDetail } from "@/components/alarms/alarm-detail";
 
 export const metadata: Metadata = { title: "Alarm" };
 

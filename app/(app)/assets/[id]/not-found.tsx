@@ -1,4 +1,4 @@
-import { NotFoundPanel } from "@/components/site-provisioning-kit";
+import { NotFoundPanel } from "@/components/ui/form-fields";
 
 export default function AssetNotFound() {
   return <NotFoundPanel what="Asset" backHref="/assets" backLabel="Back to the assets" />;

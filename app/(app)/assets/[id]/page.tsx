@@ -6,9 +6,9 @@ import { can } from "@/lib/auth/permissions";
 import { findAsset } from "@/lib/services/assets";
 import { findSite } from "@/lib/services/sites";
 import { findOrNotFound } from "@/lib/http/not-found";
-import { PageHeader } from "@/components/page-header";
-import { Loading } from "@/components/data-state";
-import { AssetLive } from "@/components/asset-live";
+import { PageHeader } from "@/components/ui/page-header";
+import { Loading } from "@/components/ui/data-state";
+import { AssetLive } from "@/components/assets/asset-live";
 
 export const metadata: Metadata = { title: "Asset" };
 
@@ -25,7 +25,12 @@ export default async function AssetPage({ params }: { params: Promise<{ id: stri
         title={asset.name}
         path={[{ href: "/", label: "Overview" }, { href: `/sites/${site.id}`, label: site.name }]}
         facts={<>{KIND_WORDS[asset.kind]} at {site.name}{asset.kind === "bay" && asset.bay_level ? ` · ${asset.bay_level}` : ""}</>}
-        actions={can(user.role, "asset:manage") && <Link href={`/assets/${id}/edit`} className="btn-quiet">Edit asset</Link>}
+        actions={
+          <>
+            {asset.kind === "tank" && can(user.role, "dip:record") && <Link href={`/calibration/${id}#dip-form-title`} className="btn">Record a dip</Link>}
+            {can(user.role, "asset:manage") && <Link href={`/assets/${id}/edit`} className="btn-quiet">Edit asset</Link>}
+          </>
+        }
       />
       <Suspense fallback={<Loading />}>
         <AssetLive assetId={id} canAcknowledge={can(user.role, "alarm:acknowledge")} />

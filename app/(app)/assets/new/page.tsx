@@ -1,8 +1,8 @@
 import type { Metadata } from "next";
 import { requirePageUser } from "@/lib/auth/session";
 import { isUuid } from "@/lib/validations/common";
-import { PageHeader } from "@/components/page-header";
-import { AssetForm } from "@/components/asset-form";
+import { PageHeader } from "@/components/ui/page-header";
+import { AssetForm } from "@/components/assets/asset-form";
 
 export const metadata: Metadata = { title: "Add an asset" };
 

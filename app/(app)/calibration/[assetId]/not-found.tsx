@@ -1,4 +1,4 @@
-import { NotFoundPanel } from "@/components/site-provisioning-kit";
+import { NotFoundPanel } from "@/components/ui/form-fields";
 
 export default function CalibrationTankNotFound() {
   return <NotFoundPanel what="Tank" backHref="/calibration" backLabel="Back to calibration" />;

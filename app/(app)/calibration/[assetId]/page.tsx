@@ -5,8 +5,8 @@ import { can } from "@/lib/auth/permissions";
 import { findAsset } from "@/lib/services/assets";
 import { findSite } from "@/lib/services/sites";
 import { findOrNotFound } from "@/lib/http/not-found";
-import { PageHeader } from "@/components/page-header";
-import { CalibrationWorkbench } from "@/components/calibration-workbench";
+import { PageHeader } from "@/components/ui/page-header";
+import { CalibrationWorkbench } from "@/components/calibration/calibration-workbench";
 
 export const metadata: Metadata = { title: "Dips and calibration" };
 

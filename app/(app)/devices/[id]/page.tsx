@@ -4,8 +4,8 @@ import { requirePageUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { findDevice } from "@/lib/services/devices";
 import { findOrNotFound } from "@/lib/http/not-found";
-import { PageHeader } from "@/components/page-header";
-import { DeviceDetail } from "@/components/device-detail";
+import { PageHeader } from "@/components/ui/page-header";
+import { DeviceDetail } from "@/components/devices/device-detail";
 
 export const metadata: Metadata = { title: "Device" };
 

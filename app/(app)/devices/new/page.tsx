@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { requirePageUser } from "@/lib/auth/session";
-import { PageHeader } from "@/components/page-header";
-import { DeviceForm } from "@/components/device-form";
+import { PageHeader } from "@/components/ui/page-header";
+import { DeviceForm } from "@/components/devices/device-form";
 
 export const metadata: Metadata = { title: "Add a device" };
 

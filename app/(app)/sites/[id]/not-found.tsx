@@ -1,4 +1,4 @@
-import { NotFoundPanel } from "@/components/site-provisioning-kit";
+import { NotFoundPanel } from "@/components/ui/form-fields";
 
 export default function SiteNotFound() {
   return <NotFoundPanel what="Site" backHref="/sites" backLabel="Back to the sites" />;

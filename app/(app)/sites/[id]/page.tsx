@@ -4,8 +4,8 @@ import { requirePageUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { findSite } from "@/lib/services/sites";
 import { findOrNotFound } from "@/lib/http/not-found";
-import { PageHeader } from "@/components/page-header";
-import { SiteLive } from "@/components/site-live";
+import { PageHeader } from "@/components/ui/page-header";
+import { SiteLive } from "@/components/sites/site-live";
 
 export const metadata: Metadata = { title: "Site" };
 

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { requirePageUser } from "@/lib/auth/session";
-import { PageHeader } from "@/components/page-header";
-import { SiteForm } from "@/components/site-form";
+import { PageHeader } from "@/components/ui/page-header";
+import { SiteForm } from "@/components/sites/site-form";
 
 export const metadata: Metadata = { title: "Add a site" };
 

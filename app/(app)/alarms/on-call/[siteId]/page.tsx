@@ -3,8 +3,8 @@ import { requirePageUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { findSite } from "@/lib/services/sites";
 import { findOrNotFound } from "@/lib/http/not-found";
-import { PageHeader } from "@/components/page-header";
-import { AlarmOnCallForm } from "@/components/alarm-on-call-form";
+import { PageHeader } from "@/components/ui/page-header";
+import { AlarmOnCallForm } from "@/components/alarms/alarm-on-call-form";
 
 export const metadata: Metadata = { title: "On call" };
 

@@ -4,9 +4,9 @@ import { requirePageUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { findAsset } from "@/lib/services/assets";
 import { findOrNotFound } from "@/lib/http/not-found";
-import { PageHeader } from "@/components/page-header";
-import { AlarmCaution } from "@/components/alarm-caution";
-import { AlarmSetpointForm } from "@/components/alarm-setpoint-form";
+import { PageHeader } from "@/components/ui/page-header";
+import { AlarmCaution } from "@/components/alarms/alarm-caution";
+import { AlarmSetpointForm } from "@/components/alarms/alarm-setpoint-form";
 
 export const metadata: Metadata = { title: "Alarm setpoints" };
 

@@ -2,8 +2,8 @@ import type { Metadata } from "next";
 import { requirePageUser } from "@/lib/auth/session";
 import { findAsset } from "@/lib/services/assets";
 import { findOrNotFound } from "@/lib/http/not-found";
-import { PageHeader } from "@/components/page-header";
-import { AssetEditor } from "@/components/asset-form";
+import { PageHeader } from "@/components/ui/page-header";
+import { AssetEditor } from "@/components/assets/asset-form";
 
 export const metadata: Metadata = { title: "Edit asset" };
 

@@ -2,8 +2,8 @@ import type { Metadata } from "next";
 import { requirePageUser } from "@/lib/auth/session";
 import { findDevice } from "@/lib/services/devices";
 import { findOrNotFound } from "@/lib/http/not-found";
-import { PageHeader } from "@/components/page-header";
-import { DeviceEditor } from "@/components/device-form";
+import { PageHeader } from "@/components/ui/page-header";
+import { DeviceEditor } from "@/components/devices/device-form";
 
 export const metadata: Metadata = { title: "Edit device" };
 

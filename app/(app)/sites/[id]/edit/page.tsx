@@ -2,8 +2,8 @@ import type { Metadata } from "next";
 import { requirePageUser } from "@/lib/auth/session";
 import { findSite } from "@/lib/services/sites";
 import { findOrNotFound } from "@/lib/http/not-found";
-import { PageHeader } from "@/components/page-header";
-import { SiteEditor } from "@/components/site-form";
+import { PageHeader } from "@/components/ui/page-header";
+import { SiteEditor } from "@/components/sites/site-form";
 
 export const metadata: Metadata = { title: "Edit site" };
 

@@ -1,0 +1,100 @@
+"use client";
+
+import useSWR from "swr";
+import { useState } from "react";
+import { fetchJson, swrFetcher } from "@/lib/fetcher";
+import type { OnCallJson } from "@/lib/services/on-call";
+import { Loading, LoadError } from "@/components/ui/data-state";
+import { errorsFromApi, FormAlert, type FieldErrors } from "@/components/ui/form-fields";
+
+/** A site's on-call list in escalation order: add people, move them up or down, remove them, save. */
+export function AlarmOnCallForm({ siteId, editable }: { siteId: string; editable: boolean }) {
+  const { data, error, isLoading, mutate } = useSWR<OnCallJson>(`/api/sites/${siteId}/on-call`, swrFetcher, { revalidateOnFocus: false });
+  if (isLoading) return <Loading />;
+  if (error) return <LoadError error={error} retry={() => mutate()} />;
+  return data ? <OnCallFields key={JSON.stringify(data.entries)} data={data} editable={editable} onSaved={(d) => mutate(d, { revalidate: false })} /> : null;
+}
+
+function OnCallFields({ data, editable, onSaved }: { data: OnCallJson; editable: boolean; onSaved: (d: OnCallJson) => void }) {
+  const [ids, setIds] = useState<string[]>(data.entries.map((e) => e.user_id));
+  const [adding, setAdding] = useState("");
+  const [errors, setErrors] = useState<FieldErrors>({});
+  const [busy, setBusy] = useState(false);
+  const [saved, setSaved] = useState(false);
+  const people = new Map<string, { email: string; name: string; role: string }>();
+  for (const e of data.entries) people.set(e.user_id, { email: e.email, name: e.name, role: e.role });
+  for (const c of data.candidates ?? []) people.set(c.id, { email: c.email, name: c.name, role: c.role });
+  const addable = (data.candidates ?? []).filter((c) => !ids.includes(c.id));
+
+  const move = (i: number, by: number) =>
+    setIds((list) => {
+      const next = [...list];
+      [next[i], next[i + by]] = [next[i + by], next[i]];
+      return next;
+    });
+
+  async function save() {
+    setBusy(true);
+    setSaved(false);
+    setErrors({});
+    try {
+      onSaved(await fetchJson<OnCallJson>(`/api/sites/${data.site_id}/on-call`, { method: "PUT", body: JSON.stringify({ user_ids: ids }) }));
+      setSaved(true);
+    } catch (e) {
+      setErrors(errorsFromApi(e));
+    } finally {
+      setBusy(false);
+    }
+  }
+
+  return (
+    <div className="card max-w-2xl space-y-4 p-4">
+      <p className="text-sm text-muted">
+        The first person is e-mailed when an alarm activates; if nobody acknowledges within <span className="figures">{data.escalation_delay_min} min</span> (the
+        site&apos;s escalation delay), the next one is, and so on down the list.
+      </p>
+      {ids.length === 0 ? (
+        <p className="text-sm">Nobody is on call: alarms at this site are shown on screen but not e-mailed.</p>
+      ) : (
+        <ol className="space-y-2" aria-label="On call, in escalation order">
+          {ids.map((id, i) => {
+            const p = people.get(id);
+            return (
+              <li key={id} className="flex flex-wrap items-center gap-3 border-b border-rule pb-2">
+                <span className="figures w-6 text-right">{i + 1}.</span>
+                <span className="min-w-0 flex-1">
+                  <span className="font-bold">{p?.name || p?.email}</span> <span className="text-muted">{p?.email} · {p?.role}</span>
+                  {errors[`user_ids.${i}`] && <span className="field-error block">{errors[`user_ids.${i}`]}</span>}
+                </span>
+                {editable && (
+                  <span className="flex gap-2">
+                    <button type="button" className="btn-quiet md:h-8 px-3" disabled={i === 0} onClick={() => move(i, -1)} aria-label={`Move ${p?.email} up`}>Up</button>
+                    <button type="button" className="btn-quiet md:h-8 px-3" disabled={i === ids.length - 1} onClick={() => move(i, 1)} aria-label={`Move ${p?.email} down`}>Down</button>
+                    <button type="button" className="btn-quiet md:h-8 px-3" onClick={() => setIds((l) => l.filter((x) => x !== id))} aria-label={`Remove ${p?.email}`}>Remove</button>
+                  </span>
+                )}
+              </li>
+            );
+          })}
+        </ol>
+      )}
+      {editable && (
+        <>
+          <div className="flex flex-wrap items-end gap-3">
+            <div className="min-w-64 flex-1">
+              <label htmlFor="on-call-add" className="label">Add a person</label>
+              <select id="on-call-add" className="field" value={adding} onChange={(e) => setAdding(e.target.value)}>
+                <option value="">Choose…</option>
+                {addable.map((c) => <option key={c.id} value={c.id}>{c.name ? `${c.name} (${c.email})` : c.email} · {c.role}</option>)}
+              </select>
+            </div>
+            <button type="button" className="btn-quiet" disabled={!adding} onClick={() => { setIds((l) => [...l, adding]); setAdding(""); }}>Add</button>
+          </div>
+          <FormAlert errors={errors} rest={Object.entries(errors).filter(([k]) => !k.startsWith("user_ids.") && k !== "_").map(([, v]) => v)} />
+          {saved && <p role="status" className="text-sm">On-call list saved.</p>}
+          <button type="button" className="btn" disabled={busy} onClick={save}>{busy ? "Saving…" : "Save the list"}</button>
+        </>
+      )}
+    </div>
+  );
+}

@@ -1,0 +1,74 @@
+"use client";
+
+import Link from "next/link";
+import useSWR from "swr";
+import { createColumnHelper } from "@tanstack/react-table";
+import { can, type Role } from "@/lib/auth/permissions";
+import { swrFetcher } from "@/lib/fetcher";
+import { ASSET_KINDS, assetListQuerySchema } from "@/lib/validations/asset";
+import type { AssetJson } from "@/lib/services/assets";
+import type { SiteJson } from "@/lib/services/sites";
+import { formatLitres, formatMetres, formatPercent } from "@/components/fleet/fleet-figures";
+import { DataTable } from "@/components/ui/data-table";
+import { useListParams } from "@/components/ui/list-params";
+import { ClearFilters } from "@/components/ui/clear-filters";
+
+const FILTERS = ["site_id", "kind"] as const;
+const column = createColumnHelper<AssetJson>();
+
+function describeAsset(a: AssetJson): string {
+  if (a.kind === "tank") return [a.geometry?.shape.replace("_", " "), a.mount_height_m != null && `sensor at ${formatMetres(a.mount_height_m)}`].filter(Boolean).join(", ");
+  if (a.kind === "bay") {
+    const place = [a.bay_level, a.bay_row != null && `row ${a.bay_row}`, a.bay_col != null && `column ${a.bay_col}`].filter(Boolean).join(" ");
+    return `floor ${formatMetres(a.floor_distance_m)}, occupied below ${formatMetres(a.occupied_below_m)}${place ? `; ${place}` : ""}`;
+  }
+  return "distance point";
+}
+
+/** Assets filtered by site and kind; the filters live in the URL so a filtered list can be shared. */
+export function AssetTable({ role }: { role: Role }) {
+  const list = useListParams(assetListQuerySchema, FILTERS, FILTERS);
+  const { site_id: siteId = "", kind = "" } = list.values;
+  const query = new URLSearchParams(list.values as Record<string, string>).toString();
+
+  const sites = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
+  const { data, error, isLoading, mutate } = useSWR<{ items: AssetJson[] }>(`/api/assets${query ? `?${query}` : ""}`, swrFetcher);
+  const siteName = (id: string) => sites.data?.items.find((s) => s.id === id)?.name ?? "…";
+  const manage = can(role, "asset:manage");
+
+  const columns = [
+    column.accessor("name", { header: "Name", cell: (c) => <Link href={`/assets/${c.row.original.id}`} className="font-bold underline">{c.getValue()}</Link> }),
+    column.accessor("kind", { header: "Kind" }),
+    column.accessor((a) => siteName(a.site_id), { id: "site", header: "Site" }),
+    column.accessor("capacity_l", { header: "Capacity", cell: (c) => formatLitres(c.getValue()), meta: { cellClassName: "figures" } }),
+    column.accessor("tank_height_m", { header: "Height", cell: (c) => formatMetres(c.getValue()), meta: { cellClassName: "figures" } }),
+    column.accessor("safe_fill_pct", { header: "Safe fill", cell: (c) => formatPercent(c.getValue()), meta: { cellClassName: "figures" } }),
+    column.display({ id: "details", header: "Details", cell: (c) => describeAsset(c.row.original), meta: { cellClassName: "text-muted" } }),
+    ...(manage
+      ? [column.display({ id: "actions", header: () => <span className="sr-only">Actions</span>, cell: (c) => <Link className="btn-quiet" href={`/assets/${c.row.original.id}/edit`} aria-label={`Edit ${c.row.original.name}`}>Edit</Link>, meta: { cellClassName: "text-right" } })]
+      : []),
+  ];
+
+  return (
+    <div className="space-y-4">
+      <div className="flex flex-wrap gap-4" role="group" aria-label="Filters">
+        <div>
+          <label htmlFor="asset-filter-site" className="label">Site</label>
+          <select id="asset-filter-site" className="field" value={siteId} onChange={(e) => list.set({ site_id: e.target.value })}>
+            <option value="">All sites</option>
+            {sites.data?.items.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
+          </select>
+        </div>
+        <div>
+          <label htmlFor="asset-filter-kind" className="label">Kind</label>
+          <select id="asset-filter-kind" className="field" value={kind} onChange={(e) => list.set({ kind: e.target.value })}>
+            <option value="">All kinds</option>
+            {ASSET_KINDS.map((k) => <option key={k} value={k}>{k}</option>)}
+          </select>
+        </div>
+        <ClearFilters filtered={list.filtered} onClear={list.clearFilters} />
+      </div>
+      <DataTable data={data?.items} columns={columns} getRowId={(a) => a.id} label="Assets" loading={isLoading} error={error} retry={() => mutate()} empty="No assets match these filters." />
+    </div>
+  );
+}

@@ -1,0 +1,196 @@
+"use client";
+
+import Link from "next/link";
+import { usePathname, useRouter, useSearchParams } from "next/navigation";
+import { useState } from "react";
+import useSWR from "swr";
+import { createColumnHelper, getCoreRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
+import type { DeviceHealthPage, DeviceHealthRow } from "@/lib/read-models/overview-devices";
+import type { SiteJson } from "@/lib/services/sites";
+import { swrFetcher } from "@/lib/fetcher";
+import { DEVICE_HEALTH_FLAGS, DEVICE_HEALTH_SORTS, type DeviceHealthSort } from "@/lib/validations/overview";
+import { formatAge, formatDbm, formatVolts } from "@/components/fleet/fleet-figures";
+import { LIVE_REFRESH_MS } from "@/components/fleet/fleet-overview";
+import { FlagTag, flagLabel } from "@/components/fleet/fleet-status";
+import { DataTableView } from "@/components/ui/data-table";
+import { ClearFilters } from "@/components/ui/clear-filters";
+
+// The devices health table: when each device was last heard, its battery, signal, firmware and the
+// open sensor flags of each channel. Paged, sorted and filtered on the server; every choice is kept in
+// the URL (page, page_size, sort, dir, q, site_id, state, flag).
+
+const PAGE_SIZES = [25, 50, 100];
+const STATE_LABELS = { offline: "Offline", flagged: "With sensor faults", healthy: "Healthy" } as const;
+
+const column = createColumnHelper<DeviceHealthRow>();
+
+function ChannelFlags({ row }: { row: DeviceHealthRow }) {
+  if (!row.channels.length) return <span className="text-muted">no channels</span>;
+  return (
+    <ul className="space-y-0.5 text-left">
+      {row.channels.map((c) => (
+        <li key={c.id} className="flex flex-wrap items-center gap-1">
+          <span className="figures text-muted">{c.index}</span>
+          {c.asset_id ? <Link href={`/assets/${c.asset_id}`} className="underline">{c.asset_name}</Link> : <span className="text-muted">unassigned</span>}
+          {c.flags.length ? c.flags.map((f) => <FlagTag key={f.flag} flag={f.flag} />) : <span className="text-muted">· no fault</span>}
+        </li>
+      ))}
+    </ul>
+  );
+}
+
+const columns = [
+  column.accessor("name", {
+    id: "name",
+    header: "Device",
+    cell: (c) => (
+      <span>
+        <Link href={`/devices/${c.row.original.id}`} className="font-bold underline">{c.getValue()}</Link>
+        <span className="figures block text-xs text-muted">{c.row.original.serial}</span>
+      </span>
+    ),
+  }),
+  column.accessor("site_name", { id: "site", header: "Site" }),
+  column.accessor("last_seen_at", {
+    id: "last_seen",
+    header: "Last seen",
+    cell: (c) => (
+      <span className="figures">
+        {c.getValue() ? formatAge(c.getValue() as string) : "never"}
+        {c.row.original.offline && <span className="ml-1 font-sans font-bold text-high">offline</span>}
+      </span>
+    ),
+  }),
+  column.accessor("battery_v", { id: "battery", header: "Battery", cell: (c) => <span className="figures">{formatVolts(c.getValue())}</span> }),
+  column.accessor("rssi_dbm", { id: "signal", header: "Signal", cell: (c) => <span className="figures">{formatDbm(c.getValue())}</span> }),
+  column.accessor("open_flags", { id: "flags", header: "Channels and flags", cell: (c) => <ChannelFlags row={c.row.original} /> }),
+  column.accessor("firmware", { id: "firmware", header: "Firmware", cell: (c) => <span className="figures">{c.getValue() ?? "—"}</span> }),
+];
+
+function isSort(value: string | null): value is DeviceHealthSort {
+  return (DEVICE_HEALTH_SORTS as readonly string[]).includes(value ?? "");
+}
+
+export function DeviceHealthTable() {
+  const router = useRouter();
+  const pathname = usePathname();
+  const params = useSearchParams();
+  const page = Math.max(1, Number(params.get("page")) || 1);
+  const pageSize = PAGE_SIZES.includes(Number(params.get("page_size"))) ? Number(params.get("page_size")) : PAGE_SIZES[0];
+  const sort: DeviceHealthSort = isSort(params.get("sort")) ? (params.get("sort") as DeviceHealthSort) : "name";
+  const dir = params.get("dir") === "desc" ? "desc" : "asc";
+  const [search, setSearch] = useState(params.get("q") ?? "");
+
+  const api = new URLSearchParams();
+  api.set("page", String(page));
+  api.set("page_size", String(pageSize));
+  api.set("sort", sort);
+  api.set("dir", dir);
+  for (const k of ["q", "site_id", "state", "flag"]) if (params.get(k)) api.set(k, params.get(k) as string);
+
+  const sites = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
+  const { data, error, isLoading, mutate } = useSWR<DeviceHealthPage>(`/api/device-health?${api.toString()}`, swrFetcher, { refreshInterval: LIVE_REFRESH_MS, keepPreviousData: true });
+
+  function update(changes: Record<string, string | null>, resetPage = true) {
+    const next = new URLSearchParams(params.toString());
+    for (const [k, v] of Object.entries(changes)) {
+      if (v) next.set(k, v);
+      else next.delete(k);
+    }
+    if (resetPage) next.delete("page");
+    router.replace(`${pathname}?${next.toString()}`, { scroll: false });
+  }
+
+  const sorting: SortingState = [{ id: sort, desc: dir === "desc" }];
+  const pageCount = data ? Math.max(1, Math.ceil(data.total / pageSize)) : 1;
+  // TanStack Table's instance is not memoisable; this component is simply not memoised by the compiler.
+  // eslint-disable-next-line react-hooks/incompatible-library
+  const table = useReactTable({
+    data: data?.items ?? [],
+    columns,
+    getCoreRowModel: getCoreRowModel(),
+    manualPagination: true,
+    manualSorting: true,
+    manualFiltering: true,
+    pageCount,
+    state: { sorting, pagination: { pageIndex: page - 1, pageSize } },
+    onSortingChange: (updater) => {
+      const next = typeof updater === "function" ? updater(sorting) : updater;
+      const first = next[0];
+      update({ sort: first?.id ?? null, dir: first?.desc ? "desc" : null });
+    },
+    enableSortingRemoval: false,
+  });
+
+  return (
+    <div className="space-y-4">
+      <form
+        className="flex flex-wrap items-end gap-3"
+        role="search"
+        aria-label="Filter devices"
+        onSubmit={(e) => {
+          e.preventDefault();
+          update({ q: search.trim() || null });
+        }}
+      >
+        <div>
+          <label htmlFor="health-q" className="label">Name or serial</label>
+          <input id="health-q" className="field h-10 w-56" value={search} onChange={(e) => setSearch(e.target.value)} />
+        </div>
+        <button type="submit" className="btn-quiet">Search</button>
+        <div>
+          <label htmlFor="health-site" className="label">Site</label>
+          <select id="health-site" className="field h-10 w-auto" value={params.get("site_id") ?? ""} onChange={(e) => update({ site_id: e.target.value || null })}>
+            <option value="">All sites</option>
+            {sites.data?.items.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
+          </select>
+        </div>
+        <div>
+          <label htmlFor="health-state" className="label">State</label>
+          <select id="health-state" className="field h-10 w-auto" value={params.get("state") ?? ""} onChange={(e) => update({ state: e.target.value || null })}>
+            <option value="">Every device</option>
+            {Object.entries(STATE_LABELS).map(([k, label]) => <option key={k} value={k}>{label}</option>)}
+          </select>
+        </div>
+        <div>
+          <label htmlFor="health-flag" className="label">Sensor flag</label>
+          <select id="health-flag" className="field h-10 w-auto" value={params.get("flag") ?? ""} onChange={(e) => update({ flag: e.target.value || null })}>
+            <option value="">Any or none</option>
+            {DEVICE_HEALTH_FLAGS.map((f) => <option key={f} value={f}>{flagLabel(f)}</option>)}
+          </select>
+        </div>
+        <ClearFilters
+          filtered={["q", "site_id", "state", "flag"].some((k) => params.get(k))}
+          onClear={() => {
+            setSearch("");
+            update({ q: null, site_id: null, state: null, flag: null });
+          }}
+        />
+      </form>
+
+      <DataTableView
+        table={table}
+        label="Device health"
+        loading={isLoading}
+        error={error}
+        retry={() => mutate()}
+        empty="No device matches these filters."
+        rowProps={() => ({ "data-testid": "device-health-row" })}
+      />
+
+      {data && (
+        <nav aria-label="Pages" className="flex flex-wrap items-center gap-3 text-sm">
+          <button type="button" className="btn-quiet md:h-9" disabled={page <= 1} onClick={() => update({ page: String(page - 1) }, false)}>Previous page</button>
+          <span>
+            Page <span className="figures">{page}</span> of <span className="figures">{pageCount}</span> · <span className="figures">{data.total}</span> devices
+          </span>
+          <button type="button" className="btn-quiet md:h-9" disabled={page >= pageCount} onClick={() => update({ page: String(page + 1) }, false)}>Next page</button>
+          <label htmlFor="health-page-size" className="ml-auto">Rows a page</label>
+          <select id="health-page-size" className="field h-9 w-auto py-1" value={pageSize} onChange={(e) => update({ page_size: e.target.value })}>
+            {PAGE_SIZES.map((n) => <option key={n} value={n}>{n}</option>)}
+          </select>
+        </nav>
+      )}
+    </div>
+  );
+}

@@ -1,0 +1,109 @@
+"use client";
+
+import useSWR from "swr";
+import { swrFetcher } from "@/lib/fetcher";
+import { formatBytes } from "@/lib/csv/parse";
+import type { UploadJson } from "@/lib/services/imports";
+import { IMPORT_KIND_LABELS } from "@/lib/validations/import";
+import { Loading, LoadError } from "@/components/ui/data-state";
+import { STACKED_TABLE } from "@/components/ui/form-fields";
+
+const RUNNING = new Set(["waiting", "processing"]);
+
+/** The upload's state in words with a glyph; colour only when something is wrong. */
+export function UploadStatusText({ upload }: { upload: Pick<UploadJson, "status" | "error_count"> }) {
+  switch (upload.status) {
+    case "waiting":
+      return <span>waiting for the file</span>;
+    case "processing":
+      return <span>reading…</span>;
+    case "imported":
+      return <span>imported</span>;
+    case "partial":
+      return (
+        <span className="text-medium">
+          good rows imported, {upload.error_count} skipped
+        </span>
+      );
+    case "rejected":
+      return (
+        <span className="font-bold text-critical">
+          rejected, nothing imported
+        </span>
+      );
+  }
+}
+
+/**
+ * One upload as the server reports it, polled while the file is read: a progress bar over the bytes
+ * read, the lines and rows so far, then the outcome and the errors by line.
+ */
+export function ImportProgress({ uploadId, onImportGoodRows }: { uploadId: string; onImportGoodRows?: (upload: UploadJson) => void }) {
+  const { data, error, isLoading, mutate } = useSWR<UploadJson>(`/api/imports/${uploadId}`, swrFetcher, {
+    refreshInterval: (latest) => (latest && !RUNNING.has(latest.status) ? 0 : 400),
+  });
+  if (isLoading) return <Loading label="Starting the upload…" />;
+  if (error) return <LoadError error={error} retry={() => mutate()} />;
+  if (!data) return null;
+  const running = RUNNING.has(data.status);
+  const pct = data.size_bytes > 0 ? Math.min(100, Math.round((100 * data.bytes_read) / data.size_bytes)) : 0;
+  const shown = running ? pct : 100;
+  const canRetryGoodRows = !running && data.status === "rejected" && data.mode === "all_or_nothing" && data.rows_valid > 0 && data.error_count > 0;
+
+  return (
+    <section aria-labelledby={`upload-${data.id}-title`} className="card space-y-3 p-4" data-testid="upload-progress">
+      <h3 id={`upload-${data.id}-title`} className="font-bold">
+        {IMPORT_KIND_LABELS[data.kind].title}: {data.file_name} → {data.target_label}
+      </h3>
+      <div>
+        <div
+          role="progressbar"
+          aria-label="Lines read"
+          aria-valuemin={0}
+          aria-valuemax={100}
+          aria-valuenow={shown}
+          aria-valuetext={`${shown} % of ${formatBytes(data.size_bytes)} read`}
+          className="h-3 w-full overflow-hidden rounded border border-rule bg-paper"
+        >
+          <div className="h-full bg-liquid transition-[width]" style={{ width: `${shown}%` }} />
+        </div>
+        <p className="figures mt-1 text-sm" aria-live="polite">
+          {formatBytes(running ? data.bytes_read : data.size_bytes)} of {formatBytes(data.size_bytes)} · {data.lines_read} lines · {data.rows_valid} good rows · {data.error_count} errors
+        </p>
+      </div>
+      <p role={running ? undefined : "status"} className="text-sm">
+        <span className="font-bold">State: </span>
+        <UploadStatusText upload={data} />
+        {data.message && <span> — {data.message}</span>}
+      </p>
+      {canRetryGoodRows && onImportGoodRows && (
+        <button type="button" className="btn-quiet" onClick={() => onImportGoodRows(data)}>
+          Import the {data.rows_valid} good rows only
+        </button>
+      )}
+      {data.errors && data.errors.length > 0 && (
+        <div className="overflow-x-auto">
+          <table className={STACKED_TABLE}>
+            <caption className="px-3 py-2 text-left text-sm font-bold">
+              Errors by line{data.error_count > data.errors.length ? ` (the first ${data.errors.length} of ${data.error_count})` : ""}
+            </caption>
+            <thead>
+              <tr>
+                <th scope="col">Line</th>
+                <th scope="col">What is wrong</th>
+              </tr>
+            </thead>
+            <tbody>
+              {data.errors.map((e) => (
+                <tr key={`${e.line}-${e.message}`}>
+                  <td data-label="Line" className="figures">{e.line}</td>
+                  <td data-label="What is wrong">{e.message}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      )}
+    </section>
+  );
+}

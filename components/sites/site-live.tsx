@@ -1,0 +1,94 @@
+"use client";
+
+import Link from "next/link";
+import useSWR from "swr";
+import type { SiteOverviewJson } from "@/lib/read-models/overview-site";
+import { swrFetcher } from "@/lib/fetcher";
+import { BayPlan } from "@/components/sites/bay-plan";
+import { Loading, LoadError } from "@/components/ui/data-state";
+import { FleetAlarmList } from "@/components/alarms/fleet-alarm-list";
+import { formatMetres } from "@/components/fleet/fleet-figures";
+import { LIVE_REFRESH_MS } from "@/components/fleet/fleet-overview";
+import { FlagTag, OverdueAge, TankCaution } from "@/components/fleet/fleet-status";
+import { STACKED_TABLE } from "@/components/ui/form-fields";
+import { TankCard } from "@/components/sites/site-live-tank";
+
+// The site screen, in the order a person checks it: what is wrong (alarms), what it is now (tanks,
+// bays, points), with each asset linking to its trend. Refreshed every 10 seconds.
+
+export function SiteLive({ siteId, canAcknowledge }: { siteId: string; canAcknowledge: boolean }) {
+  const { data, error, isLoading, mutate } = useSWR<SiteOverviewJson>(`/api/sites/${siteId}/overview`, swrFetcher, { refreshInterval: LIVE_REFRESH_MS });
+  if (isLoading) return <Loading label="Loading the site…" />;
+  if (error && !data) return <LoadError error={error} retry={() => mutate()} />;
+  if (!data) return null;
+  const now = new Date(data.generated_at).getTime();
+  const empty = !data.tanks.length && !data.bays.length && !data.points.length;
+  return (
+    <div className="space-y-6">
+      {error && <LoadError error={error} retry={() => mutate()} />}
+      <p className="flex flex-wrap gap-x-6 gap-y-1 text-sm" data-testid="site-facts">
+        <span>
+          <span className="figures">{data.tanks.length}</span> tanks · <span className="figures">{data.bays.length}</span> bays · <span className="figures">{data.points.length}</span> points
+        </span>
+        <span className={data.devices.offline ? "font-bold text-high" : "text-muted"}>
+          <span className="figures">{data.devices.offline}</span> of <span className="figures">{data.devices.total}</span> devices offline
+        </span>
+        <span className="text-muted">Time zone {data.site.time_zone}</span>
+        <span className="text-muted">Live · as of <time dateTime={data.generated_at} className="figures">{new Date(data.generated_at).toLocaleTimeString()}</time></span>
+      </p>
+
+      <section className="card" aria-labelledby="site-alarms">
+        <h2 id="site-alarms" className="border-b border-rule px-3 py-2 text-lg font-bold">Alarms needing attention</h2>
+        <FleetAlarmList alarms={data.alarms} canAcknowledge={canAcknowledge} onChanged={() => mutate()} alarmsHref={`/alarms?site_id=${siteId}`} limit={5} />
+      </section>
+
+      {data.tanks.length > 0 && (
+        <section aria-labelledby="site-tanks" className="space-y-3">
+          <h2 id="site-tanks" className="text-lg font-bold">Tanks</h2>
+          <TankCaution />
+          <div className="grid gap-4 md:grid-cols-2 xl:grid-cols-3">
+            {data.tanks.map((t) => <TankCard key={t.id} tank={t} alarms={data.alarms} now={now} />)}
+          </div>
+        </section>
+      )}
+
+      {data.bays.length > 0 && (
+        <section aria-labelledby="site-bays" className="card p-4">
+          <h2 id="site-bays" className="mb-3 text-lg font-bold">Bays</h2>
+          <BayPlan bays={data.bays} now={now} />
+        </section>
+      )}
+
+      {data.points.length > 0 && (
+        <section aria-labelledby="site-points" className="card">
+          <h2 id="site-points" className="border-b border-rule px-3 py-2 text-lg font-bold">Distance points</h2>
+          <table className={STACKED_TABLE}>
+            <thead>
+              <tr>
+                <th scope="col">Point</th>
+                <th scope="col">Distance</th>
+                <th scope="col">Last 24 h</th>
+                <th scope="col">Sensor</th>
+              </tr>
+            </thead>
+            <tbody>
+              {data.points.map((p) => (
+                <tr key={p.id}>
+                  <td data-label="Point"><Link href={`/assets/${p.id}`} className="font-bold underline">{p.name}</Link></td>
+                  <td data-label="Distance" className="figures">
+                    {formatMetres(p.latest?.distance_m, p.latest?.uncertainty_m)}
+                    <OverdueAge at={p.latest?.at} expectedIntervalS={p.channel?.expected_interval_s} now={now} />
+                  </td>
+                  <td data-label="Last 24 h" className="figures">{p.day.range ? `${formatMetres(p.day.range[0])} to ${formatMetres(p.day.range[1])}` : "—"}</td>
+                  <td data-label="Sensor">{p.flags.length ? [...new Set(p.flags.map((f) => f.flag))].map((f) => <FlagTag key={f} flag={f} />) : <span className="text-muted">no fault</span>}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </section>
+      )}
+
+      {empty && <p className="card px-4 py-6 text-sm text-muted">No assets at this site yet.</p>}
+    </div>
+  );
+}

@@ -1,0 +1,142 @@
+"use client";
+
+import Link from "next/link";
+import type { FieldValues, Path, UseFormReturn } from "react-hook-form";
+import { ApiError } from "@/lib/fetcher";
+
+// Shared pieces of the provisioning screens (sites, assets, devices): labelled fields with their error,
+// the form's alert, number parsing, the stacked table. Figures are written by ./fleet-figures.
+
+export type FieldErrors = Record<string, string>;
+
+export { numberOrNull } from "@/components/ui/decimal";
+
+export function textOf(value: number | string | null | undefined): string {
+  return value == null ? "" : String(value);
+}
+
+/** The API's per-field messages on 422, or its one message under "_". */
+export function errorsFromApi(e: unknown): FieldErrors {
+  if (e instanceof ApiError && e.fields && Object.keys(e.fields).length) return e.fields;
+  return { _: (e as Error).message };
+}
+
+/** Puts the API's 422 field messages on the form's fields, anything else on the form as a whole. */
+export function applyApiErrors<T extends FieldValues>(form: Pick<UseFormReturn<T>, "setError">, e: unknown) {
+  const errors = errorsFromApi(e);
+  for (const [key, message] of Object.entries(errors)) {
+    form.setError(key === "_" ? "root" : (key as Path<T>), { message });
+  }
+}
+
+/** After a save, every cached list or record under this API path is fetched again. */
+export function isUnder(path: string) {
+  return (key: unknown) => typeof key === "string" && (key === path || key.startsWith(`${path}/`) || key.startsWith(`${path}?`));
+}
+
+/** Field keys ("geometry.diameter_m") become element ids. */
+export function fieldId(form: string, key: string): string {
+  return `${form}-${key.replace(/[^A-Za-z0-9_-]/g, "-")}`;
+}
+
+type FieldProps = { id: string; label: string; error?: string; hint?: React.ReactNode; unit?: string; className?: string };
+
+function Described({ id, error, hint }: Pick<FieldProps, "id" | "error" | "hint">) {
+  return (
+    <>
+      {hint && <p id={`${id}-hint`} className="mt-1 text-xs text-muted">{hint}</p>}
+      {error && <p id={`${id}-error`} className="field-error">{error}</p>}
+    </>
+  );
+}
+
+function describedBy(id: string, error?: string, hint?: React.ReactNode): string | undefined {
+  return [hint ? `${id}-hint` : "", error ? `${id}-error` : ""].filter(Boolean).join(" ") || undefined;
+}
+
+export function InputField({ id, label, error, hint, unit, className, ...input }: FieldProps & React.InputHTMLAttributes<HTMLInputElement>) {
+  return (
+    <div className={className}>
+      <label htmlFor={id} className="label">{label}{unit && <span className="font-normal text-muted"> ({unit})</span>}</label>
+      <input id={id} className={input.inputMode === "decimal" ? "field figures" : "field"} aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, error, hint)} {...input} />
+      <Described id={id} error={error} hint={hint} />
+    </div>
+  );
+}
+
+/**
+ * A number box in a unit, in tabular digits. A text box with the decimal keypad rather than type="number",
+ * whose parsing depends on the browser's locale: the form reads it with parseDecimal ("2,1" is 2.1).
+ */
+export function NumberField({ step: _step, ...props }: FieldProps & Omit<React.InputHTMLAttributes<HTMLInputElement>, "type">) {
+  return <InputField type="text" inputMode="decimal" autoComplete="off" {...props} />;
+}
+
+export function SelectField({ id, label, error, hint, className, children, ...select }: FieldProps & React.SelectHTMLAttributes<HTMLSelectElement>) {
+  return (
+    <div className={className}>
+      <label htmlFor={id} className="label">{label}</label>
+      <select id={id} className="field" aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, error, hint)} {...select}>
+        {children}
+      </select>
+      <Described id={id} error={error} hint={hint} />
+    </div>
+  );
+}
+
+export function TextAreaField({ id, label, error, hint, className, ...area }: FieldProps & React.TextareaHTMLAttributes<HTMLTextAreaElement>) {
+  return (
+    <div className={className}>
+      <label htmlFor={id} className="label">{label}</label>
+      <textarea id={id} className="field figures" aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, error, hint)} {...area} />
+      <Described id={id} error={error} hint={hint} />
+    </div>
+  );
+}
+
+/**
+ * Collects which error keys a form shows beside its fields, so the alert at the end of the form can list
+ * the rest (a rule that spans several fields, a server message) instead of hiding them.
+ */
+export function errorReader(errors: FieldErrors) {
+  const shown = new Set<string>(["_"]);
+  const read = (key: string): string | undefined => {
+    shown.add(key);
+    return errors[key];
+  };
+  const rest = () => Object.entries(errors).filter(([key]) => !shown.has(key)).map(([, message]) => message);
+  return { read, rest };
+}
+
+export function FormAlert({ errors, rest }: { errors: FieldErrors; rest: string[] }) {
+  if (!Object.keys(errors).length) return null;
+  const lines = [errors._ ?? "Not saved: correct the fields marked below.", ...rest];
+  return (
+    <div role="alert" className="border-l-4 border-critical bg-card px-3 py-2 text-sm">
+      {lines.map((line) => <p key={line}>{line}</p>)}
+    </div>
+  );
+}
+
+export function FormButtons({ busy, label, cancelHref }: { busy: boolean; label: string; cancelHref: string }) {
+  return (
+    <div className="flex flex-wrap gap-3">
+      <button type="submit" className="btn" disabled={busy}>{busy ? "Saving…" : label}</button>
+      <Link href={cancelHref} className="btn-quiet">Cancel</Link>
+    </div>
+  );
+}
+
+/** A dense table at desktop width; at phone width each row becomes a stacked card, each cell labelled by data-label. */
+export const STACKED_TABLE =
+  "table-dense w-full max-md:[&_thead]:sr-only max-md:[&_tr]:block max-md:[&_tr]:border-b max-md:[&_tr]:border-rule max-md:[&_tr]:py-2 max-md:[&_td]:flex max-md:[&_td]:h-auto max-md:[&_td]:justify-between max-md:[&_td]:gap-4 max-md:[&_td]:border-0 max-md:[&_td]:py-1 max-md:[&_td]:text-right max-md:[&_td]:before:text-left max-md:[&_td]:before:font-sans max-md:[&_td]:before:font-bold max-md:[&_td]:before:content-[attr(data-label)]";
+
+export function NotFoundPanel({ what, backHref, backLabel }: { what: string; backHref: string; backLabel: string }) {
+  return (
+    <div className="card p-6">
+      <h1 className="mb-2 text-2xl font-bold">{what} not found</h1>
+      <p className="mb-6">There is no such {what.toLowerCase()}, or it belongs to another organisation.</p>
+      <Link href={backHref} className="btn-quiet">{backLabel}</Link>
+    </div>
+  );
+}
