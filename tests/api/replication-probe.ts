@@ -38,13 +38,13 @@ async function main() {
     readInOnPrimary: await probe(() => onPrimary(async () => session(await sqlRows(WHO)))),
     readInTransaction: await probe(() => sequelize.transaction(async (transaction) => session(await sqlRows(WHO, [], { transaction })))),
     write: await probe(async () =>
-      session(await sqlRows(`WITH w AS (INSERT INTO sign_in_failures (email) VALUES ('replication-probe@example.org') RETURNING 1) ${WHO} FROM w`)),
+      session(await sqlRows(`WITH w AS (INSERT INTO sign_in_known_addresses (email, address, last_success_at) VALUES ('replication-probe@example.org', 'probe', now()) ON CONFLICT (email, address) DO UPDATE SET last_success_at = now() RETURNING 1) ${WHO} FROM w`)),
     ),
     modelRead: await probe(async () => (await Organisation.findOne({ attributes: [[sequelize.literal("current_setting('application_name')"), "session"]], raw: true })) as unknown),
     keyCheck: await probe(async () => (await findDeviceByKeyPrefix(prefixOfDeviceKey(apiKey) ?? ""))?.id === deviceId),
     ingest: await probe(async () => (await storeReadings(deviceId, [{ channel: 0, seq: 1, echo_us: 5000 }] as Parameters<typeof storeReadings>[1], new Date())).accepted),
   };
-  await sqlRun(`DELETE FROM sign_in_failures WHERE email = 'replication-probe@example.org'`);
+  await sqlRun(`DELETE FROM sign_in_known_addresses WHERE email = 'replication-probe@example.org'`);
   console.log(JSON.stringify(out));
   await sequelize.close();
 }
