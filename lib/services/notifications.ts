@@ -387,7 +387,11 @@ interface NotificationRow {
   user_organisation_id: string;
   alarm_organisation_id: string;
   alarm_episode: number;
+  refusal: string | null;
 }
+
+const ACK_LINK_PROBLEMS: readonly string[] = ["malformed", "bad_signature", "expired", "unknown", "used", "stale", "other_organisation", "recipient_unable"] satisfies AckLinkProblem[];
+const isAckLinkProblem = (v: string | null): v is AckLinkProblem => v !== null && ACK_LINK_PROBLEMS.includes(v);
 
 export type AckLinkLookup =
   | { ok: true; notificationId: string; alarmId: string; organisationId: string; recipient: { id: string; email: string; name: string }; expiresAt: Date }
@@ -398,7 +402,7 @@ async function findNotification(token: string, viewerOrganisationId: string | nu
   const check = verifySignedToken(token, ACK_LINK_PURPOSE, now);
   if (!check.ok) return { lookup: check, rowId: null };
   const [row] = await sqlRows<NotificationRow>(
-    `SELECT n.id, n.organisation_id, n.alarm_id, n.episode, n.user_id, n.email, n.expires_at, n.used_at,
+    `SELECT n.id, n.organisation_id, n.alarm_id, n.episode, n.user_id, n.email, n.expires_at, n.used_at, n.refusal,
             u.name AS user_name, u.role AS user_role, u.status AS user_status, u.organisation_id AS user_organisation_id,
             al.organisation_id AS alarm_organisation_id, al.episode AS alarm_episode
      FROM alarm_notifications n JOIN users u ON u.id = n.user_id JOIN alarms al ON al.id = n.alarm_id
@@ -410,7 +414,8 @@ async function findNotification(token: string, viewerOrganisationId: string | nu
   if (!row) return refuse("unknown");
   if (row.organisation_id !== row.alarm_organisation_id || row.organisation_id !== row.user_organisation_id) return refuse("other_organisation");
   if (viewerOrganisationId !== null && viewerOrganisationId !== row.organisation_id) return refuse("other_organisation");
-  if (row.used_at) return { lookup: { ok: false, reason: "used" }, rowId: null };
+  // A spent link says why it was first refused (a link refused as expired stays refused as expired).
+  if (row.used_at) return { lookup: { ok: false, reason: isAckLinkProblem(row.refusal) ? row.refusal : "used" }, rowId: null };
   if (new Date(row.expires_at) <= now) return refuse("expired");
   if (row.alarm_episode !== row.episode) return refuse("stale");
   if (row.user_status !== "active" || !can(row.user_role, "alarm:acknowledge")) return refuse("recipient_unable");

@@ -159,9 +159,10 @@ describe("acknowledge links bound to their activation", () => {
     const stale = await post(first).expect(409);
     expect(stale.body.error).toBe("ack_link_stale");
     expect((await hAlarm(t.tank.id)).state).toBe("unacknowledged");
-    expect((await post(first).expect(410)).body.error).toBe("ack_link_used");
+    expect((await post(first).expect(409)).body.error).toBe("ack_link_stale");
 
-    // A link refused because the alarm was acknowledged meanwhile (on the alarms page) is spent as well.
+    // A link refused because the alarm was acknowledged meanwhile (on the alarms page) is spent as well:
+    // it does not work later either, even if the alarm were waiting for an acknowledgement again.
     await operator.post(`/api/alarms/${alarmId}/acknowledge`).send({}).expect(200);
     expect((await post(second).expect(409)).body.error).toBe("not_acknowledgeable");
     expect((await post(second).expect(410)).body.error).toBe("ack_link_used");

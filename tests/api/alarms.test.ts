@@ -175,9 +175,10 @@ describe("acknowledge links that must not work", () => {
     expect(page.text).toContain("expired");
     await sql(`UPDATE alarm_notifications SET expires_at = now() + interval '1 hour' WHERE id = $1`, [id]);
     await stillUnacknowledged();
-    // Only the refusal of the real link, whose row it names, spends it: refused once, refused for good.
+    // Only the refusal of the real link, whose row it names, spends it: refused once, refused for good,
+    // even now that its row would no longer be expired.
     expect(await sql(`SELECT refusal FROM alarm_notifications WHERE id = $1 AND used_at IS NOT NULL`, [id])).toEqual([{ refusal: "expired" }]);
-    expect((await anonymous().post("/api/alarms/ack-link").send({ token }).expect(410)).body.error).toBe("ack_link_used");
+    expect((await anonymous().post("/api/alarms/ack-link").send({ token }).expect(410)).body.error).toBe("ack_link_expired");
     await stillUnacknowledged();
   });
 
