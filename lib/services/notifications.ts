@@ -108,7 +108,7 @@ export async function queueDueNotices(transaction: Transaction, now: Date, { wai
     })),
     onCall,
     escalationDelayMin: new Map(siteRows.map((s) => [s.id, s.escalation_delay_min])),
-    // A notice held back counts as given (its time is when it was held): nobody is e-mailed about that episode again.
+    // A notice held back counts as given just now, every time: nobody is e-mailed about that episode again (no escalation).
     sent: sentRows.map((s) => ({ alarmId: s.alarm_id, episode: s.episode, userId: s.user_id, sentAt: s.sent_at ?? (s.held_reason ? now : null) })),
     now,
   });
