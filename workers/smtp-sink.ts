@@ -8,10 +8,14 @@ import { env } from "../lib/env";
 // A local stand-in for the hosted mail service: accepts every message on 127.0.0.1, keeps the last
 // MAX_KEPT in memory and serves them as JSON to the admin page and to the tests.
 // Loopback by default; a container deployment sets SMTP_SINK_HOST=0.0.0.0.
+// For tests of delivery, `POST /refuse?to=<address>&count=<n>` makes it answer the next n deliveries
+// to that address with a temporary failure (451), as a relay that is down for a while does.
 const { smtpPort: SMTP_PORT, httpPort: HTTP_PORT, host: HOST } = env.mailSink;
 const MAX_KEPT = 2000;
 
 const messages: CaughtMessage[] = [];
+/** Deliveries still to refuse, by lower-case recipient address. */
+const refusals = new Map<string, number>();
 
 function addresses(value: unknown): string[] {
   const list = Array.isArray(value) ? value : value ? [value] : [];
@@ -22,6 +26,14 @@ const smtp = new SMTPServer({
   authOptional: true,
   disabledCommands: ["STARTTLS"],
   logger: false,
+  onRcptTo(address, _session, callback) {
+    const key = address.address.toLowerCase();
+    const left = refusals.get(key) ?? 0;
+    if (left <= 0) return callback();
+    if (left === 1) refusals.delete(key);
+    else refusals.set(key, left - 1);
+    callback(Object.assign(new Error("mailbox temporarily unavailable (the sink refuses it on request)"), { responseCode: 451 }));
+  },
   onData(stream, _session, callback) {
     simpleParser(stream)
       .then((mail) => {
@@ -62,6 +74,14 @@ const api = http.createServer((req, res) => {
   if (req.method === "DELETE" && url.pathname === "/messages") {
     messages.length = 0;
     return send(200, { ok: true });
+  }
+  if (req.method === "POST" && url.pathname === "/refuse") {
+    const to = url.searchParams.get("to")?.toLowerCase();
+    const count = Number(url.searchParams.get("count") ?? "1");
+    if (!to || !Number.isInteger(count) || count < 0) return send(422, { error: "invalid", message: "give to=<address> and count=<n ≥ 0>" });
+    if (count === 0) refusals.delete(to);
+    else refusals.set(to, count);
+    return send(200, { ok: true, to, count });
   }
   if (req.method === "GET" && url.pathname === "/health") return send(200, { ok: true });
   send(404, { error: "not_found" });

@@ -15,6 +15,7 @@ import { AlarmStateLabel, alarmFigure, alarmWhere } from "@/components/alarms/al
 import { PriorityBadge } from "@/components/ui/priority-badge";
 import { ALARM_STATE_WORDS } from "@/lib/alarms/vocabulary";
 import { AlarmActionDialog, type AlarmDialogMode } from "@/components/alarms/alarm-actions";
+import { NoticeDelivery, type NoticeDeliveryJson } from "@/components/alarms/alarm-notice-delivery";
 
 interface AlarmEventJson {
   id: number;
@@ -29,14 +30,11 @@ interface AlarmEventJson {
   comment: string | null;
 }
 
-interface NotificationJson {
+interface NotificationJson extends NoticeDeliveryJson {
   id: string;
   episode: number;
-  email: string;
   position: number;
   reason: string;
-  sent_at: string | null;
-  send_error: string | null;
   expires_at: string;
   used_at: string | null;
 }
@@ -127,14 +125,14 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
         ) : (
           <table className={STACKED_TABLE}>
             <thead>
-              <tr><th scope="col">To</th><th scope="col">Why</th><th scope="col">Sent</th><th scope="col">Link used</th><th scope="col">Link expires</th></tr>
+              <tr><th scope="col">To</th><th scope="col">Why</th><th scope="col">Delivery</th><th scope="col">Link used</th><th scope="col">Link expires</th></tr>
             </thead>
             <tbody>
               {data.notifications.map((n) => (
                 <tr key={n.id}>
                   <td data-label="To">{n.email} <span className="text-muted">(on call #{n.position})</span></td>
                   <td data-label="Why">{n.reason === "escalation" ? "Escalation" : "First notice"}</td>
-                  <td data-label="Sent" className="figures">{n.sent_at ? stamp(n.sent_at) : n.send_error ? `failed: ${n.send_error}` : "waiting"}</td>
+                  <td data-label="Delivery"><NoticeDelivery notice={n} timeZone={data.site.time_zone} /></td>
                   <td data-label="Link used" className="figures">{stamp(n.used_at)}</td>
                   <td data-label="Link expires" className="figures">{stamp(n.expires_at)}</td>
                 </tr>

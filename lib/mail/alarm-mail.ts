@@ -1,9 +1,19 @@
 // The alarm e-mail: one alarm's own message, or a summary when several at one site fall due together.
-// Plain text first (a phone in the field), a simple HTML twin; times in the site's own time zone.
+// Plain text first (a phone in the field), a simple HTML twin; times in the site's own time zone,
+// labelled with it; the state the alarm is in when the e-mail goes out, never the state it was queued in.
 
 import { ALARM_CAUTION } from "../alarms/engine";
 import { priorityText } from "../alarms/vocabulary";
 import type { AlarmPriority } from "../alarms/state-machine";
+import { formatDateTime } from "../format/time";
+import { formatLength, formatNumber } from "../format/number";
+
+/** A value the alarm was judged on, when it was measured, and its standard uncertainty when known. */
+export interface AlarmMailValue {
+  value: number | null;
+  at: Date;
+  uncertainty: number | null;
+}
 
 export interface AlarmMailItem {
   /** "H level", "Sensor stuck"… */
@@ -12,11 +22,15 @@ export interface AlarmMailItem {
   assetName: string | null;
   /** "Unit 7, channel 0" for a sensor alarm. */
   channelLabel: string | null;
-  value: number | null;
+  /** The alarm's state when the e-mail goes out: still active, or cleared and not yet acknowledged. */
+  state: "active" | "cleared";
+  clearedAt: Date | null;
+  /** The value that activated the occurrence, and when. */
+  activation: AlarmMailValue;
+  /** The latest measured value (level alarms), or null when there is none to add. */
+  latest: AlarmMailValue | null;
   setpoint: number | null;
   unit: string | null;
-  /** When the occurrence began. */
-  at: Date;
   assetUrl: string | null;
   ackUrl: string;
   escalation: boolean;
@@ -37,23 +51,28 @@ export interface ComposedMail {
   html: string;
 }
 
+const DISPLAY = { locale: "en-GB", hourCycle: "h23" } as const;
+
 /** A time as people at the site read it, with the zone: "14 Mar 2026, 06:30 GMT", "1 Jul 2026, 13:00 BST". */
 export function formatSiteTime(at: Date, timeZone: string): string {
-  return new Intl.DateTimeFormat("en-GB", {
-    timeZone,
-    day: "numeric",
-    month: "short",
-    year: "numeric",
-    hour: "2-digit",
-    minute: "2-digit",
-    hourCycle: "h23",
-    timeZoneName: "short",
-  }).format(at);
+  return formatDateTime(at, { ...DISPLAY, timeZone });
 }
 
-function figure(v: number | null, unit: string | null): string {
+/** A level in metres to the precision its uncertainty allows ("2.61 m ± 8 mm"); other units as stored. */
+function figure(v: number | null, unit: string | null, uncertainty: number | null = null): string {
   if (v === null) return "—";
-  return unit === "m" ? `${v.toFixed(3)} m` : unit ? `${Number(v.toFixed(3))} ${unit}` : String(Number(v.toFixed(3)));
+  if (unit === "m") return formatLength(v, uncertainty, { system: "si", locale: DISPLAY.locale });
+  return `${formatNumber(v, 3, DISPLAY.locale)}${unit ? ` ${unit}` : ""}`;
+}
+
+function valueAt(v: AlarmMailValue, unit: string | null, timeZone: string): string {
+  return `${figure(v.value, unit, v.uncertainty)} at ${formatSiteTime(v.at, timeZone)}`;
+}
+
+function stateWords(item: AlarmMailItem, timeZone: string): string {
+  return item.state === "active"
+    ? "ACTIVE now, not acknowledged"
+    : `CLEARED${item.clearedAt ? ` at ${formatSiteTime(item.clearedAt, timeZone)}` : ""}, not acknowledged`;
 }
 
 function where(item: AlarmMailItem): string {
@@ -64,13 +83,21 @@ function escapeHtml(s: string): string {
   return s.replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;").replace(/"/g, "&quot;");
 }
 
+function itemRows(item: AlarmMailItem, input: AlarmMailInput): [string, string][] {
+  return [
+    ["State", stateWords(item, input.timeZone)],
+    ["Site", input.siteName],
+    ["Asset", where(item)],
+    ["At activation", valueAt(item.activation, item.unit, input.timeZone)],
+    ...(item.latest ? ([["Latest", valueAt(item.latest, item.unit, input.timeZone)]] as [string, string][]) : []),
+    ["Setpoint", figure(item.setpoint, item.unit)],
+  ];
+}
+
 function itemLines(item: AlarmMailItem, input: AlarmMailInput): string[] {
   return [
     `${priorityText(item.priority)} priority — ${item.condition}${item.escalation ? " (escalated to you: not acknowledged in time)" : ""}`,
-    `Site: ${input.siteName}`,
-    `Asset: ${where(item)}`,
-    `Value: ${figure(item.value, item.unit)}   Setpoint: ${figure(item.setpoint, item.unit)}`,
-    `Since: ${formatSiteTime(item.at, input.timeZone)}`,
+    ...itemRows(item, input).map(([k, v]) => `${k}: ${v}`),
     ...(item.assetUrl ? [`Asset page: ${item.assetUrl}`] : []),
     `Acknowledge: ${item.ackUrl}`,
   ];
@@ -81,25 +108,23 @@ export function composeAlarmMail(input: AlarmMailInput): ComposedMail {
   const items = input.items;
   if (items.length === 0) throw new RangeError("an alarm e-mail needs at least one alarm");
   const single = items.length === 1;
+  const active = items.filter((i) => i.state === "active").length;
   const subject = single
-    ? `${priorityText(items[0].priority)} alarm: ${items[0].condition} at ${where(items[0])}, ${input.siteName}`
-    : `${items.length} alarms at ${input.siteName}`;
-  const linkNote = `Each acknowledge link opens a confirmation page; it works once, for you only, for ${input.ackTtlHours} h.`;
+    ? `${items[0].state === "active" ? "Active" : "Cleared, not acknowledged"} — ${priorityText(items[0].priority)} alarm: ${items[0].condition} at ${where(items[0])}, ${input.siteName}`
+    : `${items.length} alarms at ${input.siteName} (${active} active, ${items.length - active} cleared)`;
+  const linkNote = `Each acknowledge link opens a confirmation page; it works once, for you only, for this activation of the alarm, for ${input.ackTtlHours} h.`;
   const intro = single
-    ? `Hello ${input.recipientName}, an alarm needs your attention.`
-    : `Hello ${input.recipientName}, ${items.length} alarms at ${input.siteName} need your attention.`;
+    ? items[0].state === "active"
+      ? `Hello ${input.recipientName}, an alarm is active and needs your attention.`
+      : `Hello ${input.recipientName}, an alarm has cleared but nobody has acknowledged it yet.`
+    : `Hello ${input.recipientName}, ${items.length} alarms at ${input.siteName} are not acknowledged: ${active} still active, ${items.length - active} cleared. States as of this e-mail.`;
   const blocks = items.map((item) => itemLines(item, input).join("\n"));
   const text = [intro, "", blocks.join("\n\n"), "", linkNote, `All alarms: ${input.alarmsUrl}`, "", `Caution: ${ALARM_CAUTION}`, ""].join("\n");
 
   const htmlItems = items
     .map((item) => {
-      const rows = [
-        ["Site", escapeHtml(input.siteName)],
-        ["Asset", item.assetUrl ? `<a href="${escapeHtml(item.assetUrl)}">${escapeHtml(where(item))}</a>` : escapeHtml(where(item))],
-        ["Value", escapeHtml(figure(item.value, item.unit))],
-        ["Setpoint", escapeHtml(figure(item.setpoint, item.unit))],
-        ["Since", escapeHtml(formatSiteTime(item.at, input.timeZone))],
-      ]
+      const rows = itemRows(item, input)
+        .map(([k, v]) => [k, k === "Asset" && item.assetUrl ? `<a href="${escapeHtml(item.assetUrl)}">${escapeHtml(v)}</a>` : escapeHtml(v)])
         .map(([k, v]) => `<tr><th align="left" style="padding:2px 12px 2px 0">${k}</th><td>${v}</td></tr>`)
         .join("");
       const heading = `${escapeHtml(priorityText(item.priority))} priority — ${escapeHtml(item.condition)}${item.escalation ? " (escalated to you)" : ""}`;

@@ -119,7 +119,7 @@ export async function saveAlarm(id: string, record: AlarmRecord, extras: AlarmRo
 }
 
 /** Besides the state changes, every notification is an event of its alarm. */
-export type StoredEventKind = EngineEvent["kind"] | "notified" | "notification_failed";
+export type StoredEventKind = EngineEvent["kind"] | "notified" | "notification_failed" | "notice_held";
 
 export interface EventToWrite {
   alarmId: string;

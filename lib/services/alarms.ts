@@ -162,7 +162,25 @@ interface EventRow {
   details: Record<string, unknown>;
 }
 
-/** One alarm with its events (newest first) and the notifications sent about it. */
+interface NotificationRow {
+  id: string;
+  episode: number;
+  email: string;
+  recipient_name: string;
+  position: number;
+  reason: string;
+  attempts: number;
+  sent_at: Date | null;
+  send_error: string | null;
+  /** When a failed send is tried again (graphile-worker's backoff). */
+  next_attempt_at: Date | null;
+  /** Why the e-mail was not sent after all. */
+  held_reason: string | null;
+  expires_at: Date;
+  used_at: Date | null;
+}
+
+/** One alarm with its events (newest first) and the notifications about it with their delivery state. */
 export async function findAlarmWithHistory(organisationId: string, id: string, eventLimit = 200) {
   const alarm = await findAlarm(organisationId, id);
   const [events, notifications] = await Promise.all([
@@ -171,15 +189,23 @@ export async function findAlarmWithHistory(organisationId: string, id: string, e
        FROM alarm_events WHERE alarm_id = :id ORDER BY at DESC, id DESC LIMIT :limit`,
       { id, limit: eventLimit },
     ),
-    sqlRows<{ id: string; episode: number; email: string; position: number; reason: string; sent_at: Date | null; send_error: string | null; expires_at: Date; used_at: Date | null }>(
-      `SELECT id, episode, email, position, reason, sent_at, send_error, expires_at, used_at FROM alarm_notifications WHERE alarm_id = :id ORDER BY created_at DESC LIMIT 100`,
+    sqlRows<NotificationRow>(
+      `SELECT n.id, n.episode, n.email, coalesce(nullif(u.name, ''), n.email) AS recipient_name, n.position, n.reason, n.attempts, n.sent_at, n.send_error,
+              n.next_attempt_at, n.held_reason, n.expires_at, n.used_at
+       FROM alarm_notifications n JOIN users u ON u.id = n.user_id WHERE n.alarm_id = :id ORDER BY n.created_at DESC LIMIT 100`,
       { id },
     ),
   ]);
   return {
     ...alarm,
     events: events.map((e) => ({ ...e, id: Number(e.id), at: new Date(e.at).toISOString() })),
-    notifications: notifications.map((n) => ({ ...n, sent_at: iso(n.sent_at), expires_at: iso(n.expires_at), used_at: iso(n.used_at) })),
+    notifications: notifications.map((n) => ({
+      ...n,
+      sent_at: iso(n.sent_at),
+      next_attempt_at: iso(n.next_attempt_at),
+      expires_at: iso(n.expires_at),
+      used_at: iso(n.used_at),
+    })),
   };
 }
 

@@ -37,8 +37,8 @@ export interface StoreResult {
 /**
  * One statement per batch: counts the request against the device's per-minute limit, and only when it is
  * within the limit inserts the new readings (a resent (channel, seq) is skipped by reading_keys), queues
- * them for the worker. Last seen, battery and signal are recorded once a batch (a limited request was
- * still a sign of life).
+ * them for the worker and wakes it (NOTIFY readings, delivered at commit; the worker LISTENs). Last seen,
+ * battery and signal are recorded once a batch (a limited request was still a sign of life).
  */
 export async function storeReadings(deviceId: string, readings: ReadingInput[], serverTime: Date): Promise<StoreResult> {
   const battery = [...readings].reverse().find((r) => r.battery_v !== undefined)?.battery_v ?? null;
@@ -89,7 +89,9 @@ export async function storeReadings(deviceId: string, readings: ReadingInput[], 
        ${RETURNING_QUEUED_COLUMNS}
      ),
      ${QUEUE_INSERTED}
-     SELECT rl.rate_count, rl.max_requests_per_min, rl.window_left_s, (SELECT count(*) FROM queued) AS accepted FROM rl`,
+     SELECT rl.rate_count, rl.max_requests_per_min, rl.window_left_s, q.accepted,
+            CASE WHEN q.accepted > 0 THEN pg_notify('readings', '') END AS woke
+       FROM rl, (SELECT count(*) AS accepted FROM queued) q`,
     [deviceId, JSON.stringify(rows), serverTime.toISOString(), battery, rssi],
     { name: "halftrip_store_readings" },
   );

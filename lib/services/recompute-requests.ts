@@ -1,9 +1,13 @@
 // Recompute requests: after a channel's calibration, an asset's geometry or mounting, or a site's
-// temperature settings change, the use case files a request in its own transaction; the worker
-// (lib/worker/recompute.ts) rebuilds the channel's derived rows in the background.
+// temperature settings change, the use case files a request in its own transaction, with a job that
+// wakes the worker for it (one pending at most); the worker (lib/worker/recompute.ts) rebuilds the
+// channel's derived rows in the background. Its cycle drains requests too, should a job be lost.
 
 import type { Transaction } from "sequelize";
 import { sqlRows } from "../db/sql";
+import { addJob, JOBS } from "./job-queue";
+
+const wakeWorker = (transaction?: Transaction) => addJob(JOBS.drainRecomputeRequests, {}, { transaction, jobKey: JOBS.drainRecomputeRequests });
 
 export interface RecomputeRequestInput {
   channelId?: string | null;
@@ -19,6 +23,7 @@ export async function requestRecompute({ channelId = null, assetId = null, reaso
     [channelId, assetId, reason],
     { transaction },
   );
+  await wakeWorker(transaction);
   return { id: Number(row.id) };
 }
 
@@ -42,5 +47,6 @@ export async function requestSiteRecompute(
     [siteId, reason, temperatureChannelId],
     { transaction },
   );
+  if (rows.length > 0) await wakeWorker(transaction);
   return [...ids, ...rows.map((r) => Number(r.id))];
 }

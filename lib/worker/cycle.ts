@@ -21,6 +21,11 @@ export interface CycleOptions {
   cycleHooks?: readonly CycleHook[];
   /** Called after each committed batch. */
   afterBatch?: () => void;
+  /**
+   * Mark offline channels and refresh forecasts in the cycle (`--once`); false when the long-running
+   * worker has node-cron enqueue them as jobs instead, so several workers do them once, not each.
+   */
+  fleetChores?: boolean;
 }
 
 export interface CycleResult {
@@ -40,7 +45,7 @@ export interface CycleResult {
   timings: { drain: number; lateTemperature: number; recompute: number; offline: number; dips: number; forecasts: number; hooks: number };
 }
 
-export async function runCycle({ batchSize, maxDrainMs = 60_000, batchHooks = [], cycleHooks = [], afterBatch }: CycleOptions): Promise<CycleResult> {
+export async function runCycle({ batchSize, maxDrainMs = 60_000, batchHooks = [], cycleHooks = [], afterBatch, fleetChores = true }: CycleOptions): Promise<CycleResult> {
   const started = Date.now();
   const result: CycleResult = {
     batches: 0,
@@ -71,11 +76,11 @@ export async function runCycle({ batchSize, maxDrainMs = 60_000, batchHooks = []
   lap("lateTemperature");
   result.recomputed = await drainRecomputeRequests();
   lap("recompute");
-  if (result.drained) result.offlineFlagged = await markOfflineChannels();
+  if (fleetChores && result.drained) result.offlineFlagged = await markOfflineChannels();
   lap("offline");
   result.dipsEvaluated = await evaluateManualDips();
   lap("dips");
-  result.forecasts = await refreshForecasts();
+  if (fleetChores) result.forecasts = await refreshForecasts();
   lap("forecasts");
   for (const hook of cycleHooks) await hook.run({ now: new Date(), drained: result.drained });
   lap("hooks");

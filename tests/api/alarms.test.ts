@@ -1,20 +1,16 @@
 import { randomUUID } from "node:crypto";
 import { beforeAll, describe, expect, it } from "vitest";
 import { anonymous, signedIn, type Agent } from "../support/session";
+import { repeat, tankWithAlarms as tankWithTestAlarms, tokenOf } from "../support/alarm-tank";
 import { createTankWithDevice } from "../support/fleet";
 import { createOtherOrganisation, sql } from "../support/db";
-import { firstLink, waitForMail } from "../support/mail-sink";
+import { waitForMail } from "../support/mail-sink";
 import { runWorkerOnce } from "../support/worker";
 import { createSignedToken } from "@/lib/auth/invite-token";
 
 // Alarms end to end through the API and the worker (issue 5): setpoints and on-call lists, readings
 // pushing a tank over H, the worker raising the alarm and e-mailing the on-call list, the signed
 // acknowledge link, escalation, the people's actions with their roles, and alarm health.
-
-// Speed of sound in dry air at 20 °C (REFERENCES.md §1): the readings carry air_temp_c 20.
-const C_20 = 343.215;
-// The test tank (tests/support/fleet.ts): sensor face 3 m above the bottom, so level = 3 − distance.
-const MOUNT_M = 3;
 
 let admin: Agent;
 let operator: Agent;
@@ -32,36 +28,8 @@ beforeAll(async () => {
   operatorId = users.find((u) => u.email.startsWith("operator"))!.id;
 });
 
-const H_SETPOINTS = {
-  hh: { value: 2.5, deadband_m: 0.14, on_delay_s: 30, priority: "high" },
-  h: { value: 2.0, deadband_m: 0.14, on_delay_s: 30, priority: "medium" },
-  l: { value: 0.6, priority: "low" },
-  ll: { value: 0.3, priority: "high" },
-};
-
 /** A tank with setpoints and an on-call list (technician, then operator), and a way to send it levels. */
-async function tankWithAlarms(setpoints: Record<string, unknown> = H_SETPOINTS) {
-  // A long expected interval keeps the offline check out of these tests.
-  const fleet = await createTankWithDevice(admin, { device: { expected_interval_s: 3600 } });
-  const put = await operator.put(`/api/assets/${fleet.tank.id}/setpoints`).send({ setpoints });
-  if (put.status !== 200) throw new Error(`setpoints: ${put.status} ${JSON.stringify(put.body)}`);
-  const onCall = await operator.put(`/api/sites/${fleet.site.id}/on-call`).send({ user_ids: [technicianId, operatorId] });
-  if (onCall.status !== 200) throw new Error(`on-call: ${onCall.status} ${JSON.stringify(onCall.body)}`);
-  let clock = 0;
-  let seq = 1;
-  /** Sends one reading per level, 10 s apart, the last one about now (and never before the previous batch). */
-  const send = async (levels: number[]) => {
-    clock = Math.max(clock, Date.now() - levels.length * 10_000);
-    const readings = levels.map((level) => {
-      clock += 10_000;
-      // Round-trip echo time for the distance to the surface: t = 2·d / c (REFERENCES.md §2).
-      return { seq: seq++, at: new Date(clock).toISOString(), channel: 0, echo_us: Math.round(((2 * (MOUNT_M - level)) / C_20) * 1e7) / 10, air_temp_c: 20 };
-    });
-    const res = await anonymous().post("/api/v1/readings").set("Authorization", `Bearer ${fleet.apiKey}`).send({ readings });
-    if (res.status !== 202 || res.body.rejected.length) throw new Error(`readings: ${res.status} ${JSON.stringify(res.body)}`);
-  };
-  return { ...fleet, send };
-}
+const tankWithAlarms = (setpoints?: Record<string, unknown>) => tankWithTestAlarms(admin, operator, [technicianId, operatorId], setpoints);
 
 async function alarmOf(tankId: string, kind: string) {
   const res = await operator.get(`/api/alarms?asset_id=${tankId}&kind=${kind}&state=normal,active`).expect(200);
@@ -69,8 +37,6 @@ async function alarmOf(tankId: string, kind: string) {
   return (await operator.get(`/api/alarms/${res.body.items[0].id}`).expect(200)).body;
 }
 
-const tokenOf = (text: string) => decodeURIComponent(firstLink(text, "/ack/").split("/ack/")[1]);
-const repeat = (level: number, n: number) => Array.from({ length: n }, () => level);
 
 describe("an H alarm from readings to acknowledgement by e-mail and back to normal", () => {
   it("activates, e-mails the first on-call person a single-use link, records the acknowledgement as theirs, and clears below H − deadband", async () => {
@@ -86,10 +52,13 @@ describe("an H alarm from readings to acknowledgement by e-mail and back to norm
     expect(activated.cause).toMatch(/≥ H 2\.000 m for 30 s/);
 
     const mail = await waitForMail("technician@halftrip.test", (m) => m.subject.includes(t.tank.name));
-    expect(mail.subject).toMatch(/^■ Medium alarm: H level at /);
+    expect(mail.subject).toMatch(/^Active — ■ Medium alarm: H level at /);
     expect(mail.text).toContain(t.site.name);
-    expect(mail.text).toMatch(/Value: 2\.2\d\d m {3}Setpoint: 2\.000 m/);
-    expect(mail.text).toMatch(/Since: \d{1,2} \w{3} \d{4}, \d\d:\d\d (GMT|IST)/);
+    expect(mail.text).toContain("State: ACTIVE now, not acknowledged");
+    // The value that activated it and the latest, each with its time labelled with the site's zone.
+    expect(mail.text).toMatch(/At activation: 2\.2\d*\u00a0m( ±\u00a0[\d.]+\u00a0mm)? at \d{1,2} \w{3} \d{4}, \d\d:\d\d (GMT|IST)/);
+    expect(mail.text).toMatch(/Latest: 2\.2\d*\u00a0m( ±\u00a0[\d.]+\u00a0mm)? at \d{1,2} \w{3} \d{4}, \d\d:\d\d (GMT|IST)/);
+    expect(mail.text).toContain("Setpoint: 2.000\u00a0m");
     expect(mail.text).toContain(`/assets/${t.tank.id}`);
     expect(mail.text).toContain("not an overfill-prevention or safety system");
     const token = tokenOf(mail.text);
@@ -164,7 +133,7 @@ describe("escalation and bursts", () => {
     const t = await tankWithAlarms();
     await t.send([...repeat(1.5, 6), ...repeat(2.7, 12)]);
     await runWorkerOnce();
-    const mail = await waitForMail("technician@halftrip.test", (m) => m.subject === `2 alarms at ${t.site.name}`);
+    const mail = await waitForMail("technician@halftrip.test", (m) => m.subject === `2 alarms at ${t.site.name} (2 active, 0 cleared)`);
     expect(mail.text.match(/Acknowledge: /g)).toHaveLength(2);
     const [h, hh] = [await alarmOf(t.tank.id, "h"), await alarmOf(t.tank.id, "hh")];
     expect([h.state, hh.state]).toEqual(["unacknowledged", "unacknowledged"]);
@@ -206,10 +175,16 @@ describe("acknowledge links that must not work", () => {
     expect(page.text).toContain("expired");
     await sql(`UPDATE alarm_notifications SET expires_at = now() + interval '1 hour' WHERE id = $1`, [id]);
     await stillUnacknowledged();
-    expect(await sql(`SELECT used_at FROM alarm_notifications WHERE id = $1`, [id])).toEqual([{ used_at: null }]);
+    // Only the refusal of the real link, whose row it names, spends it: refused once, refused for good,
+    // even now that its row would no longer be expired.
+    expect(await sql(`SELECT refusal FROM alarm_notifications WHERE id = $1 AND used_at IS NOT NULL`, [id])).toEqual([{ refusal: "expired" }]);
+    expect((await anonymous().post("/api/alarms/ack-link").send({ token }).expect(410)).body.error).toBe("ack_link_expired");
+    await stillUnacknowledged();
   });
 
   it("refuses someone signed in to another organisation", async () => {
+    // The link as it was before the case above spent it.
+    await sql(`UPDATE alarm_notifications SET used_at = NULL, refusal = NULL WHERE id = $1`, [token.split(".")[0]]);
     const other = await createOtherOrganisation();
     const outsider = await signedIn(other.adminEmail, other.password);
     const res = await outsider.post("/api/alarms/ack-link").send({ token }).expect(403);

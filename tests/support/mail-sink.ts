@@ -27,3 +27,14 @@ export function firstLink(text: string, pathPart: string): string {
   if (!m) throw new Error(`no ${pathPart} link in mail`);
   return m[0];
 }
+
+/** Every message the sink holds for an address (summaries: no text). */
+export async function listMail(to: string): Promise<Omit<SinkMessage, "text">[]> {
+  return (await (await fetch(`${SINK}/messages?to=${encodeURIComponent(to)}`)).json()).items;
+}
+
+/** Has the sink answer the next `count` deliveries to `to` with a temporary failure (451), as a relay down for a while. */
+export async function refuseMail(to: string, count: number): Promise<void> {
+  const res = await fetch(`${SINK}/refuse?to=${encodeURIComponent(to)}&count=${count}`, { method: "POST" });
+  if (!res.ok) throw new Error(`sink refuse: ${res.status}`);
+}

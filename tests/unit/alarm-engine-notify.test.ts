@@ -75,31 +75,46 @@ describe("composeAlarmMail", () => {
     priority: "medium",
     assetName: "Clearwater Tank",
     channelLabel: null,
-    value: 2.612,
+    state: "active",
+    clearedAt: null,
+    activation: { value: 2.612, at: new Date("2026-07-01T12:00:00Z"), uncertainty: 0.008 },
+    latest: { value: 2.7043, at: new Date("2026-07-01T12:05:00Z"), uncertainty: 0.0021 },
     setpoint: 2.5,
     unit: "m",
-    at: new Date("2026-07-01T12:00:00Z"),
     assetUrl: "http://app.test/assets/x",
     ackUrl: "http://app.test/ack/token-1",
     escalation: false,
   };
   const input = { siteName: "North Works", timeZone: "Europe/London", recipientName: "Tess", items: [item], alarmsUrl: "http://app.test/alarms", ackTtlHours: 24 };
+  const nb = "\u00a0";
 
-  it("says what, where, value, setpoint and when in the site's time zone, with both links and the caution", () => {
+  it("says the state at sending, where, the value at activation and the latest, each with its time in the site's zone", () => {
     const mail = composeAlarmMail(input);
-    expect(mail.subject).toBe("■ Medium alarm: H level at Clearwater Tank, North Works");
-    expect(mail.text).toContain("Value: 2.612 m   Setpoint: 2.500 m");
+    expect(mail.subject).toBe("Active — ■ Medium alarm: H level at Clearwater Tank, North Works");
+    expect(mail.text).toContain("State: ACTIVE now, not acknowledged");
     // 12:00 UTC on 1 July is 13:00 British Summer Time (IANA tz database: Europe/London is UTC+1 in summer).
-    expect(mail.text).toMatch(/Since: 1 Jul 2026, 13:00 BST/);
+    // Precision from the uncertainty: 8 mm has leading digits 800 > 354, so one significant digit and the
+    // value to the millimetre; 2.1 mm has 210 ≤ 354, so two digits (0.1 mm) (Particle Data Group's
+    // rounding rule, Review of Particle Physics, Introduction, from memory).
+    expect(mail.text).toContain(`At activation: 2.612${nb}m ±${nb}8${nb}mm at 1 Jul 2026, 13:00 BST`);
+    expect(mail.text).toContain(`Latest: 2.7043${nb}m ±${nb}2.1${nb}mm at 1 Jul 2026, 13:05 BST`);
+    expect(mail.text).toContain(`Setpoint: 2.500${nb}m`);
     expect(mail.text).toContain("Asset page: http://app.test/assets/x");
     expect(mail.text).toContain("Acknowledge: http://app.test/ack/token-1");
     expect(mail.text).toContain("not an overfill-prevention or safety system");
     expect(mail.html).toContain('href="http://app.test/ack/token-1"');
   });
 
-  it("summarises a burst in one e-mail with one acknowledge link each", () => {
-    const mail = composeAlarmMail({ ...input, items: [item, { ...item, condition: "HH level", priority: "high", ackUrl: "http://app.test/ack/token-2", escalation: true }] });
-    expect(mail.subject).toBe("2 alarms at North Works");
+  it("says cleared, with the time it cleared, and never that the alarm is active", () => {
+    const mail = composeAlarmMail({ ...input, items: [{ ...item, state: "cleared", clearedAt: new Date("2026-07-01T12:10:00Z") }] });
+    expect(mail.subject).toBe("Cleared, not acknowledged — ■ Medium alarm: H level at Clearwater Tank, North Works");
+    expect(mail.text).toContain("State: CLEARED at 1 Jul 2026, 13:10 BST, not acknowledged");
+    expect(mail.text).not.toMatch(/active and needs your attention|ACTIVE/);
+  });
+
+  it("summarises a burst in one e-mail with one acknowledge link each and the count of each state", () => {
+    const mail = composeAlarmMail({ ...input, items: [item, { ...item, condition: "HH level", priority: "high", state: "cleared", ackUrl: "http://app.test/ack/token-2", escalation: true }] });
+    expect(mail.subject).toBe("2 alarms at North Works (1 active, 1 cleared)");
     expect(mail.text.match(/Acknowledge: /g)).toHaveLength(2);
     expect(mail.text).toContain("escalated to you");
   });

@@ -4,7 +4,7 @@ import { HttpError, parseJsonBody, PUBLIC_MAX_BODY_BYTES } from "@/lib/http/erro
 import { route } from "@/lib/http/route";
 import { ackLinkSchema } from "@/lib/validations/alarm";
 
-const STATUS = { malformed: 404, bad_signature: 404, unknown: 404, expired: 410, used: 410, other_organisation: 403, recipient_unable: 403 } as const;
+const STATUS = { malformed: 404, bad_signature: 404, unknown: 404, expired: 410, used: 410, stale: 409, other_organisation: 403, recipient_unable: 403 } as const;
 
 // Public by design: the signed, single-use link is the credential, and it acknowledges as its recipient.
 // Someone signed in to another organisation is refused, so a link never acts across organisations.
