@@ -10,7 +10,7 @@ const listQuery = z.object({ site_id: uuidSchema.optional() });
 
 export const GET = route(async (req) => {
   const user = await requirePermission("dashboard:read");
-  return Response.json({ items: await listDevices(user.organisationId, parseQuery(req.url, listQuery)) });
+  return Response.json({ items: await listDevices(user.scope, parseQuery(req.url, listQuery)) });
 });
 
 export const POST = route(async (req) => {

@@ -20,6 +20,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare role: Role;
   declare status: CreationOptional<UserStatus>;
   declare password_hash: CreationOptional<string | null>;
+  /** A viewer's sites (partner scope); null is every site of the organisation. */
+  declare site_ids: CreationOptional<string[] | null>;
   declare created_at: CreationOptional<Date>;
 }
 
@@ -57,6 +59,7 @@ function defineModels(sequelize: Sequelize) {
       role: { type: DataTypes.ENUM("admin", "operator", "technician", "viewer"), allowNull: false },
       status: { type: DataTypes.ENUM("invited", "active", "deactivated"), allowNull: false, defaultValue: "invited" },
       password_hash: { type: DataTypes.TEXT, allowNull: true },
+      site_ids: { type: DataTypes.ARRAY(DataTypes.UUID), allowNull: true },
       created_at: DataTypes.DATE,
     },
     {
