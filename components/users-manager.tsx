@@ -7,6 +7,7 @@ import { ApiError, fetchJson, swrFetcher } from "@/lib/fetcher";
 import type { UserRow } from "@/lib/services/users";
 import { inviteUserSchema } from "@/lib/validations/user";
 import { Loading, LoadError } from "./data-state";
+import { ViewerSitesEditor } from "./viewer-sites-editor";
 
 export function UsersManager({ currentUserId }: { currentUserId: string }) {
   const { data, error, isLoading, mutate } = useSWR<{ items: UserRow[] }>("/api/users", swrFetcher);
@@ -80,6 +81,7 @@ export function UsersManager({ currentUserId }: { currentUserId: string }) {
           </table>
         )}
       </section>
+      {data && <ViewerSitesEditor users={data.items} onSaved={() => mutate()} />}
     </div>
   );
 }
