@@ -54,6 +54,15 @@ export function personLabel(scope: Scope, label: string | null, name: string | n
   return name?.trim() || (label.includes("@") ? "a staff member" : label);
 }
 
+const ADDRESS = /[^\s@()<>,;:"]+@[^\s@()<>,;:"]+/g;
+
+/** A text the system wrote (an event's cause) as this reader may see it: addresses replaced for a viewer. */
+export function textFor(scope: Scope, text: string): string;
+export function textFor(scope: Scope, text: string | null): string | null;
+export function textFor(scope: Scope, text: string | null): string | null {
+  return scope.staffEmails || text === null ? text : text.replace(ADDRESS, "a staff member");
+}
+
 /** An event's details as this reader may see them: addresses left out for a viewer. */
 export function detailsFor(scope: Scope, details: Record<string, unknown>): Record<string, unknown> {
   if (scope.staffEmails) return details;

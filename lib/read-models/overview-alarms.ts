@@ -1,4 +1,4 @@
-import { personLabel, siteScope, type Scope } from "../db/site-scope";
+import { personLabel, siteScope, textFor, type Scope } from "../db/site-scope";
 import { alarmKindLabel, isAlarmKind } from "../alarms/engine";
 import { listAlarms, type AlarmJson } from "../services/alarms";
 import { sqlRows } from "../db/sql";
@@ -77,7 +77,7 @@ export async function listAssetAlarmHistory(scope: Scope, assetId: string, limit
      LIMIT :limit`,
     { organisationId, assetId, limit },
   );
-  return rows.map(({ actor_name, ...r }) => ({ ...r, actor_label: personLabel(scope, r.actor_label, actor_name), id: Number(r.id), at: new Date(r.at).toISOString(), alarm_label: isAlarmKind(r.alarm_kind) ? alarmKindLabel(r.alarm_kind) : r.alarm_kind }));
+  return rows.map(({ actor_name, ...r }) => ({ ...r, actor_label: personLabel(scope, r.actor_label, actor_name), cause: textFor(scope, r.cause), id: Number(r.id), at: new Date(r.at).toISOString(), alarm_label: isAlarmKind(r.alarm_kind) ? alarmKindLabel(r.alarm_kind) : r.alarm_kind }));
 }
 
 export interface SetpointJson {

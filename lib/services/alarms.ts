@@ -12,7 +12,7 @@ import { httpStatusForAlarmError, isAwaitingReset, type AlarmInput } from "../al
 import type { AlarmListQuery, AlarmSort } from "../validations/alarm";
 import { type AlarmDbRow, type AlarmRowExtras, insertAlarmEvents, saveAlarm, toRecord } from "./alarm-store";
 import { sqlRows } from "../db/sql";
-import { detailsFor, personLabel, siteScope, wholeOrganisation, type Scope } from "../db/site-scope";
+import { detailsFor, personLabel, siteScope, textFor, wholeOrganisation, type Scope } from "../db/site-scope";
 
 interface AlarmViewRow extends AlarmDbRow {
   site_name: string;
@@ -192,7 +192,7 @@ export async function findAlarmWithHistory(scope: Scope, id: string, eventLimit 
   ]);
   return {
     ...alarm,
-    events: events.map(({ actor_name, ...e }) => ({ ...e, actor_label: personLabel(scope, e.actor_label, actor_name), details: detailsFor(scope, e.details), id: Number(e.id), at: new Date(e.at).toISOString() })),
+    events: events.map(({ actor_name, ...e }) => ({ ...e, actor_label: personLabel(scope, e.actor_label, actor_name), cause: textFor(scope, e.cause), details: detailsFor(scope, e.details), id: Number(e.id), at: new Date(e.at).toISOString() })),
     // Who was e-mailed is staff business: a viewer sees that a notification went out, not to whom.
     notifications: notifications.map((n) => ({ ...n, email: scope.staffEmails ? n.email : null, sent_at: iso(n.sent_at), expires_at: iso(n.expires_at), used_at: iso(n.used_at) })),
   };

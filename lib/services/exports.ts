@@ -1,7 +1,7 @@
 // CSV exports as streams of row batches: each batch is one keyset-paged query (a cursor that survives
 // between pulls without holding a connection), so a year of measurements never sits in memory.
 
-import { personLabel, siteScope, type Scope } from "../db/site-scope";
+import { personLabel, siteScope, textFor, type Scope } from "../db/site-scope";
 import { AppError } from "../errors";
 import type { CsvValue } from "../csv/write";
 import type { ExportRange } from "../validations/export";
@@ -184,7 +184,7 @@ export async function* alarmEventBatches(scope: Scope, range: ExportRange): Batc
       e.kind,
       e.from_state,
       e.to_state,
-      e.cause,
+      textFor(scope, e.cause),
       e.value,
       e.setpoint,
       e.unit,
