@@ -21,7 +21,7 @@ export function ViewerSitesEditor({ users, onSaved }: { users: UserRow[]; onSave
       {isLoading && <Loading />}
       {error && <LoadError error={error} retry={() => mutate()} />}
       {data && !viewers.length && <p className="text-sm text-muted">No viewers yet: invite one with the viewer role.</p>}
-      {data && viewers.map((v) => <ViewerSites key={`${v.id}:${JSON.stringify(v.site_ids)}`} viewer={v} sites={data.items} onSaved={onSaved} />)}
+      {data && viewers.map((v) => <ViewerSites key={v.id} viewer={v} sites={data.items} onSaved={onSaved} />)}
     </section>
   );
 }
