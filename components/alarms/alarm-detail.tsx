@@ -33,6 +33,7 @@ interface AlarmEventJson {
 interface NotificationJson extends NoticeDeliveryJson {
   id: string;
   episode: number;
+  email: string | null;
   position: number;
   reason: string;
   expires_at: string;
@@ -77,7 +78,7 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
         <div><p className="label">Condition</p><p>{data.condition_active ? "Active" : "Clear"}</p></div>
         <div><p className="label">Began</p><p className="figures">{stamp(data.activated_at)}</p></div>
         <div><p className="label">Cleared</p><p className="figures">{stamp(data.cleared_at)}</p></div>
-        <div><p className="label">Acknowledged</p><p className="figures">{data.acknowledged_at ? `${stamp(data.acknowledged_at)} by ${data.acknowledged_by?.email ?? "—"}` : "—"}</p></div>
+        <div><p className="label">Acknowledged</p><p className="figures">{data.acknowledged_at ? `${stamp(data.acknowledged_at)} by ${data.acknowledged_by?.email ?? (data.acknowledged_by?.name || "—")}` : "—"}</p></div>
         <div><p className="label">Activations</p><p className="figures">{data.activations}</p></div>
         {data.out_of_service_reason && <div className="sm:col-span-4"><p className="label">Out of service because</p><p>{data.out_of_service_reason}</p></div>}
       </section>
@@ -130,7 +131,7 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
             <tbody>
               {data.notifications.map((n) => (
                 <tr key={n.id}>
-                  <td data-label="To">{n.email} <span className="text-muted">(on call #{n.position})</span></td>
+                  <td data-label="To">{n.email ?? "on-call person"} <span className="text-muted">(on call #{n.position})</span></td>
                   <td data-label="Why">{n.reason === "escalation" ? "Escalation" : "First notice"}</td>
                   <td data-label="Delivery"><NoticeDelivery notice={n} timeZone={data.site.time_zone} /></td>
                   <td data-label="Link used" className="figures">{stamp(n.used_at)}</td>

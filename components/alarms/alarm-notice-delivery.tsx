@@ -3,7 +3,8 @@ import { formatDate, formatDateTime, formatTime, type TimeDisplay } from "@/lib/
 /** One notice about an alarm as GET /api/alarms/{id} answers it: where its e-mail got to. */
 export interface NoticeDeliveryJson {
   recipient_name: string;
-  email: string;
+  /** Null for a viewer: staff addresses are shown to staff only. */
+  email: string | null;
   attempts: number;
   sent_at: string | null;
   send_error: string | null;

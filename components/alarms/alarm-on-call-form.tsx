@@ -21,7 +21,7 @@ function OnCallFields({ data, editable, onSaved }: { data: OnCallJson; editable:
   const [errors, setErrors] = useState<FieldErrors>({});
   const [busy, setBusy] = useState(false);
   const [saved, setSaved] = useState(false);
-  const people = new Map<string, { email: string; name: string; role: string }>();
+  const people = new Map<string, { email: string | null; name: string; role: string }>();
   for (const e of data.entries) people.set(e.user_id, { email: e.email, name: e.name, role: e.role });
   for (const c of data.candidates ?? []) people.set(c.id, { email: c.email, name: c.name, role: c.role });
   const addable = (data.candidates ?? []).filter((c) => !ids.includes(c.id));

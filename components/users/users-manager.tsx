@@ -14,6 +14,7 @@ import { DataTable } from "@/components/ui/data-table";
 import { ConfirmDialog } from "@/components/ui/dialog";
 import { Toast } from "@/components/ui/toast";
 import { applyApiErrors } from "@/components/ui/form-fields";
+import { ViewerSitesEditor } from "@/components/users/viewer-sites-editor";
 
 // What each role may do (PRODUCT.md "People and roles"), said in the confirmation of a role change.
 const ROLE_MAY: Record<Role, string> = {
@@ -100,6 +101,7 @@ export function UsersManager({ currentUserId }: { currentUserId: string }) {
         <h2 id="users-heading" className="mb-2 text-lg font-bold">People</h2>
         <DataTable data={data?.items} columns={columns} getRowId={(u) => u.id} label="People" loading={isLoading} error={error} retry={() => mutate()} empty="No one yet." />
       </div>
+      {data && <ViewerSitesEditor users={data.items} onSaved={() => mutate()} />}
       {pending?.patch.role && (
         <ConfirmDialog
           title={`Make ${pending.user.email} ${pending.patch.role === "admin" || pending.patch.role === "operator" ? "an" : "a"} ${pending.patch.role}?`}

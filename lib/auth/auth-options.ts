@@ -1,5 +1,6 @@
 import type { NextAuthOptions } from "next-auth";
 import CredentialsProvider from "next-auth/providers/credentials";
+import { Op } from "sequelize";
 import { User } from "../db/models";
 import { sqlRun } from "../db/sql";
 import { signInSchema } from "../validations/user";
@@ -24,7 +25,8 @@ export const authOptions: NextAuthOptions = {
         const parsed = signInSchema.safeParse(credentials ?? {});
         if (!parsed.success) return null;
         const { email, password } = parsed.data;
-        const user = await User.scope("withPassword").findOne({ where: { email } });
+        // An invite to an address another organisation uses is an invited row beside the account (0014).
+        const user = await User.scope("withPassword").findOne({ where: { email, status: { [Op.ne]: "invited" } } });
         const ok = await verifyPassword(password, user?.password_hash);
         if (!user || !ok || user.status !== "active") return null;
         await recordSignInSuccess(email, clientAddress(new Headers((req?.headers ?? {}) as Record<string, string>)));

@@ -1,6 +1,7 @@
 import { getServerSession } from "next-auth";
 import { redirect } from "next/navigation";
 import { User } from "../db/models";
+import type { Scope } from "../db/site-scope";
 import type { Actor } from "../services/audit";
 import { forbidden, unauthorized } from "../errors";
 import { authOptions } from "./auth-options";
@@ -12,6 +13,8 @@ export interface SessionUser {
   role: Role;
   email: string;
   name: string;
+  /** What this user may read: its organisation, for a viewer with assigned sites only those, and no staff addresses. */
+  scope: Scope;
 }
 
 /**
@@ -25,7 +28,15 @@ export async function currentUser(): Promise<SessionUser | null> {
   if (!id) return null;
   const user = await User.findByPk(id);
   if (!user || user.status !== "active" || user.session_version !== session.user.sessionVersion) return null;
-  return { id: user.id, organisationId: user.organisation_id, role: user.role, email: user.email, name: user.name };
+  const siteIds = user.role === "viewer" ? (user.site_ids ?? null) : null;
+  return {
+    id: user.id,
+    organisationId: user.organisation_id,
+    role: user.role,
+    email: user.email,
+    name: user.name,
+    scope: { organisationId: user.organisation_id, siteIds, staffEmails: user.role !== "viewer" },
+  };
 }
 
 /** The one check every route handler and server action makes. Throws 401/403 as HttpError. */

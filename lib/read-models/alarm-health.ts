@@ -1,6 +1,7 @@
 // Alarm-system health for a period: every activation from the alarm events (with when its condition
 // cleared), measured by lib/alarms/alarm-health.ts against the ISA-18.2 / EEMUA 191 benchmarks.
 
+import { siteScope, type Scope } from "../db/site-scope";
 import { computeAlarmHealth, type AlarmActivation } from "../alarms/alarm-health";
 import { alarmKindLabel, type AlarmKind } from "../alarms/engine";
 import type { AlarmPriority } from "../alarms/state-machine";
@@ -10,7 +11,8 @@ const DAY_MS = 86_400_000;
 /** The benchmarks are stated over 30 days or more (REFERENCES.md §4), so that is the default period. */
 export const DEFAULT_HEALTH_DAYS = 30;
 
-export async function alarmHealth(organisationId: string, q: { from?: Date; to?: Date; site_id?: string }, now = new Date()) {
+export async function alarmHealth(scope: Scope, q: { from?: Date; to?: Date; site_id?: string }, now = new Date()) {
+  const { organisationId } = scope;
   const to = q.to ?? now;
   const from = q.from ?? new Date(to.getTime() - DEFAULT_HEALTH_DAYS * DAY_MS);
   const found = await sqlRows<{ alarm_id: string; at: Date; priority: AlarmPriority; active_until: Date | null }>(
@@ -22,7 +24,7 @@ export async function alarmHealth(organisationId: string, q: { from?: Date; to?:
          AND (e2.at, e2.id) > (e.at, e.id)
        ORDER BY e2.at, e2.id LIMIT 1
      ) c ON true
-     WHERE al.organisation_id = :organisationId AND e.kind IN ('activated', 're_alarmed')
+     WHERE al.organisation_id = :organisationId AND ${siteScope(scope, "al.site_id")} AND e.kind IN ('activated', 're_alarmed')
        AND e.at < :to AND e.at >= CAST(:from AS timestamptz) - interval '30 days'
        ${q.site_id ? "AND al.site_id = :siteId" : ""}
        AND (e.at >= :from OR c.at IS NULL OR c.at > :from)`,
@@ -36,7 +38,7 @@ export async function alarmHealth(organisationId: string, q: { from?: Date; to?:
         `SELECT al.id, al.kind, s.name AS site_name, a.name AS asset_name, ch.index AS channel_index, d.name AS device_name
          FROM alarms al JOIN sites s ON s.id = al.site_id LEFT JOIN assets a ON a.id = al.asset_id
          LEFT JOIN channels ch ON ch.id = al.channel_id LEFT JOIN devices d ON d.id = ch.device_id
-         WHERE al.id IN (:keys) AND al.organisation_id = :organisationId`,
+         WHERE al.id IN (:keys) AND al.organisation_id = :organisationId AND ${siteScope(scope, "al.site_id")}`,
         { keys, organisationId },
       )
     : [];

@@ -2,6 +2,7 @@
 // rollups), for the asset screen and the refill plan. Days are counted from now, not from when the
 // forecast was computed.
 
+import { siteScope, type Scope } from "../db/site-scope";
 import { findAsset } from "../services/assets";
 import { sqlRows } from "../db/sql";
 
@@ -50,17 +51,17 @@ const SELECT = `SELECT f.asset_id, f.computed_at, f.window_start, f.window_end, 
                 FROM tank_forecasts f JOIN assets a ON a.id = f.asset_id`;
 
 /** The stored forecast of one tank of the organisation, or null before the worker has made one. */
-export async function getTankForecast(organisationId: string, assetId: string): Promise<ForecastJson | null> {
-  await findAsset(organisationId, assetId);
-  const [row] = await sqlRows<ForecastRow>(`${SELECT} WHERE f.asset_id = $1 AND a.organisation_id = $2`, [assetId, organisationId]);
+export async function getTankForecast(scope: Scope, assetId: string): Promise<ForecastJson | null> {
+  await findAsset(scope, assetId);
+  const [row] = await sqlRows<ForecastRow>(`${SELECT} WHERE f.asset_id = $1 AND a.organisation_id = $2 AND ${siteScope(scope, "a.site_id")}`, [assetId, scope.organisationId]);
   return row ? serialiseForecast(row) : null;
 }
 
 /** Every stored tank forecast of the organisation (optionally one site), soonest reorder first. */
-export async function listTankForecasts(organisationId: string, filter: { siteId?: string } = {}): Promise<ForecastJson[]> {
+export async function listTankForecasts(scope: Scope, filter: { siteId?: string } = {}): Promise<ForecastJson[]> {
   const rows = await sqlRows<ForecastRow>(
-    `${SELECT} WHERE a.organisation_id = $1 AND ($2::uuid IS NULL OR a.site_id = $2) ORDER BY f.reorder_at NULLS LAST, f.empty_at NULLS LAST`,
-    [organisationId, filter.siteId ?? null],
+    `${SELECT} WHERE a.organisation_id = $1 AND ${siteScope(scope, "a.site_id")} AND ($2::uuid IS NULL OR a.site_id = $2) ORDER BY f.reorder_at NULLS LAST, f.empty_at NULLS LAST`,
+    [scope.organisationId, filter.siteId ?? null],
   );
   const now = new Date();
   return rows.map((r) => serialiseForecast(r, now));

@@ -1,6 +1,7 @@
 // Reading what the worker derived: a channel's measurements, an asset's rollup series, a channel's
 // health flags. Every function is scoped to an organisation; an id of another one is "not found".
 
+import { siteScope, type Scope } from "../db/site-scope";
 import { AppError, notFound } from "../errors";
 import { median } from "../signal/robust-stats";
 import { parseChannelState } from "../worker/compute/channel-state";
@@ -25,11 +26,11 @@ interface ChannelRow {
 }
 
 /** The channel, if it belongs to a device of the organisation. */
-export async function findChannel(organisationId: string, channelId: string): Promise<ChannelRow> {
+export async function findChannel(scope: Scope, channelId: string): Promise<ChannelRow> {
   const [row] = await sqlRows<ChannelRow>(
     `SELECT c.id, c.device_id, c.index, c.asset_id, d.expected_interval_s FROM channels c JOIN devices d ON d.id = c.device_id
-     WHERE c.id = $1 AND d.organisation_id = $2`,
-    [channelId, organisationId],
+     WHERE c.id = $1 AND d.organisation_id = $2 AND ${siteScope(scope, "d.site_id")}`,
+    [channelId, scope.organisationId],
   );
   if (!row) throw notFound("That channel");
   return row;
@@ -79,8 +80,8 @@ export type MeasurementJson = ReturnType<typeof serialiseMeasurement>;
 const MEASUREMENTS_DEFAULT_DAYS = 30;
 
 /** GET /api/channels/{id}/measurements: newest first by default, at most `limit`, within [from, to]. */
-export async function listChannelMeasurements(organisationId: string, channelId: string, query: MeasurementsQuery) {
-  await findChannel(organisationId, channelId);
+export async function listChannelMeasurements(scope: Scope, channelId: string, query: MeasurementsQuery) {
+  await findChannel(scope, channelId);
   const { from, to } = resolvePeriod(query, MEASUREMENTS_DEFAULT_DAYS);
   const rows = await sqlRows<MeasurementRow>(
     `SELECT reading_id, at, status, status_detail, tof_us, air_temp_c, temp_source, speed_of_sound_ms, raw_distance_m, distance_m,
@@ -118,8 +119,8 @@ interface RollupRow {
 const SERIES_DEFAULT_DAYS = { "5m": 1, "1h": 7 } as const;
 
 /** GET /api/assets/{id}/series: one point per bucket with count, mean, min and max (valid measurements only). */
-export async function assetSeries(organisationId: string, assetId: string, query: SeriesQuery) {
-  await findAsset(organisationId, assetId);
+export async function assetSeries(scope: Scope, assetId: string, query: SeriesQuery) {
+  await findAsset(scope, assetId);
   const { from, to } = resolvePeriod(query, SERIES_DEFAULT_DAYS[query.bucket]);
   if (to.getTime() - from.getTime() > SERIES_MAX_DAYS[query.bucket] * 86_400_000) {
     throw new AppError("invalid", `The period is at most ${SERIES_MAX_DAYS[query.bucket]} days for ${query.bucket} buckets.`, { fields: { to: "Shorten the period." } });
@@ -189,8 +190,8 @@ interface FlagRow {
 }
 
 /** GET /api/channels/{id}/health: open flags, flags cleared within `days`, and what the worker knows of the channel. */
-export async function channelHealth(organisationId: string, channelId: string, query: HealthQuery) {
-  const channel = await findChannel(organisationId, channelId);
+export async function channelHealth(scope: Scope, channelId: string, query: HealthQuery) {
+  const channel = await findChannel(scope, channelId);
   const flags = await sqlRows<FlagRow>(
     `SELECT id, flag, since, cleared_at, magnitude, details, updated_at FROM health_flags
      WHERE channel_id = $1 AND (cleared_at IS NULL OR cleared_at >= now() - make_interval(days => $2))

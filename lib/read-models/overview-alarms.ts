@@ -1,3 +1,4 @@
+import { personLabel, siteScope, textFor, type Scope } from "../db/site-scope";
 import { alarmKindLabel, isAlarmKind } from "../alarms/engine";
 import { listAlarms, type AlarmJson } from "../services/alarms";
 import { sqlRows } from "../db/sql";
@@ -17,10 +18,11 @@ export interface PriorityCounts {
 }
 
 /** Alarms needing attention per site, by priority. */
-export async function activeAlarmsBySite(organisationId: string, siteId?: string): Promise<Map<string, PriorityCounts>> {
+export async function activeAlarmsBySite(scope: Scope, siteId?: string): Promise<Map<string, PriorityCounts>> {
+  const { organisationId } = scope;
   const rows = await sqlRows<{ site_id: string; priority: keyof PriorityCounts; n: string }>(
     `SELECT site_id, priority, count(*) AS n FROM alarms
-     WHERE organisation_id = :organisationId AND state IN (:states) ${siteId ? "AND site_id = :siteId" : ""}
+     WHERE organisation_id = :organisationId AND ${siteScope(scope, "site_id")} AND state IN (:states) ${siteId ? "AND site_id = :siteId" : ""}
      GROUP BY site_id, priority`,
     { organisationId, siteId, states: ATTENTION_STATES },
   );
@@ -34,8 +36,8 @@ export async function activeAlarmsBySite(organisationId: string, siteId?: string
 }
 
 /** Alarms needing attention, most urgent first, of one site or one asset (through the alarms list). */
-export async function listAttentionAlarms(organisationId: string, filter: { siteId?: string; assetId?: string }, limit = 100): Promise<AlarmJson[]> {
-  const page = await listAlarms(organisationId, {
+export async function listAttentionAlarms(scope: Scope, filter: { siteId?: string; assetId?: string }, limit = 100): Promise<AlarmJson[]> {
+  const page = await listAlarms(scope, {
     state: [...ATTENTION_STATES],
     site_id: filter.siteId,
     asset_id: filter.assetId,
@@ -59,21 +61,23 @@ interface AlarmEventRow {
   setpoint: number | null;
   priority: string | null;
   actor_label: string | null;
+  actor_name: string | null;
   comment: string | null;
 }
 
 /** An asset's alarm events, newest first: every change of state of its level and health alarms. */
-export async function listAssetAlarmHistory(organisationId: string, assetId: string, limit = 50) {
+export async function listAssetAlarmHistory(scope: Scope, assetId: string, limit = 50) {
+  const { organisationId } = scope;
   const rows = await sqlRows<AlarmEventRow>(
     `SELECT e.id, e.alarm_id, al.kind AS alarm_kind, e.at, e.kind, e.from_state, e.to_state, e.cause, e.value, e.setpoint,
-            COALESCE(e.priority, al.priority) AS priority, e.actor_label, e.comment
-     FROM alarm_events e JOIN alarms al ON al.id = e.alarm_id
-     WHERE al.organisation_id = :organisationId AND al.asset_id = :assetId
+            COALESCE(e.priority, al.priority) AS priority, e.actor_label, u.name AS actor_name, e.comment
+     FROM alarm_events e JOIN alarms al ON al.id = e.alarm_id LEFT JOIN users u ON u.id = e.user_id
+     WHERE al.organisation_id = :organisationId AND ${siteScope(scope, "al.site_id")} AND al.asset_id = :assetId
      ORDER BY e.at DESC, e.id DESC
      LIMIT :limit`,
     { organisationId, assetId, limit },
   );
-  return rows.map((r) => ({ ...r, id: Number(r.id), at: new Date(r.at).toISOString(), alarm_label: isAlarmKind(r.alarm_kind) ? alarmKindLabel(r.alarm_kind) : r.alarm_kind }));
+  return rows.map(({ actor_name, ...r }) => ({ ...r, actor_label: personLabel(scope, r.actor_label, actor_name), cause: textFor(scope, r.cause), id: Number(r.id), at: new Date(r.at).toISOString(), alarm_label: isAlarmKind(r.alarm_kind) ? alarmKindLabel(r.alarm_kind) : r.alarm_kind }));
 }
 
 export interface SetpointJson {
@@ -84,13 +88,14 @@ export interface SetpointJson {
 }
 
 /** Setpoints (metres of level) by asset id, of one asset or of every tank at a site. */
-export async function setpointsByAsset(organisationId: string, of: { siteId?: string; assetId?: string }): Promise<Map<string, SetpointJson[]>> {
+export async function setpointsByAsset(scope: Scope, of: { siteId?: string; assetId?: string }): Promise<Map<string, SetpointJson[]>> {
+  const { organisationId } = scope;
   const out = new Map<string, SetpointJson[]>();
   if (!of.siteId && !of.assetId) return out;
   const rows = await sqlRows<SetpointJson & { asset_id: string }>(
     `SELECT sp.asset_id, sp.key, sp.value_m, sp.priority, sp.enabled
      FROM alarm_setpoints sp JOIN assets a ON a.id = sp.asset_id
-     WHERE a.organisation_id = :organisationId AND a.kind = 'tank' ${of.siteId ? "AND a.site_id = :siteId" : ""} ${of.assetId ? "AND a.id = :assetId" : ""}
+     WHERE a.organisation_id = :organisationId AND ${siteScope(scope, "a.site_id")} AND a.kind = 'tank' ${of.siteId ? "AND a.site_id = :siteId" : ""} ${of.assetId ? "AND a.id = :assetId" : ""}
      ORDER BY sp.value_m DESC`,
     { organisationId, ...of },
   );

@@ -1,3 +1,4 @@
+import { personLabel, type Scope } from "../db/site-scope";
 import { findAsset, serialiseAsset } from "../services/assets";
 import { findSite } from "../services/sites";
 import { listAssetStates } from "./overview";
@@ -50,6 +51,7 @@ interface CalibrationRow {
   at: Date;
   channel_id: string;
   by_label: string;
+  by_name: string | null;
   before_offset_m: number;
   before_scale: number;
   after_offset_m: number;
@@ -62,9 +64,10 @@ interface CalibrationRow {
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 
 /** Everything the asset screen shows beside its series, for the period [from, to]. */
-export async function assetOverview(organisationId: string, assetId: string, period: { from: Date; to: Date }, now = new Date()) {
-  const asset = await findAsset(organisationId, assetId);
-  const site = await findSite(organisationId, asset.site_id);
+export async function assetOverview(scope: Scope, assetId: string, period: { from: Date; to: Date }, now = new Date()) {
+  const { organisationId } = scope;
+  const asset = await findAsset(scope, assetId);
+  const site = await findSite(scope, asset.site_id);
   const channels = await sqlRows<ChannelRow>(
     `SELECT c.id, c.index, c.device_id, d.name AS device_name, d.serial AS device_serial, d.profile AS device_profile, d.expected_interval_s,
             c.min_range_m, c.max_range_m, c.face_offset_m, c.calibration_offset_m, c.calibration_scale,
@@ -76,8 +79,8 @@ export async function assetOverview(organisationId: string, assetId: string, per
   );
   const channelIds = channels.map((c) => c.id);
   const [[state], setpoints, flags, alarms, history, dips, calibrations] = await Promise.all([
-    listAssetStates(organisationId, { assetId }),
-    setpointsByAsset(organisationId, { assetId }),
+    listAssetStates(scope, { assetId }),
+    setpointsByAsset(scope, { assetId }),
     channelIds.length
       ? sqlRows<FlagRow>(
           `SELECT id, channel_id, flag, since, cleared_at, magnitude, details FROM health_flags
@@ -86,8 +89,8 @@ export async function assetOverview(organisationId: string, assetId: string, per
           { channelIds, ...period },
         )
       : Promise.resolve([] as FlagRow[]),
-    listAttentionAlarms(organisationId, { assetId }),
-    listAssetAlarmHistory(organisationId, assetId),
+    listAttentionAlarms(scope, { assetId }),
+    listAssetAlarmHistory(scope, assetId),
     sqlRows<DipRow>(
       `SELECT dp.id, dp.at, dp.level_m, dp.note, u.name AS by_name, dp.measured_level_m, dp.residual_m
        FROM manual_dips dp LEFT JOIN users u ON u.id = dp.by_user_id
@@ -95,10 +98,11 @@ export async function assetOverview(organisationId: string, assetId: string, per
       { assetId, ...period },
     ),
     sqlRows<CalibrationRow>(
-      `SELECT id, at, channel_id, by_label, before_offset_m, before_scale, after_offset_m, after_scale, fit_mode, rms_after_m, note
-       FROM calibration_changes
-       WHERE organisation_id = :organisationId AND asset_id = :assetId AND at BETWEEN :from AND :to
-       ORDER BY at`,
+      `SELECT cc.id, cc.at, cc.channel_id, cc.by_label, u.name AS by_name, cc.before_offset_m, cc.before_scale, cc.after_offset_m, cc.after_scale,
+              cc.fit_mode, cc.rms_after_m, cc.note
+       FROM calibration_changes cc LEFT JOIN users u ON u.id = cc.by_user_id
+       WHERE cc.organisation_id = :organisationId AND cc.asset_id = :assetId AND cc.at BETWEEN :from AND :to
+       ORDER BY cc.at`,
       { organisationId, assetId, ...period },
     ),
   ]);
@@ -112,7 +116,7 @@ export async function assetOverview(organisationId: string, assetId: string, per
     alarms,
     alarm_history: history,
     dips: dips.map((d) => ({ ...d, at: iso(d.at) as string })),
-    calibrations: calibrations.map((c) => ({ ...c, at: iso(c.at) as string })),
+    calibrations: calibrations.map(({ by_name, ...c }) => ({ ...c, by_label: personLabel(scope, c.by_label, by_name) ?? "", at: iso(c.at) as string })),
     period: { from: period.from.toISOString(), to: period.to.toISOString() },
   };
 }

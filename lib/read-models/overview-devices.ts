@@ -1,3 +1,4 @@
+import { siteScope, type Scope } from "../db/site-scope";
 import type { DeviceHealthQuery, DeviceHealthSort } from "../validations/overview";
 import { sqlRows } from "../db/sql";
 
@@ -48,8 +49,9 @@ interface ChannelRow {
 }
 
 /** One page of the organisation's devices with their health, and the total that match the filters. */
-export async function listDeviceHealth(organisationId: string, q: DeviceHealthQuery, now = new Date()) {
-  const filters: string[] = [];
+export async function listDeviceHealth(scope: Scope, q: DeviceHealthQuery, now = new Date()) {
+  const { organisationId } = scope;
+  const filters: string[] = [siteScope(scope, "d.site_id")];
   if (q.site_id) filters.push("d.site_id = :siteId");
   if (q.q) filters.push("(d.name ILIKE :like OR d.serial ILIKE :like)");
   if (q.flag) filters.push("EXISTS (SELECT 1 FROM health_flags h JOIN channels c ON c.id = h.channel_id WHERE c.device_id = d.id AND h.cleared_at IS NULL AND h.flag = :flag)");
@@ -92,7 +94,7 @@ export async function listDeviceHealth(organisationId: string, q: DeviceHealthQu
         { ids },
       )
     : [];
-  const total = rows.length ? Number(rows[0].total) : await countWhenPastTheEnd(organisationId, q, now);
+  const total = rows.length ? Number(rows[0].total) : await countWhenPastTheEnd(scope, q, now);
   return {
     total,
     page: q.page,
@@ -132,8 +134,8 @@ export type DeviceHealthPage = Awaited<ReturnType<typeof listDeviceHealth>>;
 export type DeviceHealthRow = DeviceHealthPage["items"][number];
 
 /** A page beyond the last has no rows to carry the window count; count the matches on their own. */
-async function countWhenPastTheEnd(organisationId: string, q: DeviceHealthQuery, now: Date): Promise<number> {
+async function countWhenPastTheEnd(scope: Scope, q: DeviceHealthQuery, now: Date): Promise<number> {
   if (q.page === 1) return 0;
-  const first = await listDeviceHealth(organisationId, { ...q, page: 1, page_size: 1 }, now);
+  const first = await listDeviceHealth(scope, { ...q, page: 1, page_size: 1 }, now);
   return first.total;
 }

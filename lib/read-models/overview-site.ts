@@ -1,3 +1,4 @@
+import { type Scope } from "../db/site-scope";
 import { findSite } from "../services/sites";
 import { deviceCountsBySite, listAssetStates, type AssetStateJson } from "./overview";
 import { listAttentionAlarms, setpointsByAsset, type SetpointJson } from "./overview-alarms";
@@ -58,16 +59,17 @@ function withDay(asset: AssetStateJson, day: DayTrend | undefined, setpoints: Se
 }
 
 /** Everything the site screen shows, for one site of the organisation (404 for another's). */
-export async function siteOverview(organisationId: string, siteId: string, now = new Date()) {
+export async function siteOverview(scope: Scope, siteId: string, now = new Date()) {
+  const { organisationId } = scope;
   const since = new Date(Math.floor((now.getTime() - 24 * HOUR_S * 1000) / (HOUR_S * 1000)) * HOUR_S * 1000);
   // Every query is scoped to the organisation, so they all run at once; another's site is still a 404.
   const [site, assets, trends, alarms, devices, setpoints] = await Promise.all([
-    findSite(organisationId, siteId),
-    listAssetStates(organisationId, { siteId }),
+    findSite(scope, siteId),
+    listAssetStates(scope, { siteId }),
     dayTrends(organisationId, siteId, since),
-    listAttentionAlarms(organisationId, { siteId }),
-    deviceCountsBySite(organisationId, now, siteId),
-    setpointsByAsset(organisationId, { siteId }),
+    listAttentionAlarms(scope, { siteId }),
+    deviceCountsBySite(scope, now, siteId),
+    setpointsByAsset(scope, { siteId }),
   ]);
   const detailed = assets.map((a) => withDay(a, trends.get(a.id), setpoints.get(a.id) ?? []));
   return {

@@ -1,3 +1,4 @@
+import { siteScope, type Scope } from "../db/site-scope";
 import { tankHeight, type TankGeometry } from "../geometry/tank-volume";
 import { detectOffline } from "../health/flags";
 import type { AssetKind } from "../db/models";
@@ -57,22 +58,21 @@ interface AssetStateRow {
 // session. Only when that measurement is not valid is the channel's history searched for the latest
 // valid one. Conditions on the outer row become one-time filters that skip a probe when not needed.
 // A channel measures an asset of its device's site (lib/services/devices.ts), so a site narrows both.
-function channelCte(narrow = "") {
+function channelCte(scope: Scope, narrow = "") {
   return `ch AS (
     SELECT DISTINCT ON (c.asset_id) c.asset_id, c.id, c.device_id, d.name AS device_name, d.expected_interval_s,
            COALESCE(cs.last_at, d.last_seen_at) AS last_seen_at, cs.last_at, cs.last_reading_id
     FROM channels c JOIN devices d ON d.id = c.device_id LEFT JOIN channel_state cs ON cs.channel_id = c.id
-    WHERE d.organisation_id = :organisationId AND c.asset_id IS NOT NULL ${narrow}
+    WHERE d.organisation_id = :organisationId AND ${siteScope(scope, "d.site_id")} AND c.asset_id IS NOT NULL ${narrow}
     ORDER BY c.asset_id, cs.last_at DESC NULLS LAST, c.id
   )`;
 }
-const CHANNEL_CTE = channelCte();
 
-function flagsCte(narrow = "") {
+function flagsCte(scope: Scope, narrow = "") {
   return `fl AS (
     SELECT c.asset_id, json_agg(json_build_object('channel_id', h.channel_id, 'flag', h.flag, 'since', h.since, 'magnitude', h.magnitude) ORDER BY h.since) AS flags
     FROM health_flags h JOIN channels c ON c.id = h.channel_id JOIN devices d ON d.id = c.device_id
-    WHERE h.cleared_at IS NULL AND d.organisation_id = :organisationId AND c.asset_id IS NOT NULL ${narrow}
+    WHERE h.cleared_at IS NULL AND d.organisation_id = :organisationId AND ${siteScope(scope, "d.site_id")} AND c.asset_id IS NOT NULL ${narrow}
     GROUP BY c.asset_id
   )`;
 }
@@ -103,11 +103,11 @@ const SESSION_JOIN = `
     SELECT s.started_at, s.ended_at FROM occupancy_sessions s WHERE s.asset_id = a.id AND a.kind = 'bay' ORDER BY s.started_at DESC LIMIT 1
   ) os ON true`;
 
-function assetStateSql(filter: { siteId?: string; assetId?: string }) {
+function assetStateSql(scope: Scope, filter: { siteId?: string; assetId?: string }) {
   const narrow = [filter.siteId ? "AND d.site_id = :siteId" : "", filter.assetId ? "AND c.asset_id = :assetId" : ""].join(" ");
   const where = [filter.siteId ? "AND a.site_id = :siteId" : "", filter.assetId ? "AND a.id = :assetId" : ""].join(" ");
   return `
-  WITH ${channelCte(narrow)}, ${flagsCte(narrow)}
+  WITH ${channelCte(scope, narrow)}, ${flagsCte(scope, narrow)}
   SELECT a.id, a.site_id, a.kind, a.name, a.capacity_l, a.safe_fill_pct, a.reorder_pct, a.mount_height_m, a.geometry,
          a.floor_distance_m, a.occupied_below_m, a.bay_row, a.bay_col, a.bay_level,
          ch.id AS channel_id, ch.device_id, ch.device_name, ch.expected_interval_s, ch.last_seen_at,
@@ -121,7 +121,7 @@ function assetStateSql(filter: { siteId?: string; assetId?: string }) {
   ${SESSION_JOIN}
   LEFT JOIN tank_forecasts f ON f.asset_id = a.id AND a.kind = 'tank'
   LEFT JOIN fl ON fl.asset_id = a.id
-  WHERE a.organisation_id = :organisationId ${where}
+  WHERE a.organisation_id = :organisationId AND ${siteScope(scope, "a.site_id")} ${where}
   ORDER BY a.name, a.id`;
 }
 
@@ -174,8 +174,8 @@ export function serialiseAssetState(r: AssetStateRow) {
 export type AssetStateJson = ReturnType<typeof serialiseAssetState>;
 
 /** Live state of the organisation's assets, optionally of one site or one asset, by name. */
-export async function listAssetStates(organisationId: string, filter: { siteId?: string; assetId?: string } = {}): Promise<AssetStateJson[]> {
-  const rows = await sqlRows<AssetStateRow>(assetStateSql(filter), { organisationId, ...filter });
+export async function listAssetStates(scope: Scope, filter: { siteId?: string; assetId?: string } = {}): Promise<AssetStateJson[]> {
+  const rows = await sqlRows<AssetStateRow>(assetStateSql(scope, filter), { organisationId: scope.organisationId, ...filter });
   return rows.map(serialiseAssetState);
 }
 
@@ -187,9 +187,10 @@ interface DeviceSeenRow {
 }
 
 /** Devices and how many are offline (no reading for 3 expected intervals, lib/health/flags) per site. */
-export async function deviceCountsBySite(organisationId: string, now = new Date(), siteId?: string): Promise<Map<string, { total: number; offline: number }>> {
+export async function deviceCountsBySite(scope: Scope, now = new Date(), siteId?: string): Promise<Map<string, { total: number; offline: number }>> {
+  const { organisationId } = scope;
   const rows = await sqlRows<DeviceSeenRow>(
-    `SELECT id, site_id, last_seen_at, expected_interval_s FROM devices WHERE organisation_id = :organisationId ${siteId ? "AND site_id = :siteId" : ""}`,
+    `SELECT id, site_id, last_seen_at, expected_interval_s FROM devices WHERE organisation_id = :organisationId AND ${siteScope(scope, "site_id")} ${siteId ? "AND site_id = :siteId" : ""}`,
     { organisationId, siteId },
   );
   const counts = new Map<string, { total: number; offline: number }>();
@@ -224,12 +225,12 @@ interface FleetTankRow {
 }
 
 // Tanks by site: all of them where a site has at most TANKS_AT_A_GLANCE (by name), else the emptiest.
-const FLEET_TANKS_SQL = `
-  WITH ${CHANNEL_CTE},
+const fleetTanksSql = (scope: Scope) => `
+  WITH ${channelCte(scope)},
   tf AS (
     SELECT hc.asset_id, array_agg(DISTINCT h.flag ORDER BY h.flag) AS flags
     FROM health_flags h JOIN channels hc ON hc.id = h.channel_id JOIN devices hd ON hd.id = hc.device_id
-    WHERE h.cleared_at IS NULL AND hd.organisation_id = :organisationId AND hc.asset_id IS NOT NULL
+    WHERE h.cleared_at IS NULL AND hd.organisation_id = :organisationId AND ${siteScope(scope, "hd.site_id")} AND hc.asset_id IS NOT NULL
     GROUP BY hc.asset_id
   ),
   t AS (
@@ -239,7 +240,7 @@ const FLEET_TANKS_SQL = `
     ${latestJoins()}
     LEFT JOIN tank_forecasts f ON f.asset_id = a.id
     LEFT JOIN tf ON tf.asset_id = a.id
-    WHERE a.organisation_id = :organisationId AND a.kind = 'tank'
+    WHERE a.organisation_id = :organisationId AND ${siteScope(scope, "a.site_id")} AND a.kind = 'tank'
   ), ranked AS (
     SELECT t.*, count(*) OVER (PARTITION BY site_id) AS site_tanks,
            row_number() OVER (PARTITION BY site_id ORDER BY fill_pct ASC NULLS FIRST, name, id) AS fill_rank
@@ -250,11 +251,11 @@ const FLEET_TANKS_SQL = `
 
 // Bays occupied, free and with a sensor fault, and points with a fault, per site. A bay's state is its
 // latest session's; before its first session, its latest valid measurement's (as listAssetStates).
-const FLEET_COUNTS_SQL = `
-  WITH ${CHANNEL_CTE},
+const fleetCountsSql = (scope: Scope) => `
+  WITH ${channelCte(scope)},
   flagged AS (
     SELECT DISTINCT hc.asset_id FROM health_flags h JOIN channels hc ON hc.id = h.channel_id JOIN devices hd ON hd.id = hc.device_id
-    WHERE h.cleared_at IS NULL AND hd.organisation_id = :organisationId
+    WHERE h.cleared_at IS NULL AND hd.organisation_id = :organisationId AND ${siteScope(scope, "hd.site_id")}
   )
   SELECT a.site_id, a.kind, count(*) AS total,
          count(*) FILTER (WHERE fg.asset_id IS NOT NULL) AS faulty,
@@ -266,7 +267,7 @@ const FLEET_COUNTS_SQL = `
   ${SESSION_JOIN}
   ${latestJoins("a.kind = 'bay' AND os.started_at IS NULL")}
   CROSS JOIN LATERAL (SELECT CASE WHEN os.started_at IS NOT NULL THEN os.ended_at IS NULL ELSE COALESCE(lx.occupied, lf.occupied) END AS occupied) occ
-  WHERE a.organisation_id = :organisationId AND a.kind IN ('bay', 'point')
+  WHERE a.organisation_id = :organisationId AND ${siteScope(scope, "a.site_id")} AND a.kind IN ('bay', 'point')
   GROUP BY a.site_id, a.kind`;
 
 interface FleetCountRow {
@@ -285,13 +286,17 @@ const NO_ALARMS: PriorityCounts = { critical: 0, high: 0, medium: 0, low: 0 };
  * where there are more), its bays occupied and free, its alarms needing attention by priority and its
  * devices offline. Counted and ranked in the database, so the answer stays small for a large fleet.
  */
-export async function fleetOverview(organisationId: string, now = new Date()) {
+export async function fleetOverview(scope: Scope, now = new Date()) {
+  const { organisationId } = scope;
   const [sites, tanks, counts, devices, alarms] = await Promise.all([
-    sqlRows<{ id: string; name: string; time_zone: string }>(`SELECT id, name, time_zone FROM sites WHERE organisation_id = :organisationId ORDER BY name, id`, { organisationId }),
-    sqlRows<FleetTankRow>(FLEET_TANKS_SQL, { organisationId, glance: TANKS_AT_A_GLANCE }),
-    sqlRows<FleetCountRow>(FLEET_COUNTS_SQL, { organisationId }),
-    deviceCountsBySite(organisationId, now),
-    activeAlarmsBySite(organisationId),
+    sqlRows<{ id: string; name: string; time_zone: string }>(
+      `SELECT id, name, time_zone FROM sites WHERE organisation_id = :organisationId AND ${siteScope(scope, "id")} ORDER BY name, id`,
+      { organisationId },
+    ),
+    sqlRows<FleetTankRow>(fleetTanksSql(scope), { organisationId, glance: TANKS_AT_A_GLANCE }),
+    sqlRows<FleetCountRow>(fleetCountsSql(scope), { organisationId }),
+    deviceCountsBySite(scope, now),
+    activeAlarmsBySite(scope),
   ]);
   const tanksBySite = new Map<string, FleetTankRow[]>();
   for (const t of tanks) tanksBySite.set(t.site_id, [...(tanksBySite.get(t.site_id) ?? []), t]);

@@ -2,6 +2,7 @@
 // volume a delivery must bring to reach the tank's safe fill. Built on the live asset state (latest
 // valid measurement) that the overview screens use and the worker's stored forecasts.
 
+import { type Scope } from "../db/site-scope";
 import { listTankForecasts, type ForecastJson } from "./forecasts";
 import { listAssetStates, type AssetStateJson } from "./overview";
 import { listSites } from "../services/sites";
@@ -73,11 +74,11 @@ export function buildRefillPlan(
   return rows.sort((a, b) => a.due_at.localeCompare(b.due_at) || a.site_name.localeCompare(b.site_name) || a.asset_name.localeCompare(b.asset_name));
 }
 
-export async function refillPlan(organisationId: string, options: { horizonDays: number; siteId?: string }, now = new Date()) {
+export async function refillPlan(scope: Scope, options: { horizonDays: number; siteId?: string }, now = new Date()) {
   const [states, forecasts, sites] = await Promise.all([
-    listAssetStates(organisationId, { siteId: options.siteId }),
-    listTankForecasts(organisationId, { siteId: options.siteId }),
-    listSites(organisationId),
+    listAssetStates(scope, { siteId: options.siteId }),
+    listTankForecasts(scope, { siteId: options.siteId }),
+    listSites(scope),
   ]);
   const names = new Map(sites.map((s) => [s.id, s.name]));
   const byAsset = new Map(forecasts.map((f) => [f.asset_id, f]));

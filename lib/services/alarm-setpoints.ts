@@ -3,6 +3,7 @@
 // Saving replaces the whole set; an alarm whose setpoint goes away or is disabled clears at once,
 // with an event, so nothing is left active that nothing evaluates any more.
 
+import { wholeOrganisation, type Scope } from "../db/site-scope";
 import type { Transaction } from "sequelize";
 import { getSequelize } from "../db/sequelize";
 import { writeAudit, type Actor } from "./audit";
@@ -35,8 +36,8 @@ interface SettingsRow {
   roc_enabled: boolean;
 }
 
-async function tankOf(organisationId: string, assetId: string): Promise<{ id: string; name: string; geometry: TankGeometry }> {
-  const asset = await findAsset(organisationId, assetId);
+async function tankOf(scope: Scope, assetId: string): Promise<{ id: string; name: string; geometry: TankGeometry }> {
+  const asset = await findAsset(scope, assetId);
   if (asset.kind !== "tank" || !asset.geometry) {
     throw new AppError("invalid", "Level setpoints belong to tanks; this asset is not a tank with a geometry.", { code: "not_a_tank" });
   }
@@ -95,8 +96,8 @@ async function load(assetId: string, transaction?: Transaction) {
   return { setpoints, settings: settings ?? null };
 }
 
-export async function getSetpoints(organisationId: string, assetId: string): Promise<SetpointsJson> {
-  const tank = await tankOf(organisationId, assetId);
+export async function getSetpoints(scope: Scope, assetId: string): Promise<SetpointsJson> {
+  const tank = await tankOf(scope, assetId);
   const { setpoints, settings } = await load(assetId);
   return describe(tank, setpoints, settings);
 }
@@ -116,7 +117,7 @@ function applyAll(record: AlarmRecord, inputs: readonly { input: AlarmInput; cau
 
 /** Replaces the tank's setpoints and rate-of-change limit; answers 422 with a message per field. */
 export async function putSetpoints(actor: Actor, assetId: string, input: PutSetpointsInput, now = new Date()): Promise<SetpointsJson> {
-  const tank = await tankOf(actor.organisationId, assetId);
+  const tank = await tankOf(wholeOrganisation(actor.organisationId), assetId);
   const issues = setpointIssues(input, tank.geometry);
   if (issues.length) {
     throw new AppError("invalid", issues.map((i) => `${i.path}: ${i.message}`).join("; "), { fields: Object.fromEntries(issues.map((i) => [i.path, i.message])) });

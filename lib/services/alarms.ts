@@ -12,6 +12,7 @@ import { httpStatusForAlarmError, isAwaitingReset, type AlarmInput } from "../al
 import type { AlarmListQuery, AlarmSort } from "../validations/alarm";
 import { type AlarmDbRow, type AlarmRowExtras, insertAlarmEvents, saveAlarm, toRecord } from "./alarm-store";
 import { sqlRows } from "../db/sql";
+import { detailsFor, personLabel, siteScope, textFor, wholeOrganisation, type Scope } from "../db/site-scope";
 
 interface AlarmViewRow extends AlarmDbRow {
   site_name: string;
@@ -85,9 +86,9 @@ const SORTS: Record<AlarmSort, string> = {
 };
 
 /** One page of the organisation's alarms with the total that match. */
-export async function listAlarms(organisationId: string, q: AlarmListQuery) {
-  const where = ["al.organisation_id = :organisationId"];
-  const replacements: Record<string, unknown> = { organisationId };
+export async function listAlarms(scope: Scope, q: AlarmListQuery) {
+  const where = ["al.organisation_id = :organisationId", siteScope(scope, "al.site_id")];
+  const replacements: Record<string, unknown> = { organisationId: scope.organisationId };
   if (q.state?.length) {
     const states = q.state.filter((s) => s !== "active");
     const clauses = [];
@@ -132,17 +133,28 @@ export async function listAlarms(organisationId: string, q: AlarmListQuery) {
     limit: q.page_size,
     offset: (q.page - 1) * q.page_size,
   });
-  return { total: Number(count.n), page: q.page, page_size: q.page_size, sort: q.sort, items: items.map(serialiseAlarm) };
+  return { total: Number(count.n), page: q.page, page_size: q.page_size, sort: q.sort, items: items.map((r) => serialiseAlarmFor(scope, r)) };
 }
 
-async function findAlarmRow(organisationId: string, id: string, transaction?: Transaction): Promise<AlarmViewRow> {
-  const [row] = await sqlRows<AlarmViewRow>(`${VIEW_SELECT} WHERE al.id = :id AND al.organisation_id = :organisationId ${transaction ? "FOR UPDATE OF al" : ""}`, { id, organisationId }, { transaction });
+async function findAlarmRow(scope: Scope, id: string, transaction?: Transaction): Promise<AlarmViewRow> {
+  const [row] = await sqlRows<AlarmViewRow>(
+    `${VIEW_SELECT} WHERE al.id = :id AND al.organisation_id = :organisationId AND ${siteScope(scope, "al.site_id")} ${transaction ? "FOR UPDATE OF al" : ""}`,
+    { id, organisationId: scope.organisationId },
+    { transaction },
+  );
   if (!row) throw notFound("That alarm");
   return row;
 }
 
-export async function findAlarm(organisationId: string, id: string): Promise<AlarmJson> {
-  return serialiseAlarm(await findAlarmRow(organisationId, id));
+/** The alarm as this reader may see it: who acknowledged it by name only for a viewer. */
+function serialiseAlarmFor(scope: Scope, r: AlarmViewRow): AlarmJson {
+  const alarm = serialiseAlarm(r);
+  if (scope.staffEmails || !alarm.acknowledged_by) return alarm;
+  return { ...alarm, acknowledged_by: { ...alarm.acknowledged_by, email: null } };
+}
+
+export async function findAlarm(scope: Scope, id: string): Promise<AlarmJson> {
+  return serialiseAlarmFor(scope, await findAlarmRow(scope, id));
 }
 
 interface EventRow {
@@ -158,6 +170,7 @@ interface EventRow {
   episode: number | null;
   user_id: string | null;
   actor_label: string | null;
+  actor_name: string | null;
   comment: string | null;
   details: Record<string, unknown>;
 }
@@ -165,7 +178,7 @@ interface EventRow {
 interface NotificationRow {
   id: string;
   episode: number;
-  email: string;
+  email: string | null;
   recipient_name: string;
   position: number;
   reason: string;
@@ -181,12 +194,13 @@ interface NotificationRow {
 }
 
 /** One alarm with its events (newest first) and the notifications about it with their delivery state. */
-export async function findAlarmWithHistory(organisationId: string, id: string, eventLimit = 200) {
-  const alarm = await findAlarm(organisationId, id);
+export async function findAlarmWithHistory(scope: Scope, id: string, eventLimit = 200) {
+  const alarm = await findAlarm(scope, id);
   const [events, notifications] = await Promise.all([
     sqlRows<EventRow>(
-      `SELECT id, at, kind, from_state, to_state, cause, value, setpoint, priority, episode, user_id, actor_label, comment, details
-       FROM alarm_events WHERE alarm_id = :id ORDER BY at DESC, id DESC LIMIT :limit`,
+      `SELECT e.id, e.at, e.kind, e.from_state, e.to_state, e.cause, e.value, e.setpoint, e.priority, e.episode, e.user_id, e.actor_label,
+              u.name AS actor_name, e.comment, e.details
+       FROM alarm_events e LEFT JOIN users u ON u.id = e.user_id WHERE e.alarm_id = :id ORDER BY e.at DESC, e.id DESC LIMIT :limit`,
       { id, limit: eventLimit },
     ),
     sqlRows<NotificationRow>(
@@ -198,9 +212,11 @@ export async function findAlarmWithHistory(organisationId: string, id: string, e
   ]);
   return {
     ...alarm,
-    events: events.map((e) => ({ ...e, id: Number(e.id), at: new Date(e.at).toISOString() })),
+    events: events.map(({ actor_name, ...e }) => ({ ...e, actor_label: personLabel(scope, e.actor_label, actor_name), cause: textFor(scope, e.cause), details: detailsFor(scope, e.details), id: Number(e.id), at: new Date(e.at).toISOString() })),
+    // Who was e-mailed is staff business: a viewer sees that a notification went out, not to whom.
     notifications: notifications.map((n) => ({
       ...n,
+      email: scope.staffEmails ? n.email : null,
       sent_at: iso(n.sent_at),
       next_attempt_at: iso(n.next_attempt_at),
       expires_at: iso(n.expires_at),
@@ -266,7 +282,7 @@ function actionExtras(action: AlarmAction, actor: Actor, now: Date): AlarmRowExt
 }
 
 async function actInTransaction(actor: Actor, id: string, action: AlarmAction, now: Date, transaction: Transaction): Promise<AlarmJson> {
-  const row = await findAlarmRow(actor.organisationId, id, transaction);
+  const row = await findAlarmRow(wholeOrganisation(actor.organisationId), id, transaction);
   const applied = applyAlarmInput(toRecord(row), actionInput(action, now), { at: now, cause: actionCause(action) });
   if (!applied.ok) throw new AppError(httpStatusForAlarmError(applied.code) === 422 ? "invalid" : "conflict", applied.message, { code: applied.code });
   await saveAlarm(id, applied.result.record, actionExtras(action, actor, now), transaction);
@@ -287,7 +303,7 @@ async function actInTransaction(actor: Actor, id: string, action: AlarmAction, n
   if (action.type === "shelve") Object.assign(details, { until: action.until.toISOString(), reason: action.reason });
   if (action.type === "remove_from_service") details.reason = action.reason;
   await writeAudit(actor, ACTION_AUDIT[action.type], { type: "alarm", id }, details, transaction);
-  return serialiseAlarm(await findAlarmRow(actor.organisationId, id, transaction));
+  return serialiseAlarm(await findAlarmRow(wholeOrganisation(actor.organisationId), id, transaction));
 }
 
 /** Applies a person's action; a refused one is a 409 (or 422 for a bad shelve expiry) with the reducer's message. */

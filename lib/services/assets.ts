@@ -1,3 +1,4 @@
+import { siteScopeWhere, wholeOrganisation, type Scope } from "../db/site-scope";
 import { writeAudit, type Actor } from "./audit";
 import { Asset, Site } from "../db/models";
 import { getSequelize } from "../db/sequelize";
@@ -30,16 +31,16 @@ export function serialiseAsset(a: Asset) {
 }
 export type AssetJson = ReturnType<typeof serialiseAsset>;
 
-export async function listAssets(organisationId: string, filter: { site_id?: string; kind?: string } = {}) {
-  const where: Record<string, unknown> = { organisation_id: organisationId };
+export async function listAssets(scope: Scope, filter: { site_id?: string; kind?: string } = {}) {
+  const where: Record<string | symbol, unknown> = { ...siteScopeWhere(scope) };
   if (filter.site_id) where.site_id = filter.site_id;
   if (filter.kind) where.kind = filter.kind;
   const assets = await Asset.findAll({ where, order: [["name", "ASC"]] });
   return assets.map(serialiseAsset);
 }
 
-export async function findAsset(organisationId: string, id: string): Promise<Asset> {
-  const asset = await Asset.findOne({ where: { id, organisation_id: organisationId } });
+export async function findAsset(scope: Scope, id: string): Promise<Asset> {
+  const asset = await Asset.findOne({ where: { id, ...siteScopeWhere(scope) } });
   if (!asset) throw notFound("That asset");
   return asset;
 }
@@ -56,7 +57,7 @@ export async function createAsset(actor: Actor, input: AssetInput) {
 
 /** Returns the updated asset and whether its geometry or mounting changed (its measurements must be recomputed). */
 export async function updateAsset(actor: Actor, id: string, patch: AssetPatch) {
-  const asset = await findAsset(actor.organisationId, id);
+  const asset = await findAsset(wholeOrganisation(actor.organisationId), id);
   const merged = { ...serialiseAsset(asset), ...patch };
   // A stored capacity carries over only while the strapping table it was given with stays.
   if (!("capacity_l" in patch) && ("geometry" in patch || merged.geometry?.shape !== "strapping")) merged.capacity_l = null;

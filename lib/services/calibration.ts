@@ -3,6 +3,7 @@
 // apply: the channel's calibration changes, the change is kept with its residuals, the channel's
 // measurements are recomputed and the action is audited, all in one transaction.
 
+import { personLabel, siteScope, wholeOrganisation, type Scope } from "../db/site-scope";
 import type { Transaction } from "sequelize";
 import { writeAudit, type Actor } from "./audit";
 import { getSequelize } from "../db/sequelize";
@@ -61,8 +62,12 @@ function serialiseChannel(c: ChannelRow) {
 export type CalibrationChannelJson = ReturnType<typeof serialiseChannel>;
 
 /** A channel of the organisation; another organisation's, or one that does not exist, is 404. */
-export async function findCalibrationChannel(organisationId: string, channelId: string, transaction?: Transaction, lock = false): Promise<ChannelRow> {
-  const [row] = await sqlRows<ChannelRow>(`SELECT ${CHANNEL_COLUMNS} FROM ${CHANNEL_FROM} WHERE c.id = $1 AND d.organisation_id = $2${lock ? " FOR UPDATE OF c" : ""}`, [channelId, organisationId], { transaction });
+export async function findCalibrationChannel(scope: Scope, channelId: string, transaction?: Transaction, lock = false): Promise<ChannelRow> {
+  const [row] = await sqlRows<ChannelRow>(
+    `SELECT ${CHANNEL_COLUMNS} FROM ${CHANNEL_FROM} WHERE c.id = $1 AND d.organisation_id = $2 AND ${siteScope(scope, "d.site_id")}${lock ? " FOR UPDATE OF c" : ""}`,
+    [channelId, scope.organisationId],
+    { transaction },
+  );
   if (!row) throw notFound("That channel");
   return row;
 }
@@ -117,8 +122,8 @@ function residualTable(paired: PairedDip[], current: Calibration, fit: Calibrati
 }
 
 /** The channel (locked inside a transaction), its chosen dips paired with the sensor, and the fit they give. */
-async function fitChannel(organisationId: string, channelId: string, dipIds: readonly string[], transaction?: Transaction) {
-  const c = await findCalibrationChannel(organisationId, channelId, transaction, transaction !== undefined);
+async function fitChannel(scope: Scope, channelId: string, dipIds: readonly string[], transaction?: Transaction) {
+  const c = await findCalibrationChannel(scope, channelId, transaction, transaction !== undefined);
   assertCalibratable(c);
   const paired = await pairDips(c, dipIds, transaction);
   const current: Calibration = { offsetM: c.calibration_offset_m, scale: c.calibration_scale };
@@ -151,8 +156,8 @@ const DAY_MS = 86_400_000;
 const PREVIEW_MAX_DAYS = 30;
 
 /** The fit from the chosen dips, its residuals before and after, and the trend as it is and would be. */
-export async function previewCalibration(organisationId: string, channelId: string, request: CalibrationRequest) {
-  const { c, paired, current, fit, residuals } = await fitChannel(organisationId, channelId, request.dip_ids);
+export async function previewCalibration(scope: Scope, channelId: string, request: CalibrationRequest) {
+  const { c, paired, current, fit, residuals } = await fitChannel(scope, channelId, request.dip_ids);
   const times = paired.map((p) => new Date(p.dip.at).getTime());
   const to = new Date(Math.min(Date.now(), Math.max(...times)) + DAY_MS / 2);
   const from = new Date(Math.max(Math.min(...times) - DAY_MS / 2, to.getTime() - PREVIEW_MAX_DAYS * DAY_MS));
@@ -179,6 +184,7 @@ export type CalibrationPreviewJson = Awaited<ReturnType<typeof previewCalibratio
 
 interface ChangeRow {
   id: string;
+  by_name?: string | null;
   channel_id: string;
   at: Date;
   by_label: string;
@@ -215,16 +221,20 @@ export type CalibrationChangeJson = ReturnType<typeof serialiseChange>;
 const CHANGE_COLUMNS = "id, channel_id, at, by_label, before_offset_m, before_scale, after_offset_m, after_scale, fit_mode, dip_ids, residuals, rms_before_m, rms_after_m, note";
 
 /** The channel with its calibration history, newest first. */
-export async function channelCalibration(organisationId: string, channelId: string) {
-  const c = await findCalibrationChannel(organisationId, channelId);
-  const history = await sqlRows<ChangeRow>(`SELECT ${CHANGE_COLUMNS} FROM calibration_changes WHERE channel_id = $1 ORDER BY at DESC LIMIT 100`, [channelId]);
-  return { channel: serialiseChannel(c), history: history.map(serialiseChange) };
+export async function channelCalibration(scope: Scope, channelId: string) {
+  const c = await findCalibrationChannel(scope, channelId);
+  const history = await sqlRows<ChangeRow>(
+    `SELECT ${CHANGE_COLUMNS}, (SELECT u.name FROM users u WHERE u.id = cc.by_user_id) AS by_name
+       FROM calibration_changes cc WHERE cc.channel_id = $1 ORDER BY cc.at DESC LIMIT 100`,
+    [channelId],
+  );
+  return { channel: serialiseChannel(c), history: history.map((r) => serialiseChange({ ...r, by_label: personLabel(scope, r.by_label, r.by_name) ?? "" })) };
 }
 
 /** Fits again from the dips (never trusting a client's numbers), writes the calibration and its history, files the recompute. */
 export async function applyCalibration(actor: Actor, channelId: string, request: CalibrationRequest) {
   return getSequelize().transaction(async (transaction) => {
-    const { c, paired, current, fit, residuals } = await fitChannel(actor.organisationId, channelId, request.dip_ids, transaction);
+    const { c, paired, current, fit, residuals } = await fitChannel(wholeOrganisation(actor.organisationId), channelId, request.dip_ids, transaction);
     await sqlRun(`UPDATE channels SET calibration_offset_m = $2, calibration_scale = $3, updated_at = now() WHERE id = $1`, [c.id, fit.offsetM, fit.scale], { transaction });
     const [change] = await sqlRows<ChangeRow>(
       `INSERT INTO calibration_changes (organisation_id, channel_id, asset_id, by_user_id, by_label, before_offset_m, before_scale, after_offset_m, after_scale,

@@ -1,3 +1,4 @@
+import { siteScopeWhere, wholeOrganisation, type Scope } from "../db/site-scope";
 import { Op, type Transaction } from "sequelize";
 import { writeAudit, type Actor } from "./audit";
 import { Asset, Channel, Device, DeviceKey, Site } from "../db/models";
@@ -49,15 +50,15 @@ export function serialiseDevice(d: Device, channels: Channel[]) {
 }
 export type DeviceJson = ReturnType<typeof serialiseDevice>;
 
-export async function listDevices(organisationId: string, filter: { site_id?: string } = {}) {
-  const where: Record<string, unknown> = { organisation_id: organisationId };
+export async function listDevices(scope: Scope, filter: { site_id?: string } = {}) {
+  const where: Record<string | symbol, unknown> = { ...siteScopeWhere(scope) };
   if (filter.site_id) where.site_id = filter.site_id;
   const devices = await Device.findAll({ where, order: [["name", "ASC"]], include: [{ model: Channel, as: "channels" }] });
   return devices.map((d) => serialiseDevice(d, (d as unknown as { channels: Channel[] }).channels));
 }
 
-export async function findDevice(organisationId: string, id: string): Promise<{ device: Device; channels: Channel[] }> {
-  const device = await Device.findOne({ where: { id, organisation_id: organisationId } });
+export async function findDevice(scope: Scope, id: string): Promise<{ device: Device; channels: Channel[] }> {
+  const device = await Device.findOne({ where: { id, ...siteScopeWhere(scope) } });
   if (!device) throw notFound("That device");
   const channels = await Channel.findAll({ where: { device_id: id }, order: [["index", "ASC"]] });
   return { device, channels };
@@ -132,7 +133,7 @@ export async function createDevice(actor: Actor, input: DeviceInput) {
 }
 
 export async function updateDevice(actor: Actor, id: string, patch: DevicePatch) {
-  const { device } = await findDevice(actor.organisationId, id);
+  const { device } = await findDevice(wholeOrganisation(actor.organisationId), id);
   const merged = { ...device.get(), ...patch };
   const issues = profileIssues(merged);
   if (issues.length) throw new AppError("invalid", issues.map((i) => `${i.path}: ${i.message}`).join("; "), { fields: Object.fromEntries(issues.map((i) => [i.path, i.message])) });
@@ -156,7 +157,7 @@ export async function updateDevice(actor: Actor, id: string, patch: DevicePatch)
 
 /** Issues a new key and revokes every earlier one in the same transaction: the old key stops at once. */
 export async function rotateDeviceKey(actor: Actor, id: string) {
-  await findDevice(actor.organisationId, id);
+  await findDevice(wholeOrganisation(actor.organisationId), id);
   const key = generateDeviceKey();
   await getSequelize().transaction(async (transaction) => {
     await DeviceKey.update({ revoked_at: new Date() }, { where: { device_id: id, revoked_at: null }, transaction });
@@ -167,7 +168,7 @@ export async function rotateDeviceKey(actor: Actor, id: string) {
 }
 
 export async function revokeDeviceKeys(actor: Actor, id: string) {
-  await findDevice(actor.organisationId, id);
+  await findDevice(wholeOrganisation(actor.organisationId), id);
   return getSequelize().transaction(async (transaction) => {
     const [count] = await DeviceKey.update({ revoked_at: new Date() }, { where: { device_id: id, revoked_at: null }, transaction });
     await writeAudit(actor, "device.key_revoke", { type: "device", id }, { revoked: count }, transaction);

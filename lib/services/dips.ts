@@ -1,6 +1,7 @@
 // Manual dips of a tank: recorded by a technician (or imported), listed beside the sensor's level at
 // the dip's time, so a drift or a wrong calibration shows as the difference between the two.
 
+import { personLabel, wholeOrganisation, type Scope } from "../db/site-scope";
 import type { Transaction } from "sequelize";
 import { writeAudit, type Actor } from "./audit";
 import { getSequelize } from "../db/sequelize";
@@ -41,6 +42,7 @@ interface DipRow {
   level_m: number;
   note: string | null;
   by_label: string | null;
+  by_name?: string | null;
   created_at: Date;
   sensor_at: Date | null;
   sensor_level_m: number | null;
@@ -80,12 +82,12 @@ const SENSOR_AT_DIP = `
     ) near ORDER BY abs(extract(epoch FROM near.at - d.at)) LIMIT 1
   ) s ON true`;
 
-const DIP_COLUMNS = `d.id, d.at, d.level_m, d.note, d.created_at, coalesce(u.name, u.email) AS by_label,
+const DIP_COLUMNS = `d.id, d.at, d.level_m, d.note, d.created_at, coalesce(u.name, u.email) AS by_label, u.name AS by_name,
   s.at AS sensor_at, s.level_m AS sensor_level_m, s.raw_distance_m AS sensor_raw_distance_m, s.distance_m AS sensor_distance_m`;
 
 /** The asset's dips, newest first, each with the channel's level nearest its time. */
-export async function listDips(organisationId: string, assetId: string, channelId: string | null, limit = 200) {
-  await findAsset(organisationId, assetId);
+export async function listDips(scope: Scope, assetId: string, channelId: string | null, limit = 200) {
+  await findAsset(scope, assetId);
   const rows = await sqlRows<DipRow>(
     `SELECT ${DIP_COLUMNS}
        FROM manual_dips d LEFT JOIN users u ON u.id = d.by_user_id
@@ -94,7 +96,7 @@ export async function listDips(organisationId: string, assetId: string, channelI
       ORDER BY d.at DESC LIMIT $4`,
     [assetId, channelId, SENSOR_MATCH_WINDOW_S, limit],
   );
-  return rows.map(serialiseDip);
+  return rows.map((r) => serialiseDip({ ...r, by_label: personLabel(scope, r.by_label, r.by_name) }));
 }
 
 /** The chosen dips of an asset with the channel's measurement at each; unknown ids are left out. */
@@ -148,7 +150,7 @@ export async function existingDipTimes(assetId: string, times: readonly Date[], 
 }
 
 export async function recordDip(actor: Actor, assetId: string, input: RecordDipInput) {
-  const asset = await findAsset(actor.organisationId, assetId);
+  const asset = await findAsset(wholeOrganisation(actor.organisationId), assetId);
   assertDippable(asset);
   const max = maxDipLevel(asset);
   if (max !== null && input.level_m > max + 1e-9) {

@@ -1,6 +1,7 @@
 // CSV exports as streams of row batches: each batch is one keyset-paged query (a cursor that survives
 // between pulls without holding a connection), so a year of measurements never sits in memory.
 
+import { personLabel, siteScope, textFor, type Scope } from "../db/site-scope";
 import { AppError } from "../errors";
 import type { CsvValue } from "../csv/write";
 import type { ExportRange } from "../validations/export";
@@ -40,10 +41,11 @@ interface ExportAsset {
 }
 
 /** The chosen assets of the organisation, in the order given; an unknown id is 404 before anything streams. */
-export async function exportAssets(organisationId: string, assetIds: readonly string[]): Promise<ExportAsset[]> {
+export async function exportAssets(scope: Scope, assetIds: readonly string[]): Promise<ExportAsset[]> {
   const rows = await sqlRows<ExportAsset>(
-    `SELECT a.id, a.name, s.name AS site_name FROM assets a JOIN sites s ON s.id = a.site_id WHERE a.organisation_id = $1 AND a.id = ANY($2::uuid[])`,
-    [organisationId, assetIds],
+    `SELECT a.id, a.name, s.name AS site_name FROM assets a JOIN sites s ON s.id = a.site_id
+      WHERE a.organisation_id = $1 AND ${siteScope(scope, "a.site_id")} AND a.id = ANY($2::uuid[])`,
+    [scope.organisationId, assetIds],
   );
   const byId = new Map(rows.map((r) => [r.id, r]));
   const missing = assetIds.filter((id) => !byId.has(id));
@@ -154,21 +156,23 @@ interface AlarmEventRow {
   setpoint: number | null;
   unit: string | null;
   actor_label: string | null;
+  actor_name: string | null;
   comment: string | null;
   alarm_id: string;
 }
 
 /** Every alarm event (activations, acknowledgements, shelving, notifications…) in [from, to), in time order. */
-export async function* alarmEventBatches(organisationId: string, range: ExportRange): Batches {
+export async function* alarmEventBatches(scope: Scope, range: ExportRange): Batches {
   let after: { at: Date; id: string } = { at: new Date(range.from.getTime() - 1), id: "0" };
   for (;;) {
     const rows = await sqlRows<AlarmEventRow>(
       `SELECT e.id, e.at, s.name AS site_name, a.name AS asset_name, al.kind AS alarm_kind, coalesce(e.priority, al.priority) AS priority,
-              e.kind, e.from_state, e.to_state, e.cause, e.value, e.setpoint, al.unit, e.actor_label, e.comment, e.alarm_id
+              e.kind, e.from_state, e.to_state, e.cause, e.value, e.setpoint, al.unit, e.actor_label, u.name AS actor_name, e.comment, e.alarm_id
          FROM alarm_events e JOIN alarms al ON al.id = e.alarm_id JOIN sites s ON s.id = al.site_id LEFT JOIN assets a ON a.id = al.asset_id
-        WHERE e.organisation_id = $1 AND e.at >= $2 AND e.at < $3 AND (e.at, e.id) > ($4, $5::bigint)
+              LEFT JOIN users u ON u.id = e.user_id
+        WHERE e.organisation_id = $1 AND ${siteScope(scope, "al.site_id")} AND e.at >= $2 AND e.at < $3 AND (e.at, e.id) > ($4, $5::bigint)
         ORDER BY e.at, e.id LIMIT $6`,
-      [organisationId, range.from, range.to, after.at, after.id, EXPORT_BATCH_ROWS],
+      [scope.organisationId, range.from, range.to, after.at, after.id, EXPORT_BATCH_ROWS],
     );
     if (rows.length === 0) return;
     yield rows.map((e) => [
@@ -180,11 +184,11 @@ export async function* alarmEventBatches(organisationId: string, range: ExportRa
       e.kind,
       e.from_state,
       e.to_state,
-      e.cause,
+      textFor(scope, e.cause),
       e.value,
       e.setpoint,
       e.unit,
-      e.actor_label,
+      personLabel(scope, e.actor_label, e.actor_name),
       e.comment,
       e.alarm_id,
     ]);
@@ -213,8 +217,8 @@ export const REFILL_PLAN_COLUMNS = [
 const round = (x: number | null, digits: number) => (x === null ? null : Math.round(x * 10 ** digits) / 10 ** digits);
 
 /** The refill plan is short (one row a tank): one batch. */
-export async function* refillPlanBatches(organisationId: string, options: { horizonDays: number; siteId?: string }): Batches {
-  const plan = await refillPlan(organisationId, options);
+export async function* refillPlanBatches(scope: Scope, options: { horizonDays: number; siteId?: string }): Batches {
+  const plan = await refillPlan(scope, options);
   yield plan.items.map((r) => [
     r.due_at,
     r.site_name,

@@ -3,6 +3,7 @@
 // date from outside that transaction. With any error in all-or-nothing mode the transaction is rolled
 // back and nothing is imported; in good-rows mode the good rows are kept and the bad ones listed.
 
+import { wholeOrganisation } from "../db/site-scope";
 import type { Transaction } from "sequelize";
 import { QUEUE_INSERTED, RETURNING_QUEUED_COLUMNS } from "../worker/reading-queue";
 import { writeAudit, type Actor } from "./audit";
@@ -280,7 +281,7 @@ async function planFor(actor: Actor, upload: UploadJson, transaction: Transactio
       };
     }
     case "dips": {
-      const asset = await findAsset(actor.organisationId, id);
+      const asset = await findAsset(wholeOrganisation(actor.organisationId), id);
       return { reader: dipRowReader(maxDipLevel(asset), now) as RowReader<unknown>, sink: dipSink(id, actor.userId, transaction) as ImportSink<unknown> };
     }
     case "temperature": {
@@ -295,7 +296,7 @@ async function planFor(actor: Actor, upload: UploadJson, transaction: Transactio
       };
     }
     case "strapping": {
-      await findAsset(actor.organisationId, id);
+      await findAsset(wholeOrganisation(actor.organisationId), id);
       const points: StrappingRow[] = [];
       return {
         reader: strappingRowReader() as RowReader<unknown>,

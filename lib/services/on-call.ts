@@ -1,6 +1,7 @@
 // The ordered on-call list of a site: who is e-mailed first when an alarm activates, and who next
 // each time the site's escalation delay passes without an acknowledgement.
 
+import { wholeOrganisation, type Scope } from "../db/site-scope";
 import { writeAudit, type Actor } from "./audit";
 import { getSequelize } from "../db/sequelize";
 import { AppError } from "../errors";
@@ -37,21 +38,23 @@ async function candidates(organisationId: string) {
 }
 
 /** The list, and for someone who may edit it the people who could be on it. */
-export async function getOnCall(organisationId: string, siteId: string, opts: { withCandidates?: boolean } = {}) {
-  const site = await findSite(organisationId, siteId);
+export async function getOnCall(scope: Scope, siteId: string, opts: { withCandidates?: boolean } = {}) {
+  const site = await findSite(scope, siteId);
+  const people = await entries(site.id);
   return {
     site_id: site.id,
     site_name: site.name,
     escalation_delay_min: site.escalation_delay_min,
-    entries: await entries(site.id),
-    candidates: opts.withCandidates ? await candidates(organisationId) : null,
+    // A viewer (partner, customer) sees who is on call, not their addresses.
+    entries: scope.staffEmails ? people : people.map((e) => ({ ...e, email: null })),
+    candidates: opts.withCandidates && scope.staffEmails ? await candidates(scope.organisationId) : null,
   };
 }
 export type OnCallJson = Awaited<ReturnType<typeof getOnCall>>;
 
 /** Replaces the list; everyone on it must be an active user of the organisation who may acknowledge alarms. */
 export async function putOnCall(actor: Actor, siteId: string, input: PutOnCallInput) {
-  await findSite(actor.organisationId, siteId);
+  await findSite(wholeOrganisation(actor.organisationId), siteId);
   const users = input.user_ids.length
     ? await sqlRows<{ id: string; email: string; role: Role; status: string }>(
         `SELECT id, email, role, status FROM users WHERE organisation_id = :organisationId AND id IN (:ids)`,
@@ -77,5 +80,5 @@ export async function putOnCall(actor: Actor, siteId: string, input: PutOnCallIn
     }
     await writeAudit(actor, "on_call.update", { type: "site", id: siteId }, { emails: input.user_ids.map((id) => byId.get(id)?.email) }, transaction);
   });
-  return getOnCall(actor.organisationId, siteId, { withCandidates: true });
+  return getOnCall(wholeOrganisation(actor.organisationId), siteId, { withCandidates: true });
 }

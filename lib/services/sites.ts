@@ -1,3 +1,4 @@
+import { siteScopeWhere, wholeOrganisation, type Scope } from "../db/site-scope";
 import { writeAudit, type Actor } from "./audit";
 import { Site } from "../db/models";
 import { getSequelize } from "../db/sequelize";
@@ -23,13 +24,13 @@ export function serialiseSite(s: Site) {
 }
 export type SiteJson = ReturnType<typeof serialiseSite>;
 
-export async function listSites(organisationId: string) {
-  const sites = await Site.findAll({ where: { organisation_id: organisationId }, order: [["name", "ASC"]] });
+export async function listSites(scope: Scope) {
+  const sites = await Site.findAll({ where: siteScopeWhere(scope, "id"), order: [["name", "ASC"]] });
   return sites.map(serialiseSite);
 }
 
-export async function findSite(organisationId: string, id: string): Promise<Site> {
-  const site = await Site.findOne({ where: { id, organisation_id: organisationId } });
+export async function findSite(scope: Scope, id: string): Promise<Site> {
+  const site = await Site.findOne({ where: { id, ...siteScopeWhere(scope, "id") } });
   if (!site) throw notFound("That site");
   return site;
 }
@@ -56,7 +57,7 @@ export async function createSite(actor: Actor, input: SiteInput) {
 const TEMPERATURE_FIELDS = ["air_temp_c", "humidity_pct", "temperature_channel_id"] as const;
 
 export async function updateSite(actor: Actor, id: string, patch: Partial<SiteInput>) {
-  const site = await findSite(actor.organisationId, id);
+  const site = await findSite(wholeOrganisation(actor.organisationId), id);
   await assertTemperatureChannel(actor.organisationId, patch.temperature_channel_id);
   const before = Object.fromEntries(TEMPERATURE_FIELDS.map((f) => [f, site[f] ?? null]));
   return getSequelize().transaction(async (transaction) => {

@@ -26,9 +26,18 @@ export const updateUserSchema = z
     role: z.enum(ROLES, { message: `Choose a role: ${ROLES.join(", ")}.` }).optional(),
     status: z.enum(["active", "deactivated"], { message: "Status is active or deactivated." }).optional(),
     name: text().trim().max(120).optional(),
+    // Partner scope: the sites a viewer may read; null gives back every site (docs/security.md).
+    site_ids: z
+      .array(z.string().uuid("Each site id is a site's id."), { message: "site_ids is a list of site ids, or null for every site." })
+      .max(1000, "Assign at most 1000 sites.")
+      .transform((ids) => [...new Set(ids)])
+      .nullable()
+      .optional(),
   })
   .strict()
-  .refine((v) => Object.keys(v).length > 0, "Send at least one of role, status, name.");
+  .refine((v) => Object.keys(v).length > 0, "Send at least one of role, status, name, site_ids.");
+
+export type UpdateUserInput = z.infer<typeof updateUserSchema>;
 
 export const acceptInviteSchema = z
   .object({ token: text().min(10), password: passwordSchema, confirm: text() })

@@ -1,3 +1,4 @@
+import { wholeOrganisation } from "@/lib/db/site-scope";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { currentUser } from "@/lib/auth/session";
@@ -22,7 +23,7 @@ export default async function AckPage({ params }: { params: Promise<{ token: str
   const token = decodeURIComponent((await params).token);
   const viewer = await currentUser();
   const link = await lookUpAckLink(token, viewer?.organisationId ?? null);
-  const alarm = link.ok ? await findAlarm(link.organisationId, link.alarmId) : null;
+  const alarm = link.ok ? await findAlarm(wholeOrganisation(link.organisationId), link.alarmId) : null;
   const details = alarm && (
     <>
       <dt className="font-bold">Alarm</dt>

@@ -7,5 +7,5 @@ import { alarmHealthQuerySchema } from "@/lib/validations/alarm";
 // GET /api/alarm-health?from=&to=&site_id= (default: the last 30 days, the benchmarks' minimum period)
 export const GET = route(async (req) => {
   const user = await requirePermission("dashboard:read");
-  return Response.json(await alarmHealth(user.organisationId, parseQuery(req.url, alarmHealthQuerySchema)));
+  return Response.json(await alarmHealth(user.scope, parseQuery(req.url, alarmHealthQuerySchema)));
 });

@@ -6,7 +6,7 @@ import { assetListQuerySchema, createAssetSchema } from "@/lib/validations/asset
 
 export const GET = route(async (req) => {
   const user = await requirePermission("dashboard:read");
-  return Response.json({ items: await listAssets(user.organisationId, parseQuery(req.url, assetListQuerySchema)) });
+  return Response.json({ items: await listAssets(user.scope, parseQuery(req.url, assetListQuerySchema)) });
 });
 
 export const POST = route(async (req) => {

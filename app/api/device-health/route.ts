@@ -7,5 +7,5 @@ import { deviceHealthQuerySchema } from "@/lib/validations/overview";
 // The devices health table, paged, sorted and filtered on the server.
 export const GET = route(async (req) => {
   const user = await requirePermission("dashboard:read");
-  return Response.json(await listDeviceHealth(user.organisationId, parseQuery(req.url, deviceHealthQuerySchema)));
+  return Response.json(await listDeviceHealth(user.scope, parseQuery(req.url, deviceHealthQuerySchema)));
 });

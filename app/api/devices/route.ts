@@ -6,7 +6,7 @@ import { createDeviceSchema, deviceListQuerySchema } from "@/lib/validations/dev
 
 export const GET = route(async (req) => {
   const user = await requirePermission("dashboard:read");
-  return Response.json({ items: await listDevices(user.organisationId, parseQuery(req.url, deviceListQuerySchema)) });
+  return Response.json({ items: await listDevices(user.scope, parseQuery(req.url, deviceListQuerySchema)) });
 });
 
 export const POST = route(async (req) => {

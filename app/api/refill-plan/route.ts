@@ -11,5 +11,5 @@ const query = refillPlanQuery.extend({ site_id: uuidSchema.optional() });
 export const GET = route(async (req) => {
   const user = await requirePermission("dashboard:read");
   const q = parseQuery(req.url, query);
-  return Response.json(await refillPlan(user.organisationId, { horizonDays: q.horizon_days, siteId: q.site_id }));
+  return Response.json(await refillPlan(user.scope, { horizonDays: q.horizon_days, siteId: q.site_id }));
 });

@@ -6,7 +6,7 @@ import { createSiteSchema } from "@/lib/validations/site";
 
 export const GET = route(async () => {
   const user = await requirePermission("dashboard:read");
-  return Response.json({ items: await listSites(user.organisationId) });
+  return Response.json({ items: await listSites(user.scope) });
 });
 
 export const POST = route(async (req) => {

@@ -21,6 +21,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare status: CreationOptional<UserStatus>;
   declare password_hash: CreationOptional<string | null>;
   declare session_version: CreationOptional<number>;
+  /** A viewer's sites (partner scope); null is every site of the organisation. */
+  declare site_ids: CreationOptional<string[] | null>;
   declare created_at: CreationOptional<Date>;
 }
 
@@ -59,6 +61,7 @@ function defineModels(sequelize: Sequelize) {
       status: { type: DataTypes.ENUM("invited", "active", "deactivated"), allowNull: false, defaultValue: "invited" },
       password_hash: { type: DataTypes.TEXT, allowNull: true },
       session_version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
+      site_ids: { type: DataTypes.ARRAY(DataTypes.UUID), allowNull: true },
       created_at: DataTypes.DATE,
     },
     {

@@ -11,7 +11,7 @@ export const metadata: Metadata = { title: "Alarm" };
 export default async function AlarmPage({ params }: { params: Promise<{ id: string }> }) {
   const user = await requirePageUser();
   const { id } = await params;
-  const alarm = await findOrNotFound(id, (id) => findAlarm(user.organisationId, id));
+  const alarm = await findOrNotFound(id, (id) => findAlarm(user.scope, id));
   const where = alarm.asset?.name ?? (alarm.channel ? `${alarm.channel.device_name} channel ${alarm.channel.index}` : alarm.site.name);
   return (
     <>

@@ -17,8 +17,8 @@ const KIND_WORDS = { tank: "Tank", bay: "Parking bay", point: "Distance point" }
 export default async function AssetPage({ params }: { params: Promise<{ id: string }> }) {
   const user = await requirePageUser();
   const { id } = await params;
-  const asset = await findOrNotFound(id, (id) => findAsset(user.organisationId, id));
-  const site = await findSite(user.organisationId, asset.site_id);
+  const asset = await findOrNotFound(id, (id) => findAsset(user.scope, id));
+  const site = await findSite(user.scope, asset.site_id);
   return (
     <>
       <PageHeader

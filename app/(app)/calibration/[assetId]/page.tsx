@@ -13,9 +13,9 @@ export const metadata: Metadata = { title: "Dips and calibration" };
 export default async function TankCalibrationPage({ params }: { params: Promise<{ assetId: string }> }) {
   const user = await requirePageUser("dip:record");
   const { assetId } = await params;
-  const asset = await findOrNotFound(assetId, (id) => findAsset(user.organisationId, id));
+  const asset = await findOrNotFound(assetId, (id) => findAsset(user.scope, id));
   if (asset.kind !== "tank") notFound();
-  const site = await findSite(user.organisationId, asset.site_id);
+  const site = await findSite(user.scope, asset.site_id);
   return (
     <>
       <PageHeader

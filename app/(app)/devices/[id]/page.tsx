@@ -12,7 +12,7 @@ export const metadata: Metadata = { title: "Device" };
 export default async function DevicePage({ params }: { params: Promise<{ id: string }> }) {
   const user = await requirePageUser();
   const { id } = await params;
-  const { device } = await findOrNotFound(id, (id) => findDevice(user.organisationId, id));
+  const { device } = await findOrNotFound(id, (id) => findDevice(user.scope, id));
   const canManage = can(user.role, "device:manage");
   return (
     <>

@@ -12,7 +12,7 @@ export const metadata: Metadata = { title: "Site" };
 export default async function SitePage({ params }: { params: Promise<{ id: string }> }) {
   const user = await requirePageUser();
   const { id } = await params;
-  const site = await findOrNotFound(id, (id) => findSite(user.organisationId, id));
+  const site = await findOrNotFound(id, (id) => findSite(user.scope, id));
   return (
     <>
       <PageHeader

@@ -5,5 +5,5 @@ import { route } from "@/lib/http/route";
 
 export const GET = route<IdContext>(async (_req, ctx) => {
   const user = await requirePermission("dashboard:read");
-  return Response.json(await findAlarmWithHistory(user.organisationId, await idParam(ctx, "That alarm")));
+  return Response.json(await findAlarmWithHistory(user.scope, await idParam(ctx, "That alarm")));
 });

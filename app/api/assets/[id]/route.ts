@@ -8,7 +8,7 @@ import { updateAssetSchema } from "@/lib/validations/asset";
 
 export const GET = route<IdContext>(async (_req, ctx) => {
   const user = await requirePermission("dashboard:read");
-  return Response.json(serialiseAsset(await findAsset(user.organisationId, await idParam(ctx, "That asset"))));
+  return Response.json(serialiseAsset(await findAsset(user.scope, await idParam(ctx, "That asset"))));
 });
 
 export const PATCH = route<IdContext>(async (req, ctx) => {

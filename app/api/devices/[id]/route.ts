@@ -7,7 +7,7 @@ import { updateDeviceSchema } from "@/lib/validations/device";
 
 export const GET = route<IdContext>(async (_req, ctx) => {
   const user = await requirePermission("dashboard:read");
-  const { device, channels } = await findDevice(user.organisationId, await idParam(ctx, "That device"));
+  const { device, channels } = await findDevice(user.scope, await idParam(ctx, "That device"));
   const json = serialiseDevice(device, channels);
   return Response.json({ ...json, keys: await listDeviceKeys(device.id), timing: await describeDeviceTiming(json) });
 });

@@ -11,5 +11,5 @@ export const GET = route(async (req) => {
   const user = await requirePermission("export:read");
   const range = parseQuery(req.url, alarmsExportQuery);
   const name = attachmentName(`alarm-events-${range.from.toISOString().slice(0, 10)}-${range.to.toISOString().slice(0, 10)}`);
-  return csvResponse(csvStream(ALARM_EVENT_COLUMNS, alarmEventBatches(user.organisationId, range)), name);
+  return csvResponse(csvStream(ALARM_EVENT_COLUMNS, alarmEventBatches(user.scope, range)), name);
 });

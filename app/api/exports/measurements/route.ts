@@ -10,7 +10,7 @@ import { csvResponse } from "../csv-response";
 export const GET = route(async (req) => {
   const user = await requirePermission("export:read");
   const query = parseQuery(req.url, measurementsExportQuery);
-  const assets = await exportAssets(user.organisationId, query.asset_ids);
+  const assets = await exportAssets(user.scope, query.asset_ids);
   const name = attachmentName(`measurements-${assets.length === 1 ? assets[0].name : `${assets.length}-assets`}-${query.from.toISOString().slice(0, 10)}-${query.to.toISOString().slice(0, 10)}`);
   return csvResponse(csvStream(MEASUREMENT_COLUMNS, measurementBatches(assets, query)), name);
 });

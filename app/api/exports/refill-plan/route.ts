@@ -14,5 +14,5 @@ export const GET = route(async (req) => {
   const user = await requirePermission("export:read");
   const q = parseQuery(req.url, query);
   const name = attachmentName(`refill-plan-${q.horizon_days}-days-${new Date().toISOString().slice(0, 10)}`);
-  return csvResponse(csvStream(REFILL_PLAN_COLUMNS, refillPlanBatches(user.organisationId, { horizonDays: q.horizon_days, siteId: q.site_id })), name);
+  return csvResponse(csvStream(REFILL_PLAN_COLUMNS, refillPlanBatches(user.scope, { horizonDays: q.horizon_days, siteId: q.site_id })), name);
 });

@@ -7,7 +7,7 @@ import { updateSiteSchema } from "@/lib/validations/site";
 
 export const GET = route<IdContext>(async (_req, ctx) => {
   const user = await requirePermission("dashboard:read");
-  return Response.json(serialiseSite(await findSite(user.organisationId, await idParam(ctx, "That site"))));
+  return Response.json(serialiseSite(await findSite(user.scope, await idParam(ctx, "That site"))));
 });
 
 export const PATCH = route<IdContext>(async (req, ctx) => {

@@ -11,7 +11,7 @@ export const metadata: Metadata = { title: "On call" };
 export default async function OnCallPage({ params }: { params: Promise<{ siteId: string }> }) {
   const user = await requirePageUser();
   const { siteId } = await params;
-  const site = await findOrNotFound(siteId, (id) => findSite(user.organisationId, id));
+  const site = await findOrNotFound(siteId, (id) => findSite(user.scope, id));
   const editable = can(user.role, "oncall:edit");
   return (
     <>

@@ -13,7 +13,7 @@ export const metadata: Metadata = { title: "Alarm setpoints" };
 export default async function SetpointsPage({ params }: { params: Promise<{ assetId: string }> }) {
   const user = await requirePageUser();
   const { assetId } = await params;
-  const asset = await findOrNotFound(assetId, (id) => findAsset(user.organisationId, id));
+  const asset = await findOrNotFound(assetId, (id) => findAsset(user.scope, id));
   if (asset.kind !== "tank") notFound();
   const editable = can(user.role, "setpoint:edit");
   return (

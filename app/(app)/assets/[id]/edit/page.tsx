@@ -10,7 +10,7 @@ export const metadata: Metadata = { title: "Edit asset" };
 export default async function EditAssetPage({ params }: { params: Promise<{ id: string }> }) {
   const user = await requirePageUser("asset:manage");
   const { id } = await params;
-  const asset = await findOrNotFound(id, (id) => findAsset(user.organisationId, id));
+  const asset = await findOrNotFound(id, (id) => findAsset(user.scope, id));
   return (
     <>
       <PageHeader title={`Edit ${asset.name}`} path={[{ href: "/assets", label: "Assets" }]} facts={asset.kind} />

@@ -10,7 +10,7 @@ export const metadata: Metadata = { title: "Edit device" };
 export default async function EditDevicePage({ params }: { params: Promise<{ id: string }> }) {
   const user = await requirePageUser("device:manage");
   const { id } = await params;
-  const { device } = await findOrNotFound(id, (id) => findDevice(user.organisationId, id));
+  const { device } = await findOrNotFound(id, (id) => findDevice(user.scope, id));
   return (
     <>
       <PageHeader

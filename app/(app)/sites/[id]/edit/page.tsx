@@ -10,7 +10,7 @@ export const metadata: Metadata = { title: "Edit site" };
 export default async function EditSitePage({ params }: { params: Promise<{ id: string }> }) {
   const user = await requirePageUser("site:manage");
   const { id } = await params;
-  const site = await findOrNotFound(id, (id) => findSite(user.organisationId, id));
+  const site = await findOrNotFound(id, (id) => findSite(user.scope, id));
   return (
     <>
       <PageHeader title={`Edit ${site.name}`} path={[{ href: "/sites", label: "Sites" }]} />

@@ -16,7 +16,7 @@ const listQuery = z.object({ channel_id: uuidSchema.optional() });
 export const GET = route<IdContext>(async (req, ctx) => {
   const user = await requirePermission("dashboard:read");
   const id = await idParam(ctx, "That asset");
-  const asset = await findAsset(user.organisationId, id);
+  const asset = await findAsset(user.scope, id);
   const query = parseQuery(req.url, listQuery);
   const channels = await channelsOfAsset(id);
   const channel = query.channel_id ? channels.find((c) => c.id === query.channel_id) : channels[0];
@@ -33,7 +33,7 @@ export const GET = route<IdContext>(async (req, ctx) => {
     },
     channels,
     channel_id: channel?.id ?? null,
-    items: await listDips(user.organisationId, id, channel?.id ?? null),
+    items: await listDips(user.scope, id, channel?.id ?? null),
   });
 });
 

@@ -10,5 +10,5 @@ export const GET = route<IdContext>(async (req, ctx) => {
   const user = await requirePermission("dashboard:read");
   const id = await idParam(ctx, "That asset");
   const period = parseQuery(req.url, periodQuerySchema);
-  return Response.json(await assetOverview(user.organisationId, id, period));
+  return Response.json(await assetOverview(user.scope, id, period));
 });

@@ -8,5 +8,5 @@ import { seriesQuerySchema } from "@/lib/validations/measurement";
 export const GET = route<IdContext>(async (req, ctx) => {
   const user = await requirePermission("dashboard:read");
   const id = await idParam(ctx, "That asset");
-  return Response.json(await assetSeries(user.organisationId, id, parseQuery(req.url, seriesQuerySchema)));
+  return Response.json(await assetSeries(user.scope, id, parseQuery(req.url, seriesQuerySchema)));
 });

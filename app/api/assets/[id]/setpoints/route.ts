@@ -7,7 +7,7 @@ import { putSetpointsSchema } from "@/lib/validations/setpoint";
 
 export const GET = route<IdContext>(async (_req, ctx) => {
   const user = await requirePermission("dashboard:read");
-  return Response.json(await getSetpoints(user.organisationId, await idParam(ctx, "That asset")));
+  return Response.json(await getSetpoints(user.scope, await idParam(ctx, "That asset")));
 });
 
 // The whole set at once: a setpoint left out (or null) is removed.

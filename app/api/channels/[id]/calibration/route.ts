@@ -8,7 +8,7 @@ import { calibrationRequestSchema } from "@/lib/validations/calibration";
 /** The channel's calibration now and its history of changes. */
 export const GET = route<IdContext>(async (_req, ctx) => {
   const user = await requirePermission("dashboard:read");
-  return Response.json(await channelCalibration(user.organisationId, await idParam(ctx, "That channel")));
+  return Response.json(await channelCalibration(user.scope, await idParam(ctx, "That channel")));
 });
 
 /** Fits from the chosen dips and applies: the channel's calibration changes and its measurements are recomputed. */

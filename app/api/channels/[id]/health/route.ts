@@ -8,5 +8,5 @@ import { healthQuerySchema } from "@/lib/validations/measurement";
 export const GET = route<IdContext>(async (req, ctx) => {
   const user = await requirePermission("dashboard:read");
   const id = await idParam(ctx, "That channel");
-  return Response.json(await channelHealth(user.organisationId, id, parseQuery(req.url, healthQuerySchema)));
+  return Response.json(await channelHealth(user.scope, id, parseQuery(req.url, healthQuerySchema)));
 });

@@ -8,5 +8,5 @@ import { measurementsQuerySchema } from "@/lib/validations/measurement";
 export const GET = route<IdContext>(async (req, ctx) => {
   const user = await requirePermission("dashboard:read");
   const id = await idParam(ctx, "That channel");
-  return Response.json(await listChannelMeasurements(user.organisationId, id, parseQuery(req.url, measurementsQuerySchema)));
+  return Response.json(await listChannelMeasurements(user.scope, id, parseQuery(req.url, measurementsQuerySchema)));
 });

@@ -9,7 +9,7 @@ import { putOnCallSchema } from "@/lib/validations/on-call";
 export const GET = route<IdContext>(async (_req, ctx) => {
   const user = await requirePermission("dashboard:read");
   const withCandidates = can(user.role, "oncall:edit");
-  return Response.json(await getOnCall(user.organisationId, await idParam(ctx, "That site"), { withCandidates }));
+  return Response.json(await getOnCall(user.scope, await idParam(ctx, "That site"), { withCandidates }));
 });
 
 // { user_ids: [first, second, …] } replaces the ordered list.

@@ -10,5 +10,5 @@ export const POST = route<IdContext>(async (req, ctx) => {
   const user = await requirePermission("calibration:apply");
   const id = await idParam(ctx, "That channel");
   const request = await parseJsonBody(req, calibrationRequestSchema);
-  return Response.json(await previewCalibration(user.organisationId, id, request));
+  return Response.json(await previewCalibration(user.scope, id, request));
 });
