@@ -51,6 +51,8 @@ interface Filters {
   to: string;
   sort: AlarmSort;
   page: number;
+  /** Alarms suppressed by design are shown only on request. */
+  suppressed: boolean;
 }
 
 function readFilters(params: URLSearchParams): Filters {
@@ -65,6 +67,7 @@ function readFilters(params: URLSearchParams): Filters {
     to: date("to"),
     sort: oneOf("sort", ALARM_SORTS, "priority") as AlarmSort,
     page: Math.max(1, Number(params.get("page") ?? 1) || 1),
+    suppressed: params.get("include") === "suppressed",
   };
 }
 
@@ -74,6 +77,7 @@ function apiQuery(f: Filters): string {
   if (f.site_id) q.set("site_id", f.site_id);
   if (f.priority) q.set("priority", f.priority);
   if (f.kind) q.set("kind", f.kind);
+  if (f.suppressed) q.set("include", "suppressed");
   // Dates in the URL are local calendar days; the API takes instants.
   if (f.from) q.set("from", new Date(`${f.from}T00:00:00`).toISOString());
   if (f.to) q.set("to", new Date(new Date(`${f.to}T00:00:00`).getTime() + 86_400_000).toISOString());
@@ -238,6 +242,10 @@ export function AlarmTable({ role }: { role: Role }) {
   return (
     <div className="space-y-4">
       <div className="flex flex-wrap items-end gap-4" role="group" aria-label="Filters">
+        <label className="flex items-center gap-2 text-sm">
+          <input type="checkbox" checked={filters.suppressed} onChange={(e) => setParam({ include: e.target.checked ? "suppressed" : "" })} />
+          Show suppressed by design
+        </label>
         <div>
           <label htmlFor="alarm-filter-state" className="label">State</label>
           <select id="alarm-filter-state" className="field" value={filters.state} onChange={(e) => setParam({ state: e.target.value === "active" ? "" : e.target.value })}>

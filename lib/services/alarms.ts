@@ -151,7 +151,24 @@ export async function listAlarms(organisationId: string, q: AlarmListQuery) {
     groupable.map((g) => ({ id: g.id, siteId: g.site_id, deviceId: g.device_id, state: g.state, priority: g.priority, conditionActive: g.condition_active, causeKey: g.cause_key })),
     q.group,
   );
-  return { ...page, groups };
+  const names = await sqlRows<{ id: string; name: string }>(
+    `SELECT id, name FROM devices WHERE organisation_id = :organisationId UNION ALL SELECT id, name FROM sites WHERE organisation_id = :organisationId
+     UNION ALL SELECT ch.id, coalesce(a.name, d.name || ' channel ' || ch.index) FROM channels ch JOIN devices d ON d.id = ch.device_id LEFT JOIN assets a ON a.id = ch.asset_id
+     WHERE d.organisation_id = :organisationId`,
+    { organisationId },
+  );
+  const nameOf = new Map(names.map((n) => [n.id, n.name]));
+  return { ...page, groups: groups.map((g) => ({ ...g, label: groupLabel(g.by, g.id, nameOf) })) };
+}
+
+/** A group's heading: the device or site by name, a cause in words (consequential.ts key formats). */
+function groupLabel(by: string, id: string, nameOf: ReadonlyMap<string, string>): string {
+  if (by !== "cause") return nameOf.get(id) ?? id;
+  const [scope, scopeId, what] = id.split(":");
+  const name = nameOf.get(scopeId) ?? scopeId;
+  if (scope === "device" && what === "offline") return `${name} offline`;
+  if (scope === "channel") return `${what.replaceAll("_", " ")} fault on ${name}`;
+  return `${what.replaceAll("_", " ")} on several channels of ${name}`;
 }
 
 async function findAlarmRow(organisationId: string, id: string, transaction?: Transaction): Promise<AlarmViewRow> {
