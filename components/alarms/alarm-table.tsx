@@ -43,7 +43,7 @@ function stateToSort(s: SortingState): AlarmSort {
   return (s[0].desc ? `-${key}` : key) as AlarmSort;
 }
 
-const FILTER_KEYS = ["state", "site_id", "priority", "kind", "from", "to"] as const;
+const FILTER_KEYS = ["state", "site_id", "priority", "kind", "from", "to", "include"] as const;
 const URL_KEYS = [...FILTER_KEYS, "sort", "page"] as const;
 
 interface Filters {
@@ -55,6 +55,8 @@ interface Filters {
   to: string;
   sort: AlarmSort;
   page: number;
+  /** Alarms suppressed by design are shown only on request. */
+  suppressed: boolean;
 }
 
 /** The URL's values as the table uses them: "all" states is the one value beyond the API's schema. */
@@ -69,6 +71,7 @@ function asFilters(values: Partial<Record<(typeof URL_KEYS)[number], string>>, r
     to: day(values.to),
     sort: (values.sort ?? "priority") as AlarmSort,
     page: Number(values.page ?? 1),
+    suppressed: values.include === "suppressed",
   };
 }
 
@@ -78,6 +81,7 @@ function apiQuery(f: Filters): string {
   if (f.site_id) q.set("site_id", f.site_id);
   if (f.priority) q.set("priority", f.priority);
   if (f.kind) q.set("kind", f.kind);
+  if (f.suppressed) q.set("include", "suppressed");
   // Dates in the URL are local calendar days; the API takes instants.
   if (f.from) q.set("from", new Date(`${f.from}T00:00:00`).toISOString());
   if (f.to) q.set("to", new Date(new Date(`${f.to}T00:00:00`).getTime() + 86_400_000).toISOString());
@@ -238,6 +242,10 @@ export function AlarmTable({ role }: { role: Role }) {
   return (
     <div className="space-y-4">
       <div className="flex flex-wrap items-end gap-4" role="group" aria-label="Filters">
+        <label className="flex items-center gap-2 text-sm">
+          <input type="checkbox" checked={filters.suppressed} onChange={(e) => setParam({ include: e.target.checked ? "suppressed" : "" })} />
+          Show suppressed by design
+        </label>
         <div>
           <label htmlFor="alarm-filter-state" className="label">State</label>
           <select id="alarm-filter-state" className="field w-auto" value={filters.state} onChange={(e) => setParam({ state: e.target.value === "active" ? "" : e.target.value })}>

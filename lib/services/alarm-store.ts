@@ -13,6 +13,12 @@ export interface AlarmDbRow {
   site_id: string;
   asset_id: string | null;
   channel_id: string | null;
+  /** The device behind a channel alarm, or a device alarm's own device. */
+  device_id: string | null;
+  /** The cause that suppresses it (or, for a common cause, its own key). */
+  cause_key: string | null;
+  /** A common cause's members (consequential.ts CommonCauseMember). */
+  members: unknown[];
   kind: AlarmKind;
   priority: AlarmPriority;
   latching: boolean;

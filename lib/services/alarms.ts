@@ -8,7 +8,8 @@ import { getSequelize } from "../db/sequelize";
 import { writeAudit, type Actor } from "./audit";
 import { AppError, notFound } from "../errors";
 import { alarmKindLabel, applyAlarmInput } from "../alarms/engine";
-import { httpStatusForAlarmError, isAwaitingReset, type AlarmInput } from "../alarms/state-machine";
+import { httpStatusForAlarmError, isAwaitingReset, type AlarmInput, type AlarmPriority, type AlarmState } from "../alarms/state-machine";
+import { groupAlarms } from "../alarms/floods";
 import type { AlarmListQuery, AlarmSort } from "../validations/alarm";
 import { type AlarmDbRow, type AlarmRowExtras, insertAlarmEvents, saveAlarm, toRecord } from "./alarm-store";
 import { sqlRows } from "../db/sql";
@@ -19,17 +20,16 @@ interface AlarmViewRow extends AlarmDbRow {
   time_zone: string;
   asset_name: string | null;
   channel_index: number | null;
-  device_id: string | null;
   device_name: string | null;
   ack_email: string | null;
   ack_name: string | null;
 }
 
 const VIEW_SELECT = `
-  SELECT al.*, s.name AS site_name, s.time_zone, a.name AS asset_name, ch.index AS channel_index, d.id AS device_id, d.name AS device_name,
+  SELECT al.*, s.name AS site_name, s.time_zone, a.name AS asset_name, ch.index AS channel_index, d.name AS device_name,
          u.email AS ack_email, u.name AS ack_name
   FROM alarms al JOIN sites s ON s.id = al.site_id LEFT JOIN assets a ON a.id = al.asset_id
-  LEFT JOIN channels ch ON ch.id = al.channel_id LEFT JOIN devices d ON d.id = ch.device_id
+  LEFT JOIN channels ch ON ch.id = al.channel_id LEFT JOIN devices d ON d.id = al.device_id
   LEFT JOIN users u ON u.id = al.acknowledged_by`;
 
 const iso = (d: Date | null) => (d === null ? null : new Date(d).toISOString());
@@ -51,6 +51,9 @@ export function serialiseAlarm(r: AlarmViewRow) {
     site: { id: r.site_id, name: r.site_name, time_zone: r.time_zone },
     asset: r.asset_id ? { id: r.asset_id, name: r.asset_name } : null,
     channel: r.channel_id ? { id: r.channel_id, index: r.channel_index, device_id: r.device_id, device_name: r.device_name } : null,
+    device: r.device_id ? { id: r.device_id, name: r.device_name } : null,
+    cause_key: r.cause_key,
+    members: r.members,
     value: r.value,
     setpoint: r.setpoint,
     unit: r.unit,
@@ -68,7 +71,7 @@ export type AlarmJson = ReturnType<typeof serialiseAlarm>;
 
 const PRIORITY_ORDER = `CASE al.priority WHEN 'critical' THEN 0 WHEN 'high' THEN 1 WHEN 'medium' THEN 2 ELSE 3 END`;
 const STATE_ORDER = `CASE al.state WHEN 'unacknowledged' THEN 0 WHEN 'returned_unacknowledged' THEN 1 WHEN 'acknowledged' THEN 2
-  WHEN 'shelved' THEN 3 WHEN 'suppressed' THEN 4 WHEN 'out_of_service' THEN 5 ELSE 6 END`;
+  WHEN 'shelved' THEN 3 WHEN 'suppressed_by_design' THEN 4 WHEN 'out_of_service' THEN 5 ELSE 6 END`;
 
 const SORTS: Record<AlarmSort, string> = {
   priority: `${PRIORITY_ORDER}, al.activated_at DESC NULLS LAST`,
@@ -107,6 +110,11 @@ export async function listAlarms(scope: Scope, q: AlarmListQuery) {
     where.push("al.asset_id = :assetId");
     replacements.assetId = q.asset_id;
   }
+  if (q.device_id) {
+    where.push("al.device_id = :deviceId");
+    replacements.deviceId = q.device_id;
+  }
+  if (q.include !== "suppressed" && !q.state?.includes("suppressed_by_design")) where.push("al.state <> 'suppressed_by_design'");
   if (q.priority?.length) {
     where.push("al.priority IN (:priorities)");
     replacements.priorities = q.priority;
@@ -133,7 +141,35 @@ export async function listAlarms(scope: Scope, q: AlarmListQuery) {
     limit: q.page_size,
     offset: (q.page - 1) * q.page_size,
   });
-  return { total: Number(count.n), page: q.page, page_size: q.page_size, sort: q.sort, items: items.map((r) => serialiseAlarmFor(scope, r)) };
+  const page = { total: Number(count.n), page: q.page, page_size: q.page_size, sort: q.sort, items: items.map((r) => serialiseAlarmFor(scope, r)) };
+  if (!q.group) return page;
+  const groupable = await sqlRows<{ id: string; site_id: string; device_id: string | null; state: AlarmState; priority: AlarmPriority; condition_active: boolean; cause_key: string | null }>(
+    `SELECT al.id, al.site_id, al.device_id, al.state, al.priority, al.condition_active, al.cause_key
+     FROM alarms al JOIN sites s ON s.id = al.site_id LEFT JOIN assets a ON a.id = al.asset_id WHERE ${filter}`,
+    replacements,
+  );
+  const groups = groupAlarms(
+    groupable.map((g) => ({ id: g.id, siteId: g.site_id, deviceId: g.device_id, state: g.state, priority: g.priority, conditionActive: g.condition_active, causeKey: g.cause_key })),
+    q.group,
+  );
+  const names = await sqlRows<{ id: string; name: string }>(
+    `SELECT id, name FROM devices WHERE organisation_id = :organisationId UNION ALL SELECT id, name FROM sites WHERE organisation_id = :organisationId
+     UNION ALL SELECT ch.id, coalesce(a.name, d.name || ' channel ' || ch.index) FROM channels ch JOIN devices d ON d.id = ch.device_id LEFT JOIN assets a ON a.id = ch.asset_id
+     WHERE d.organisation_id = :organisationId`,
+    { organisationId: scope.organisationId },
+  );
+  const nameOf = new Map(names.map((n) => [n.id, n.name]));
+  return { ...page, groups: groups.map((g) => ({ ...g, label: groupLabel(g.by, g.id, nameOf) })) };
+}
+
+/** A group's heading: the device or site by name, a cause in words (consequential.ts key formats). */
+function groupLabel(by: string, id: string, nameOf: ReadonlyMap<string, string>): string {
+  if (by !== "cause") return nameOf.get(id) ?? id;
+  const [scope, scopeId, what] = id.split(":");
+  const name = nameOf.get(scopeId) ?? scopeId;
+  if (scope === "device" && what === "offline") return `${name} offline`;
+  if (scope === "channel") return `${what.replaceAll("_", " ")} fault on ${name}`;
+  return `${what.replaceAll("_", " ")} on several channels of ${name}`;
 }
 
 async function findAlarmRow(scope: Scope, id: string, transaction?: Transaction): Promise<AlarmViewRow> {

@@ -26,6 +26,11 @@ export const alarmListQuerySchema = z
     priority: commaList(ALARM_PRIORITIES, "priority").optional(),
     kind: commaList(ALARM_KINDS, "kind").optional(),
     asset_id: uuidSchema.optional(),
+    device_id: uuidSchema.optional(),
+    /** Alarms suppressed by design are left out unless asked for (or named in state). */
+    include: z.enum(["suppressed"], { message: "include is suppressed." }).optional(),
+    /** Adds the matching alarms grouped by cause, device or site with counts (lib/alarms/floods groupAlarms). */
+    group: z.enum(["cause", "device", "site"], { message: "group is one of cause, device, site." }).optional(),
     from: instant("from").optional(),
     to: instant("to").optional(),
     sort: z.enum(ALARM_SORTS, { message: `sort is one of ${ALARM_SORTS.join(", ")}.` }).default("priority"),
@@ -69,6 +74,16 @@ export function shelveExpiry(input: ShelveInput, now: Date): { until: Date } | {
 export const outOfServiceSchema = z
   .object({ reason: text({ message: "Give a reason." }).trim().min(1, "Give a reason.").max(500, "Keep the reason under 500 characters."), comment })
   .strict();
+
+/** A maintenance window on a device or a site (lib/alarms/maintenance.ts checks its length and reason). */
+export const maintenanceSchema = z
+  .object({
+    mode: z.enum(["shelve", "out_of_service"], { message: "mode is shelve or out_of_service." }),
+    reason: z.string({ message: "Give a reason." }).trim().max(500, "Keep the reason under 500 characters."),
+    until: instant("until"),
+  })
+  .strict();
+export type MaintenanceInput = z.infer<typeof maintenanceSchema>;
 
 export const plainActionSchema = z.object({ comment }).strict();
 

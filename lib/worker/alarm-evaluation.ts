@@ -18,6 +18,7 @@ import {
   shelveExpiry,
 } from "../alarms/engine";
 import type { LevelSample, SetpointKey, SetpointState } from "../alarms/setpoints";
+import { keepUnseenOccurrenceAsHistory } from "../alarms/late-history";
 import type { AlarmPriority } from "../alarms/state-machine";
 import type { HealthFlagKind } from "./compute/types";
 import { type AlarmDbRow, type EventToWrite, insertAlarmEvents, toRecord } from "../services/alarm-store";
@@ -55,24 +56,30 @@ interface SettingsDbRow {
   roc_enabled: boolean;
 }
 
-interface StageUpdate {
+export interface StageUpdate {
   row: AlarmDbRow;
   record: AlarmRecord;
   events: EngineEvent[];
   evalState: unknown;
   evaluatedUntil: Date | null;
+  /** Forget how far the alarm was evaluated (a released flag alarm is judged again from its open flag). */
+  resetEvaluatedUntil?: boolean;
+  /** The cause that suppresses it, null to clear; left as stored when undefined. */
+  causeKey?: string | null;
 }
 
 /** Creates the missing alarm rows of the tanks' setpoints and rate-of-change limits (in normal). */
 export async function ensureLevelAlarmRows(assetIds: readonly string[], transaction: Transaction): Promise<void> {
   if (assetIds.length === 0) return;
   await sqlRows(
-    `INSERT INTO alarms (organisation_id, site_id, asset_id, kind, priority, latching, unit)
-     SELECT a.organisation_id, a.site_id, sp.asset_id, sp.key, sp.priority, sp.latching, 'm'
-     FROM alarm_setpoints sp JOIN assets a ON a.id = sp.asset_id WHERE sp.asset_id = ANY($1::uuid[])
+    `WITH measuring AS (SELECT DISTINCT ON (asset_id) asset_id, device_id FROM channels WHERE asset_id = ANY($1::uuid[]) ORDER BY asset_id, index)
+     INSERT INTO alarms (organisation_id, site_id, asset_id, device_id, kind, priority, latching, unit)
+     SELECT a.organisation_id, a.site_id, sp.asset_id, m.device_id, sp.key, sp.priority, sp.latching, 'm'
+     FROM alarm_setpoints sp JOIN assets a ON a.id = sp.asset_id LEFT JOIN measuring m ON m.asset_id = a.id WHERE sp.asset_id = ANY($1::uuid[])
      UNION ALL
-     SELECT a.organisation_id, a.site_id, s.asset_id, 'rate_of_change', s.roc_priority, false, 'm/h'
-     FROM asset_alarm_settings s JOIN assets a ON a.id = s.asset_id WHERE s.asset_id = ANY($1::uuid[]) AND s.roc_limit_m_per_h IS NOT NULL
+     SELECT a.organisation_id, a.site_id, s.asset_id, m.device_id, 'rate_of_change', s.roc_priority, false, 'm/h'
+     FROM asset_alarm_settings s JOIN assets a ON a.id = s.asset_id LEFT JOIN measuring m ON m.asset_id = a.id
+     WHERE s.asset_id = ANY($1::uuid[]) AND s.roc_limit_m_per_h IS NOT NULL
      ON CONFLICT (asset_id, kind) WHERE channel_id IS NULL DO NOTHING
      RETURNING id`,
     [assetIds],
@@ -81,21 +88,25 @@ export async function ensureLevelAlarmRows(assetIds: readonly string[], transact
 }
 
 /** Writes the stage's changes: one UPDATE for all alarms, one INSERT for all events. */
-async function saveStageUpdates(updates: readonly StageUpdate[], transaction: Transaction): Promise<number> {
+export async function saveStageUpdates(updates: readonly StageUpdate[], transaction: Transaction): Promise<number> {
   if (updates.length === 0) return 0;
   const u = updates;
   await sqlRun(
     `UPDATE alarms al SET state = v.state, condition_active = v.condition_active, shelved_until = v.shelved_until,
        episode = v.episode, activations = v.activations, activated_at = v.activated_at, cleared_at = v.cleared_at,
        value = v.value, setpoint = v.setpoint, last_change_at = v.last_change_at,
-       eval_state = COALESCE(v.eval_state, al.eval_state), evaluated_until = COALESCE(v.evaluated_until, al.evaluated_until),
+       eval_state = COALESCE(v.eval_state, al.eval_state),
+       evaluated_until = CASE WHEN v.reset_until THEN NULL ELSE COALESCE(v.evaluated_until, al.evaluated_until) END,
+       cause_key = CASE WHEN v.set_cause THEN v.cause_key ELSE al.cause_key END,
        acknowledged_at = CASE WHEN v.new_episode THEN NULL ELSE al.acknowledged_at END,
        acknowledged_by = CASE WHEN v.new_episode THEN NULL ELSE al.acknowledged_by END,
        shelve_reason = CASE WHEN v.state = 'shelved' THEN al.shelve_reason ELSE NULL END,
        updated_at = now()
      FROM unnest($1::uuid[], $2::text[], $3::boolean[], $4::timestamptz[], $5::int[], $6::int[], $7::timestamptz[], $8::timestamptz[],
-                 $9::float8[], $10::float8[], $11::timestamptz[], $12::jsonb[], $13::timestamptz[], $14::boolean[])
-       AS v(id, state, condition_active, shelved_until, episode, activations, activated_at, cleared_at, value, setpoint, last_change_at, eval_state, evaluated_until, new_episode)
+                 $9::float8[], $10::float8[], $11::timestamptz[], $12::jsonb[], $13::timestamptz[], $14::boolean[],
+                 $15::boolean[], $16::boolean[], $17::text[])
+       AS v(id, state, condition_active, shelved_until, episode, activations, activated_at, cleared_at, value, setpoint, last_change_at, eval_state, evaluated_until, new_episode,
+            reset_until, set_cause, cause_key)
      WHERE al.id = v.id`,
     [
       u.map((x) => x.row.id),
@@ -112,6 +123,9 @@ async function saveStageUpdates(updates: readonly StageUpdate[], transaction: Tr
       u.map((x) => (x.evalState === undefined ? null : JSON.stringify(x.evalState))),
       u.map((x) => x.evaluatedUntil),
       u.map((x) => x.record.episode > x.row.episode),
+      u.map((x) => x.resetEvaluatedUntil ?? false),
+      u.map((x) => x.causeKey !== undefined),
+      u.map((x) => x.causeKey ?? null),
     ],
     { transaction },
   );
@@ -138,7 +152,7 @@ function groupBy<T>(items: readonly T[], key: (t: T) => string): Map<string, T[]
  * transaction. Tanks without alarm settings are skipped; their rows are locked in asset order, so two
  * workers with batches of one tank take turns.
  */
-export async function evaluateLevelAlarms(samples: readonly AssetLevelSample[], transaction: Transaction): Promise<StageCounts> {
+export async function evaluateLevelAlarms(samples: readonly AssetLevelSample[], now: Date, transaction: Transaction): Promise<StageCounts> {
   const byAsset = groupBy(samples, (s) => s.assetId);
   const assetIds = [...byAsset.keys()].sort();
   if (assetIds.length === 0) return { alarmsEvaluated: 0, events: 0 };
@@ -167,14 +181,16 @@ export async function evaluateLevelAlarms(samples: readonly AssetLevelSample[], 
       const stored = isSetpointState(row.eval_state) ? row.eval_state : null;
       const r = evaluateLevelAlarm(def, toRecord(row), stored, assetSamples);
       if (r.samplesUsed === 0 && r.events.length === 0) continue;
-      updates.push({ row, record: r.record, events: r.events, evalState: r.state, evaluatedUntil: r.state.lastAtMs === null ? null : new Date(r.state.lastAtMs) });
+      const kept = keepUnseenOccurrenceAsHistory(r, now);
+      updates.push({ row, record: kept.record, events: kept.events, evalState: r.state, evaluatedUntil: r.state.lastAtMs === null ? null : new Date(r.state.lastAtMs) });
     } else if (row.kind === "rate_of_change") {
       const s = settingsOf.get(row.asset_id as string);
       if (!s || s.roc_limit_m_per_h === null) continue;
       const stored = isRateState(row.eval_state) ? row.eval_state : null;
       const r = evaluateRateAlarm({ limitMPerH: s.roc_limit_m_per_h, enabled: s.roc_enabled }, toRecord(row), stored, history.get(row.asset_id as string) ?? [], assetSamples);
       if (r.state.lastEvalAtMs === stored?.lastEvalAtMs && r.events.length === 0) continue;
-      updates.push({ row, record: r.record, events: r.events, evalState: r.state, evaluatedUntil: r.state.lastEvalAtMs === null ? null : new Date(r.state.lastEvalAtMs) });
+      const kept = keepUnseenOccurrenceAsHistory(r, now);
+      updates.push({ row, record: kept.record, events: kept.events, evalState: r.state, evaluatedUntil: r.state.lastEvalAtMs === null ? null : new Date(r.state.lastEvalAtMs) });
     }
   }
   const last = new Map(assetIds.map((id) => [id, new Date(Math.max(...(byAsset.get(id) ?? []).map((s) => s.at.getTime())))]));
@@ -230,12 +246,12 @@ interface FlagDbRow {
 }
 
 /** Applies health-flag rows to their channels' alarms (creating the alarms the first time a flag shows). */
-async function applyFlagRows(flags: readonly FlagDbRow[], extraAlarmIds: readonly string[], transaction: Transaction): Promise<StageCounts> {
+async function applyFlagRows(flags: readonly FlagDbRow[], extraAlarmIds: readonly string[], now: Date, transaction: Transaction): Promise<StageCounts> {
   const keys = [...new Map(flags.map((f) => [`${f.channel_id}:${f.flag}`, f])).values()];
   if (keys.length) {
     await sqlRows(
-      `INSERT INTO alarms (organisation_id, site_id, asset_id, channel_id, kind, priority)
-       SELECT d.organisation_id, d.site_id, ch.asset_id, v.channel_id, v.flag, v.priority
+      `INSERT INTO alarms (organisation_id, site_id, asset_id, channel_id, device_id, kind, priority)
+       SELECT d.organisation_id, d.site_id, ch.asset_id, v.channel_id, d.id, v.flag, v.priority
        FROM unnest($1::uuid[], $2::text[], $3::text[]) AS v(channel_id, flag, priority)
        JOIN channels ch ON ch.id = v.channel_id JOIN devices d ON d.id = ch.device_id
        ON CONFLICT (channel_id, kind) WHERE channel_id IS NOT NULL DO NOTHING
@@ -259,7 +275,7 @@ async function applyFlagRows(flags: readonly FlagDbRow[], extraAlarmIds: readonl
     const untilMs = row.evaluated_until === null ? null : new Date(row.evaluated_until).getTime();
     const changes = healthFlagChanges(row.kind as HealthFlagKind, intervals, untilMs, row.condition_active);
     if (changes.length === 0) continue;
-    const r = applyConditionChanges(toRecord(row), changes);
+    const r = keepUnseenOccurrenceAsHistory(applyConditionChanges(toRecord(row), changes), now);
     const latest = Math.max(untilMs ?? -Infinity, ...changes.map((c) => new Date(c.at).getTime()));
     updates.push({ row, record: r.record, events: r.events, evalState: undefined, evaluatedUntil: new Date(latest) });
   }
@@ -267,7 +283,7 @@ async function applyFlagRows(flags: readonly FlagDbRow[], extraAlarmIds: readonl
 }
 
 /** Health flags a batch wrote (inside its transaction, where now() is the transaction's start). */
-export async function evaluateHealthAlarmsForChannels(channelIds: readonly string[], transaction: Transaction): Promise<StageCounts> {
+export async function evaluateHealthAlarmsForChannels(channelIds: readonly string[], now: Date, transaction: Transaction): Promise<StageCounts> {
   if (channelIds.length === 0) return { alarmsEvaluated: 0, events: 0 };
   const flags = await sqlRows<FlagDbRow>(
     `SELECT id, channel_id, flag, since, cleared_at, magnitude, updated_at FROM health_flags
@@ -275,7 +291,7 @@ export async function evaluateHealthAlarmsForChannels(channelIds: readonly strin
     [channelIds],
     { transaction },
   );
-  return applyFlagRows(flags, [], transaction);
+  return applyFlagRows(flags, [], now, transaction);
 }
 
 const HEALTH_CURSOR = "health_flags";
@@ -288,7 +304,7 @@ const CURSOR_OVERLAP_MS = 10 * 60_000;
  * whose condition is still active: offline flags are raised between batches, so this runs on the
  * worker's cycle as well as after batches.
  */
-export async function sweepHealthAlarms(transaction: Transaction): Promise<StageCounts> {
+export async function sweepHealthAlarms(now: Date, transaction: Transaction): Promise<StageCounts> {
   await sqlRows(`INSERT INTO alarm_stage_cursors (name, at) VALUES ($1, '-infinity') ON CONFLICT (name) DO NOTHING RETURNING name`, [HEALTH_CURSOR], { transaction });
   const [cursor] = await sqlRows<{ at: Date | string }>(`SELECT at FROM alarm_stage_cursors WHERE name = $1 FOR UPDATE`, [HEALTH_CURSOR], { transaction });
   const active = await sqlRows<{ id: string; channel_id: string; kind: HealthFlagKind }>(
@@ -308,7 +324,7 @@ export async function sweepHealthAlarms(transaction: Transaction): Promise<Stage
     [cursor.at, active.map((a) => a.channel_id), active.map((a) => a.kind)],
     { transaction },
   );
-  const counts = await applyFlagRows(flags, active.map((a) => a.id), transaction);
+  const counts = await applyFlagRows(flags, active.map((a) => a.id), now, transaction);
   const newest = flags.reduce((max, f) => Math.max(max, new Date(f.updated_at).getTime()), -Infinity);
   if (Number.isFinite(newest)) {
     await sqlRows(`UPDATE alarm_stage_cursors SET at = greatest(at, $2::timestamptz) WHERE name = $1 RETURNING name`, [HEALTH_CURSOR, new Date(newest - CURSOR_OVERLAP_MS)], { transaction });

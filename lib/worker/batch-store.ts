@@ -13,6 +13,7 @@ import { PIPELINE_SETTINGS } from "./compute/settings";
 import type { TemperatureSample } from "./compute/air-temperature";
 import type { AssetKind, ChannelConfig, ReadingRow, SignalProfile } from "./compute/types";
 import { sqlRows, sqlRun } from "../db/sql";
+import { OFFLINE_AFTER_INTERVALS, isGapObservedLive, observedOutages } from "../alarms/late-history";
 
 // ── Readings ────────────────────────────────────────────────────────────────────────────────────
 
@@ -260,6 +261,34 @@ export async function insertTemperatureSamples(samples: readonly NewTemperatureS
   );
 }
 
+/**
+ * Offline intervals are gaps between measurement times inside a batch; only those during which no
+ * reading ARRIVED for the offline limit were outages (late-history.ts rule 3). A backfill or an import
+ * fills a gap with readings that arrived together: a data gap, not an offline period.
+ */
+async function keepOutagesObservedLive(intervals: FlagChanges["intervals"], transaction: Transaction): Promise<FlagChanges["intervals"]> {
+  const gaps = intervals.map((x, i) => ({ x, i })).filter(({ x }) => x.flag === "offline");
+  if (gaps.length === 0) return intervals;
+  const intervalS = (x: FlagChanges["intervals"][number]) => Number((x.details as { expected_interval_s?: number }).expected_interval_s) || 60;
+  const gapFrom = (x: FlagChanges["intervals"][number]) => new Date(x.since.getTime() - OFFLINE_AFTER_INTERVALS * intervalS(x) * 1000);
+  const arrivals = await sqlRows<{ i: number; received_at: Date }>(
+    `SELECT v.i, r.received_at
+     FROM unnest($1::uuid[], $2::timestamptz[], $3::timestamptz[], $4::int[]) AS v(channel_id, gap_from, gap_to, i)
+     JOIN channels ch ON ch.id = v.channel_id
+     JOIN readings r ON r.device_id = ch.device_id AND r.channel = ch.index AND r.at >= v.gap_from AND r.at <= v.gap_to`,
+    [gaps.map(({ x }) => x.channelId), gaps.map(({ x }) => gapFrom(x)), gaps.map(({ x }) => x.clearedAt), gaps.map(({ i }) => i)],
+    { transaction },
+  );
+  const now = new Date();
+  const dropped = new Set<number>();
+  for (const { x, i } of gaps) {
+    const seen = arrivals.filter((a) => a.i === i).map((a) => a.received_at);
+    const outages = observedOutages(seen, intervalS(x), now);
+    if (!isGapObservedLive(gapFrom(x), x.clearedAt, outages, now)) dropped.add(i);
+  }
+  return intervals.filter((_, i) => !dropped.has(i));
+}
+
 export async function applyFlagChanges(flags: FlagChanges, offlineCleared: readonly { channelId: string; at: Date }[], transaction: Transaction): Promise<void> {
   const clears = [...flags.clears, ...offlineCleared.map((o) => ({ channelId: o.channelId, flag: "offline" as const, at: o.at }))];
   if (clears.length) {
@@ -271,8 +300,9 @@ export async function applyFlagChanges(flags: FlagChanges, offlineCleared: reado
       { transaction },
     );
   }
-  if (flags.intervals.length) {
-    const f = flags.intervals;
+  const intervals = await keepOutagesObservedLive(flags.intervals, transaction);
+  if (intervals.length) {
+    const f = intervals;
     await sqlRun(
       `INSERT INTO health_flags (channel_id, flag, since, cleared_at, magnitude, details)
        SELECT * FROM unnest($1::uuid[], $2::text[], $3::timestamptz[], $4::timestamptz[], $5::float8[], $6::jsonb[])`,

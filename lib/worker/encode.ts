@@ -301,7 +301,7 @@ const STATE_COLUMNS: [name: string, type: BinaryType][] = [
 ];
 
 const updateStatesSql = (first: number) => `
-  UPDATE channel_state s SET state = v.state::jsonb, last_at = v.last_at, last_reading_id = v.last_reading_id,
+  UPDATE channel_state s SET state = v.state::jsonb, last_at = v.last_at, last_reading_id = v.last_reading_id, last_received_at = now(),
     offline_since = CASE WHEN v.clear_offline THEN NULL ELSE s.offline_since END, version = s.version + 1, updated_at = now()
   FROM ${unnestedRows(STATE_COLUMNS, "v", first)}
   WHERE s.channel_id = v.channel_id`;

@@ -16,8 +16,9 @@ export async function ensurePartitions(): Promise<void> {
 
 /**
  * Flags channels silent for more than 3 expected intervals (PRODUCT.md), dated from the moment the
- * third interval passed; their next reading clears it. Run only when the queue is empty, so waiting
- * readings are not mistaken for silence. Channels being worked on right now are skipped.
+ * third interval passed after the last reading ARRIVED (a backfill catching up on old measurement
+ * times is not silence: lib/alarms/late-history.ts rule 3); their next reading clears it. Run only
+ * when the queue is empty, so waiting readings are not mistaken for silence. Channels being worked on right now are skipped.
  */
 export async function markOfflineChannels(): Promise<number> {
   return getSequelize().transaction(async (transaction) => {
@@ -25,9 +26,9 @@ export async function markOfflineChannels(): Promise<number> {
     const rows = await sqlRows<{ n: number }>(
       `WITH due AS (
          SELECT s.channel_id, s.last_at, d.expected_interval_s,
-                coalesce(s.last_at, c.created_at) + make_interval(secs => 3 * d.expected_interval_s) AS since
+                coalesce(s.last_received_at, s.last_at, c.created_at) + make_interval(secs => 3 * d.expected_interval_s) AS since
          FROM channel_state s JOIN channels c ON c.id = s.channel_id JOIN devices d ON d.id = c.device_id
-         WHERE s.offline_since IS NULL AND coalesce(s.last_at, c.created_at) + make_interval(secs => 3 * d.expected_interval_s) < now()
+         WHERE s.offline_since IS NULL AND coalesce(s.last_received_at, s.last_at, c.created_at) + make_interval(secs => 3 * d.expected_interval_s) < now()
          FOR UPDATE OF s SKIP LOCKED
        ), marked AS (
          UPDATE channel_state s SET offline_since = due.since, version = s.version + 1 FROM due WHERE s.channel_id = due.channel_id

@@ -111,17 +111,13 @@ describe("stuck, offline and crosstalk", () => {
     expect(flag!.details.value).toBe(5831);
   });
 
-  it("dates a gap of more than three expected intervals in the history as offline (PRODUCT.md rule)", async () => {
+  it("takes a gap that one upload fills, and a silence seen only in measurement times, for a data gap, not offline (late-history rule 3)", async () => {
+    // Readings every 60 s with none between minutes 24 and 40 and none after 44, all sent together just
+    // now: no reading was ever missed as it arrived, so neither is an offline period (PRODUCT.md: offline
+    // is no reading for 3 expected intervals; lib/alarms/late-history.ts judges that by arrival).
     const { open, cleared } = await health(admin, stuck.channels[0].id);
-    const gap = cleared.find((f) => f.flag === "offline");
-    expect(gap).toBeDefined();
-    // Last reading at minute 24, expected every 60 s: offline from minute 27 until the reading at minute 40.
-    expect(new Date(gap!.since).getTime()).toBe(atMs(27));
-    expect(new Date(gap!.cleared_at as string).getTime()).toBe(atMs(40));
-    // Silent since minute 44, almost an hour ago: offline now.
-    const now = open.find((f) => f.flag === "offline");
-    expect(now).toBeDefined();
-    expect(new Date(now!.since).getTime()).toBe(atMs(47));
+    expect(cleared.filter((f) => f.flag === "offline")).toEqual([]);
+    expect(open.filter((f) => f.flag === "offline")).toEqual([]);
   });
 
   it("flags both channels of a device pinged 20 ms apart (60 ms rule, common practice)", async () => {

@@ -6,6 +6,8 @@ import { PageHeader } from "@/components/ui/page-header";
 import { Loading } from "@/components/ui/data-state";
 import { AlarmCaution } from "@/components/alarms/alarm-caution";
 import { AlarmTable } from "@/components/alarms/alarm-table";
+import { AlarmFloodBanner } from "@/components/alarms/alarm-flood-banner";
+import { AlarmCauseGroups } from "@/components/alarms/alarm-cause-groups";
 
 export const metadata: Metadata = { title: "Alarms" };
 
@@ -20,6 +22,8 @@ export default async function AlarmsPage() {
         actions={<Link href="/alarm-health" className="btn-quiet">Alarm health</Link>}
       />
       <AlarmCaution />
+      <AlarmFloodBanner organisationId={user.organisationId} />
+      <AlarmCauseGroups />
       <Suspense fallback={<Loading />}>
         <AlarmTable role={user.role} />
       </Suspense>

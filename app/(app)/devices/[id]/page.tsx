@@ -6,6 +6,7 @@ import { findDevice } from "@/lib/services/devices";
 import { findOrNotFound } from "@/lib/http/not-found";
 import { PageHeader } from "@/components/ui/page-header";
 import { DeviceDetail } from "@/components/devices/device-detail";
+import { MaintenanceButton } from "@/components/alarms/maintenance-button";
 
 export const metadata: Metadata = { title: "Device" };
 
@@ -22,6 +23,7 @@ export default async function DevicePage({ params }: { params: Promise<{ id: str
         facts={<>Serial <span className="figures">{device.serial}</span> · {device.profile}</>}
         actions={canManage && <Link href={`/devices/${id}/edit`} className="btn-quiet">Edit device</Link>}
       />
+      {can(user.role, "alarm:shelve") && <MaintenanceButton scope="device" id={id} mayTakeOutOfService={can(user.role, "alarm:out_of_service")} />}
       <DeviceDetail id={id} canManage={canManage} />
     </>
   );
