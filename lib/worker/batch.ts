@@ -14,7 +14,7 @@
 import type { Transaction } from "sequelize";
 import { getSequelize } from "../db/sequelize";
 import { QUEUED_READING_COLUMNS } from "./reading-queue";
-import { channelKey, processBatch, processBatchInSteps, type ProcessedBatch } from "./compute/batch";
+import { processBatch, processBatchInSteps, type ProcessedBatch } from "./compute/batch";
 import type { ChannelState } from "./compute/channel-state";
 import type { ChannelConfig, ReadingRow } from "./compute/types";
 import { loadChannelsOfDevices, loadTemperatureChannelSites, loadTemperatureSamples, lockChannelStates, fetchReadings, MICROS_TO_TIMESTAMPTZ, readingsAsArrays, type LockedChannelState } from "./batch-store";
@@ -192,7 +192,6 @@ async function prepareBatch(claimed: Claimed, before: InFlight | null, beforeCom
     const expected = before ? before.prepared.written() : null;
     const carried = ids.filter((id) => expected?.has(id));
     const fresh = await lockChannelStates(ids.filter((id) => !expected?.has(id)), transaction);
-    const channels = new Map(channelList.map((c) => [channelKey(c.device.id, c.index), c]));
     // Queued before the claim lock is released, so no later batch can take these rows first; the lock
     // is granted when the batch in flight commits, and this connection waits for it meanwhile.
     unlocked = true;
@@ -201,7 +200,7 @@ async function prepareBatch(claimed: Claimed, before: InFlight | null, beforeCom
     beforeCompute();
 
     const assumed = mergeStates(fresh, new Map(carried.map((id) => [id, expected!.get(id)!])));
-    const input = { readings, channels, temperatureSamples, temperatureChannelSites };
+    const input = { readings, channels: channelList, temperatureSamples, temperatureChannelSites };
     // In turns, so the write of the batch before goes on from statement to statement meanwhile.
     let batch = await processBatchInSteps({ ...input, states: assumed }, yieldToIo);
     await yieldToIo();

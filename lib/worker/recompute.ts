@@ -4,7 +4,7 @@
 // channel is rebuilt in one transaction from a fresh state, so doing it twice gives the same rows.
 
 import { getSequelize } from "../db/sequelize";
-import { channelKey, processBatch } from "./compute/batch";
+import { processBatch } from "./compute/batch";
 import { initialChannelState, type ChannelState } from "./compute/channel-state";
 import { loadChannel, loadTemperatureChannelSites, loadTemperatureSamples, lockChannelStates, fetchReadings, MICROS_TO_TIMESTAMPTZ, readingsAsArrays } from "./batch-store";
 import { writeProcessedBatch } from "./encode";
@@ -43,7 +43,6 @@ export async function recomputeChannel(channelId: string): Promise<number> {
     let state: ChannelState = { ...initialChannelState(), open: crosstalk.length ? { crosstalk_risk: { sinceMs: crosstalk[0].since.getTime() } } : {} };
     await sqlRun(`UPDATE channel_state SET state = $2::jsonb, last_at = NULL, last_reading_id = NULL, version = version + 1 WHERE channel_id = $1`, [channelId, JSON.stringify(state)], { transaction });
 
-    const channels = new Map([[channelKey(d, channel.index), channel]]);
     const temperatureChannelSites = await loadTemperatureChannelSites([channelId], transaction);
     // Keyset paging from before any plausible reading (1900-01-01).
     let after = { micros: -2_208_988_800_000_000, id: 0 };
@@ -61,7 +60,7 @@ export async function recomputeChannel(channelId: string): Promise<number> {
       );
       if (readings.length === 0) break;
       const temperatureSamples = await loadTemperatureSamples([channel.site.id], readings[0].at, readings[readings.length - 1].at, transaction);
-      const batch = processBatch({ readings, channels, states: new Map([[channelId, { state, offlineSince: null }]]), temperatureSamples, temperatureChannelSites });
+      const batch = processBatch({ readings, channels: [channel], states: new Map([[channelId, { state, offlineSince: null }]]), temperatureSamples, temperatureChannelSites });
       written += (await writeProcessedBatch(batch, transaction)).inserted;
       state = batch.states.get(channelId) ?? state;
       const last = readings[readings.length - 1];
