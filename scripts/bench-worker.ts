@@ -9,6 +9,8 @@
 // one JSON object with the figures.
 //
 // Options: BENCH_READINGS (default 1000000), BENCH_CHANNELS (2000), WORKER_BATCH_SIZE, --keep (leave the database).
+// A/B: BENCH_AB=a.cjs,b.cjs (worker bundles built beforehand) and BENCH_ROUNDS (3) run one worker of
+// each bundle in turn, each on a fresh copy of the same seeded backlog, and print every rate (no anchor).
 import { spawn } from "node:child_process";
 import { randomUUID } from "node:crypto";
 import fs from "node:fs";
@@ -179,6 +181,28 @@ const fmt = (n: number) => n.toLocaleString("en-GB");
 const mb = (kb: number) => Math.round(kb / 1024);
 const loadAverage = () => os.loadavg().map((l) => l.toFixed(2)).join(", ");
 
+/** A/B: one worker of each bundle in turn, each on its own file copy of the twin (the untouched backlog). */
+async function compareBundles(bundles: string[], queued: number, runEnv: (e: NodeJS.ProcessEnv) => NodeJS.ProcessEnv, env: NodeJS.ProcessEnv): Promise<void> {
+  const rounds = Number(process.env.BENCH_ROUNDS ?? 3);
+  const rates = new Map<string, number[]>(bundles.map((b) => [b, []]));
+  for (let round = 1; round <= rounds; round++) {
+    for (const bundle of bundles) {
+      const copy = `${dbName}_ab`;
+      await withClient(adminUrl, async (c) => {
+        await c.query(`DROP DATABASE IF EXISTS ${copy} WITH (FORCE)`);
+        await c.query(`CREATE DATABASE ${copy} TEMPLATE ${twinName} STRATEGY FILE_COPY`);
+        await c.query("CHECKPOINT");
+      });
+      const run = await runWorkers(1, path.resolve(bundle), runEnv({ ...env, DATABASE_URL: dbUrl(copy), WORKER_QUIET: "1" }));
+      await checkDrained(dbUrl(copy), queued);
+      await withClient(adminUrl, (c) => c.query(`DROP DATABASE ${copy} WITH (FORCE)`));
+      rates.get(bundle)!.push(perSecond(queued, run.seconds));
+      log(`round ${round} ${bundle}: ${fmt(perSecond(queued, run.seconds))} readings/s, peak RSS ${mb(run.peakRssKb[0])} MB, load ${loadAverage()}`);
+    }
+  }
+  for (const [bundle, r] of rates) log(`${bundle}: ${r.map(fmt).join(", ")} readings/s (median ${fmt([...r].sort((a, b) => a - b)[r.length >> 1])})`);
+}
+
 async function main() {
   await ensureBenchPostgres();
   const perChannel = Math.ceil(readingsWanted / channels);
@@ -210,10 +234,14 @@ async function main() {
     });
     log(`seeded ${queued} queued readings (and a copy) in ${((Date.now() - seedStart) / 1000).toFixed(1)} s`);
 
+    const { workerRunEnv } = await import("./lib/worker-env.mjs");
+    if (process.env.BENCH_AB) {
+      await compareBundles(process.env.BENCH_AB.split(","), queued, workerRunEnv, env);
+      return;
+    }
     // The worker as production runs it: bundled by scripts/build-worker.mjs, plain Node.
     execFileSync(process.execPath, ["scripts/build-worker.mjs"], { cwd: root, stdio: "inherit" });
     const workerBundle = path.join(root, ".worker", "worker.cjs");
-    const { workerRunEnv } = await import("./lib/worker-env.mjs");
 
     const one = await runWorkers(1, workerBundle, workerRunEnv(env));
     const rate1 = perSecond(queued, one.seconds);
