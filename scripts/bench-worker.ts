@@ -96,7 +96,11 @@ function seedSql(perChannel: number): string {
 
 interface Peak {
   rssKb: number;
+  /** CPU seconds (user + system) of the process and its children at the last poll. */
+  cpuS: number;
 }
+
+const CLOCK_TICKS = 100; // USER_HZ on Linux (sysconf(_SC_CLK_TCK))
 
 function descendants(pid: number): number[] {
   const out: number[] = [pid];
@@ -120,15 +124,21 @@ function descendants(pid: number): number[] {
  */
 function watchPeakRss(pid: number, peak: Peak): NodeJS.Timeout {
   return setInterval(() => {
+    let ticks = 0;
     for (const p of descendants(pid)) {
       try {
         const status = fs.readFileSync(`/proc/${p}/status`, "utf8");
         const hwm = Number(/VmHWM:\s+(\d+)/.exec(status)?.[1] ?? 0);
         peak.rssKb = Math.max(peak.rssKb, hwm);
+        // utime and stime, fields 14 and 15 of /proc/<pid>/stat (proc(5)).
+        const raw = fs.readFileSync(`/proc/${p}/stat`, "utf8");
+        const stat = raw.slice(raw.lastIndexOf(")") + 2).split(" ");
+        ticks += Number(stat[11]) + Number(stat[12]);
       } catch {
         // Gone already.
       }
     }
+    peak.cpuS = Math.max(peak.cpuS, ticks / CLOCK_TICKS);
   }, 500);
 }
 
@@ -137,13 +147,15 @@ interface WorkerRun {
   /** The workers' own account of their first cycle's queue drain, ms each. */
   drainMs: number[];
   peakRssKb: number[];
+  /** CPU seconds of each worker, as last polled (up to half a second before it exited). */
+  cpuS: number[];
 }
 
 /** Starts `count` bundled workers with `--once` on one database and waits until all have exited. */
 async function runWorkers(count: number, workerBundle: string, env: NodeJS.ProcessEnv): Promise<WorkerRun> {
   const started = process.hrtime.bigint();
   const runs = Array.from({ length: count }, async (_, i) => {
-    const peak: Peak = { rssKb: 0 };
+    const peak: Peak = { rssKb: 0, cpuS: 0 };
     const child = spawn(process.execPath, [workerBundle, "--once"], { cwd: root, env, stdio: ["ignore", "pipe", "inherit"] });
     let output = "";
     child.stdout.on("data", (chunk: Buffer) => {
@@ -154,10 +166,10 @@ async function runWorkers(count: number, workerBundle: string, env: NodeJS.Proce
     const code: number = await new Promise((resolve) => child.on("exit", (c) => resolve(c ?? 1)));
     clearInterval(timer);
     if (code !== 0) throw new Error(`worker ${i + 1} exited with ${code}`);
-    return { drainMs: Number(/drain (\d+)/.exec(output)?.[1] ?? 0), rssKb: peak.rssKb };
+    return { drainMs: Number(/drain (\d+)/.exec(output)?.[1] ?? 0), rssKb: peak.rssKb, cpuS: peak.cpuS };
   });
   const done = await Promise.all(runs);
-  return { seconds: Number(process.hrtime.bigint() - started) / 1e9, drainMs: done.map((d) => d.drainMs), peakRssKb: done.map((d) => d.rssKb) };
+  return { seconds: Number(process.hrtime.bigint() - started) / 1e9, drainMs: done.map((d) => d.drainMs), peakRssKb: done.map((d) => d.rssKb), cpuS: done.map((d) => d.cpuS) };
 }
 
 /** Every queued reading measured exactly once, and the rollups counting them all. */
@@ -185,6 +197,7 @@ const loadAverage = () => os.loadavg().map((l) => l.toFixed(2)).join(", ");
 async function compareBundles(bundles: string[], queued: number, runEnv: (e: NodeJS.ProcessEnv) => NodeJS.ProcessEnv, env: NodeJS.ProcessEnv): Promise<void> {
   const rounds = Number(process.env.BENCH_ROUNDS ?? 3);
   const rates = new Map<string, number[]>(bundles.map((b) => [b, []]));
+  const cpu = new Map<string, number[]>(bundles.map((b) => [b, []]));
   for (let round = 1; round <= rounds; round++) {
     for (const bundle of bundles) {
       const copy = `${dbName}_ab`;
@@ -197,10 +210,15 @@ async function compareBundles(bundles: string[], queued: number, runEnv: (e: Nod
       await checkDrained(dbUrl(copy), queued);
       await withClient(adminUrl, (c) => c.query(`DROP DATABASE ${copy} WITH (FORCE)`));
       rates.get(bundle)!.push(perSecond(queued, run.seconds));
-      log(`round ${round} ${bundle}: ${fmt(perSecond(queued, run.seconds))} readings/s, peak RSS ${mb(run.peakRssKb[0])} MB, load ${loadAverage()}`);
+      cpu.get(bundle)!.push(run.cpuS[0]);
+      log(`round ${round} ${bundle}: ${fmt(perSecond(queued, run.seconds))} readings/s, worker CPU ${run.cpuS[0].toFixed(1)} s, peak RSS ${mb(run.peakRssKb[0])} MB, load ${loadAverage()}`);
     }
   }
-  for (const [bundle, r] of rates) log(`${bundle}: ${r.map(fmt).join(", ")} readings/s (median ${fmt([...r].sort((a, b) => a - b)[r.length >> 1])})`);
+  const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[xs.length >> 1];
+  for (const [bundle, r] of rates) {
+    const c = cpu.get(bundle)!;
+    log(`${bundle}: ${r.map(fmt).join(", ")} readings/s (median ${fmt(median(r))}); worker CPU ${c.map((x) => x.toFixed(1)).join(", ")} s (median ${median(c).toFixed(1)})`);
+  }
 }
 
 async function main() {
@@ -247,7 +265,7 @@ async function main() {
     const rate1 = perSecond(queued, one.seconds);
     log(`1 worker drained ${queued} readings in ${one.seconds.toFixed(1)} s → ${fmt(rate1)} readings/s (process start included)`);
     if (one.drainMs[0] > 0) log(`1 worker: queue drain alone ${(one.drainMs[0] / 1000).toFixed(1)} s → ${fmt(perSecond(queued, one.drainMs[0] / 1000))} readings/s`);
-    log(`1 worker: peak RSS ${mb(one.peakRssKb[0])} MB`);
+    log(`1 worker: peak RSS ${mb(one.peakRssKb[0])} MB, CPU ${one.cpuS[0].toFixed(1)} s`);
     log(`1 worker check: ${await checkDrained(url, queued)}`);
 
     const anchor = await withClient(url, runAnchor);
@@ -265,7 +283,7 @@ async function main() {
     const two = await runWorkers(2, workerBundle, workerRunEnv({ ...env, DATABASE_URL: twinUrl }));
     const rate2 = perSecond(queued, two.seconds);
     log(`2 workers drained ${queued} readings in ${two.seconds.toFixed(1)} s → ${fmt(rate2)} readings/s (process start included)`);
-    log(`2 workers: peak RSS ${two.peakRssKb.map(mb).join(" MB, ")} MB`);
+    log(`2 workers: peak RSS ${two.peakRssKb.map(mb).join(" MB, ")} MB, CPU ${two.cpuS.map((x) => x.toFixed(1)).join(" s, ")} s`);
     log(`2 workers check: ${await checkDrained(twinUrl, queued)}`);
 
     const ratio = Math.round((rate1 / anchorRate) * 1000) / 1000;
@@ -282,6 +300,7 @@ async function main() {
         two_workers_vs_one: scaling,
         anchor_rows_per_s: anchorRate,
         peak_rss_mb: { "1": mb(one.peakRssKb[0]), "2": two.peakRssKb.map(mb) },
+        worker_cpu_s: { "1": Math.round(one.cpuS[0] * 10) / 10, "2": two.cpuS.map((x) => Math.round(x * 10) / 10) },
         load_average: { before: Math.round(loadBefore * 100) / 100, after: Math.round(os.loadavg()[0] * 100) / 100 },
       }) + "\n",
     );
