@@ -37,17 +37,17 @@ const DEFAULT_N_SIGMAS = 3;
 // Three values are the fewest whose median and MAD survive one outlier among them.
 const DEFAULT_MIN_WINDOW = 3;
 
-// Scratch buffers, grown when a longer window comes (the worker's windows are 2·halfWindow values).
-let pairs = new Float64Array(64 * 64);
-let scratch = new Float64Array(64);
-let residuals = new Float64Array(64);
-
-function ensureCapacity(n: number): void {
-  if (n <= scratch.length) return;
-  scratch = new Float64Array(n);
-  residuals = new Float64Array(n);
-  pairs = new Float64Array((n * (n - 1)) / 2);
+// Scratch buffers for windows of up to 64 values (the worker's are 2·halfWindow); a longer window
+// gets buffers of its own.
+interface Scratch {
+  pairs: Float64Array;
+  values: Float64Array;
+  residuals: Float64Array;
 }
+const scratchFor = (n: number): Scratch => ({ pairs: new Float64Array((n * (n - 1)) / 2), values: new Float64Array(n), residuals: new Float64Array(n) });
+const MAX_SHARED = 64;
+const shared = scratchFor(MAX_SHARED);
+const buffersFor = (n: number): Scratch => (n <= MAX_SHARED ? shared : scratchFor(n));
 
 /** Median of the first n values of buf, reordering them in place. */
 function medianInPlace(buf: Float64Array, n: number): number {
@@ -95,7 +95,7 @@ function medianInPlace(buf: Float64Array, n: number): number {
 }
 
 /** The identifier on the first n values (n ≥ 1). */
-function outlier(values: ArrayLike<number>, n: number, x: number, nSigmas: number, minSigma: number): boolean {
+function outlier(values: ArrayLike<number>, n: number, x: number, nSigmas: number, minSigma: number, scratch: Float64Array): boolean {
   for (let i = 0; i < n; i++) scratch[i] = values[i];
   const med = medianInPlace(scratch, n);
   for (let i = 0; i < n; i++) scratch[i] = Math.abs(values[i] - med);
@@ -108,8 +108,7 @@ function outlier(values: ArrayLike<number>, n: number, x: number, nSigmas: numbe
 export function isHampelOutlier(window: readonly number[], x: number, options: HampelOptions = {}): boolean {
   const n = window.length;
   if (n === 0) return false;
-  ensureCapacity(n);
-  return outlier(window, n, x, options.nSigmas ?? DEFAULT_N_SIGMAS, options.minSigma ?? 0);
+  return outlier(window, n, x, options.nSigmas ?? DEFAULT_N_SIGMAS, options.minSigma ?? 0, buffersFor(n).values);
 }
 
 /**
@@ -120,20 +119,20 @@ export function isHampelSpike(window: readonly number[], x: number, options: Ham
   const n = window.length;
   const { nSigmas = DEFAULT_N_SIGMAS, minSigma = 0, minWindow = DEFAULT_MIN_WINDOW, detrend = false } = options;
   if (n < Math.max(1, minWindow)) return false;
-  ensureCapacity(n);
-  if (!detrend) return outlier(window, n, x, nSigmas, minSigma);
+  const { pairs, values: scratch, residuals } = buffersFor(n);
+  if (!detrend) return outlier(window, n, x, nSigmas, minSigma, scratch);
   // Theil–Sen through (i, window[i]): median of pairwise slopes, then median of yᵢ − slope·i. Its
   // intercept makes the residuals' median zero, so the plain identifier applies to them.
   let k = 0;
   for (let i = 0; i < n; i++) {
     for (let j = i + 1; j < n; j++) pairs[k++] = (window[j] - window[i]) / (j - i);
   }
-  if (k === 0) return outlier(window, n, x, nSigmas, minSigma);
+  if (k === 0) return outlier(window, n, x, nSigmas, minSigma, scratch);
   const slope = medianInPlace(pairs, k);
   for (let i = 0; i < n; i++) scratch[i] = window[i] - slope * i;
   const intercept = medianInPlace(scratch, n);
   for (let i = 0; i < n; i++) residuals[i] = window[i] - (intercept + slope * i);
-  return outlier(residuals, n, x - (intercept + slope * n), nSigmas, minSigma);
+  return outlier(residuals, n, x - (intercept + slope * n), nSigmas, minSigma, scratch);
 }
 
 /**
