@@ -1,9 +1,16 @@
 // Worker benchmark (`npm run bench:worker`): a fresh database with 2,000 channels and a backlog of
-// 1,000,000 queued readings generated in SQL, then ONE worker (`workers/worker.ts --once`, bundled as production runs it, a child
-// process) drains it. Prints readings/s and the worker's peak RSS, and checks that every reading got
-// exactly one measurement. Target (issue 4): ≥ 50,000 readings/s and ≤ 300 MB RSS.
+// 1,000,000 queued readings generated in SQL, copied once (the same backlog twice). ONE worker
+// (`workers/worker.ts --once`, bundled as production runs it, a child process) drains the first copy;
+// then, in that database, ONE set-based INSERT … SELECT of the same arithmetic (scripts/bench/worker-anchor.ts)
+// measures the same readings again as the anchor; then TWO workers drain the second copy together.
+// Prints every rate, the worker's rate as a ratio to the anchor's and two workers' to one's, peak RSS,
+// and checks that every reading got exactly one measurement and the anchor the worker's distances.
+// Targets (issue 11): ratio ≥ 0.35 with peak RSS ≤ 300 MB; two workers ≥ 1.3× one. The last line is
+// one JSON object with the figures.
 //
 // Options: BENCH_READINGS (default 1000000), BENCH_CHANNELS (2000), WORKER_BATCH_SIZE, --keep (leave the database).
+// A/B: BENCH_AB=a.cjs,b.cjs (worker bundles built beforehand) and BENCH_ROUNDS (3) run one worker of
+// each bundle in turn, each on a fresh copy of the same seeded backlog, and print every rate (no anchor).
 import { spawn } from "node:child_process";
 import { randomUUID } from "node:crypto";
 import fs from "node:fs";
@@ -11,12 +18,15 @@ import os from "node:os";
 import path from "node:path";
 import { execFileSync } from "node:child_process";
 import { adminUrl, dbUrl, ensureBenchPostgres, withClient } from "./bench/pg";
+import { checkAnchor, runAnchor } from "./bench/worker-anchor";
 import { QUEUE_INSERTED, RETURNING_QUEUED_COLUMNS } from "../lib/worker/reading-queue";
 
 const readingsWanted = Number(process.env.BENCH_READINGS ?? 1_000_000);
 const channels = Number(process.env.BENCH_CHANNELS ?? 2000);
 const keep = process.argv.includes("--keep");
 const dbName = `halftrip_bench_worker_${randomUUID().slice(0, 8)}`;
+// The same backlog again, for two workers.
+const twinName = `${dbName}_twin`;
 const root = path.resolve(__dirname, "..");
 
 function log(message: string) {
@@ -86,7 +96,11 @@ function seedSql(perChannel: number): string {
 
 interface Peak {
   rssKb: number;
+  /** CPU seconds (user + system) of the process and its children at the last poll. */
+  cpuS: number;
 }
+
+const CLOCK_TICKS = 100; // USER_HZ on Linux (sysconf(_SC_CLK_TCK))
 
 function descendants(pid: number): number[] {
   const out: number[] = [pid];
@@ -110,16 +124,101 @@ function descendants(pid: number): number[] {
  */
 function watchPeakRss(pid: number, peak: Peak): NodeJS.Timeout {
   return setInterval(() => {
+    let ticks = 0;
     for (const p of descendants(pid)) {
       try {
         const status = fs.readFileSync(`/proc/${p}/status`, "utf8");
         const hwm = Number(/VmHWM:\s+(\d+)/.exec(status)?.[1] ?? 0);
         peak.rssKb = Math.max(peak.rssKb, hwm);
+        // utime and stime, fields 14 and 15 of /proc/<pid>/stat (proc(5)).
+        const raw = fs.readFileSync(`/proc/${p}/stat`, "utf8");
+        const stat = raw.slice(raw.lastIndexOf(")") + 2).split(" ");
+        ticks += Number(stat[11]) + Number(stat[12]);
       } catch {
         // Gone already.
       }
     }
+    peak.cpuS = Math.max(peak.cpuS, ticks / CLOCK_TICKS);
   }, 500);
+}
+
+interface WorkerRun {
+  seconds: number;
+  /** The workers' own account of their first cycle's queue drain, ms each. */
+  drainMs: number[];
+  peakRssKb: number[];
+  /** CPU seconds of each worker, as last polled (up to half a second before it exited). */
+  cpuS: number[];
+}
+
+/** Starts `count` bundled workers with `--once` on one database and waits until all have exited. */
+async function runWorkers(count: number, workerBundle: string, env: NodeJS.ProcessEnv): Promise<WorkerRun> {
+  const started = process.hrtime.bigint();
+  const runs = Array.from({ length: count }, async (_, i) => {
+    const peak: Peak = { rssKb: 0, cpuS: 0 };
+    const child = spawn(process.execPath, [workerBundle, "--once"], { cwd: root, env, stdio: ["ignore", "pipe", "inherit"] });
+    let output = "";
+    child.stdout.on("data", (chunk: Buffer) => {
+      output += chunk.toString();
+      process.stdout.write(count > 1 ? chunk.toString().replace(/^(?=.)/gm, `[worker ${i + 1}] `) : chunk);
+    });
+    const timer = watchPeakRss(child.pid as number, peak);
+    const code: number = await new Promise((resolve) => child.on("exit", (c) => resolve(c ?? 1)));
+    clearInterval(timer);
+    if (code !== 0) throw new Error(`worker ${i + 1} exited with ${code}`);
+    return { drainMs: Number(/drain (\d+)/.exec(output)?.[1] ?? 0), rssKb: peak.rssKb, cpuS: peak.cpuS };
+  });
+  const done = await Promise.all(runs);
+  return { seconds: Number(process.hrtime.bigint() - started) / 1e9, drainMs: done.map((d) => d.drainMs), peakRssKb: done.map((d) => d.rssKb), cpuS: done.map((d) => d.cpuS) };
+}
+
+/** Every queued reading measured exactly once, and the rollups counting them all. */
+async function checkDrained(url: string, queued: number): Promise<string> {
+  return withClient(url, async (c) => {
+    const q = await c.query(`SELECT (SELECT count(*) FROM reading_queue) AS queue, (SELECT count(*) FROM measurements) AS measurements,
+                                    (SELECT count(DISTINCT reading_id) FROM measurements) AS distinct_readings,
+                                    (SELECT coalesce(sum(n_all), 0) FROM measurement_rollups WHERE bucket_s = 300) AS rolled,
+                                    (SELECT count(*) FROM health_flags) AS flags`);
+    const r = q.rows[0];
+    const statuses = await c.query(`SELECT status, count(*) AS n FROM measurements GROUP BY status ORDER BY n DESC`);
+    if (Number(r.queue) !== 0 || Number(r.measurements) !== queued || Number(r.distinct_readings) !== queued || Number(r.rolled) !== queued) {
+      throw new Error(`not every reading measured exactly once: queue ${r.queue}, measurements ${r.measurements} (${r.distinct_readings} distinct), rolled up ${r.rolled} of ${queued}`);
+    }
+    return `queue ${r.queue}, measurements ${r.measurements} (${r.distinct_readings} distinct readings), rolled up ${r.rolled}, flags ${r.flags}; statuses: ${statuses.rows.map((s) => `${s.status} ${s.n}`).join(", ")}`;
+  });
+}
+
+const perSecond = (n: number, seconds: number) => Math.round(n / seconds);
+const fmt = (n: number) => n.toLocaleString("en-GB");
+const mb = (kb: number) => Math.round(kb / 1024);
+const loadAverage = () => os.loadavg().map((l) => l.toFixed(2)).join(", ");
+
+/** A/B: one worker of each bundle in turn, each on its own file copy of the twin (the untouched backlog). */
+async function compareBundles(bundles: string[], queued: number, runEnv: (e: NodeJS.ProcessEnv) => NodeJS.ProcessEnv, env: NodeJS.ProcessEnv): Promise<void> {
+  const rounds = Number(process.env.BENCH_ROUNDS ?? 3);
+  const rates = new Map<string, number[]>(bundles.map((b) => [b, []]));
+  const cpu = new Map<string, number[]>(bundles.map((b) => [b, []]));
+  for (let round = 1; round <= rounds; round++) {
+    for (const bundle of bundles) {
+      const copy = `${dbName}_ab`;
+      await withClient(adminUrl, async (c) => {
+        await c.query(`DROP DATABASE IF EXISTS ${copy} WITH (FORCE)`);
+        await c.query(`CREATE DATABASE ${copy} TEMPLATE ${twinName} STRATEGY FILE_COPY`);
+        await c.query("CHECKPOINT");
+      });
+      const run = await runWorkers(1, path.resolve(bundle), runEnv({ ...env, DATABASE_URL: dbUrl(copy), WORKER_QUIET: "1" }));
+      await checkDrained(dbUrl(copy), queued);
+      await withClient(adminUrl, (c) => c.query(`DROP DATABASE ${copy} WITH (FORCE)`));
+      rates.get(bundle)!.push(perSecond(queued, run.seconds));
+      cpu.get(bundle)!.push(run.cpuS[0]);
+      log(`round ${round} ${bundle}: ${fmt(perSecond(queued, run.seconds))} readings/s, worker CPU ${run.cpuS[0].toFixed(1)} s, peak RSS ${mb(run.peakRssKb[0])} MB, load ${loadAverage()}`);
+    }
+  }
+  const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[xs.length >> 1];
+  for (const [bundle, r] of rates) {
+    const c = cpu.get(bundle)!;
+    log(`${bundle}: ${r.map(fmt).join(", ")} readings/s (median ${fmt(median(r))}); worker CPU ${c.map((x) => x.toFixed(1)).join(", ")} s (median ${median(c).toFixed(1)})`);
+  }
 }
 
 async function main() {
@@ -128,11 +227,13 @@ async function main() {
   log(`database ${dbName}: ${channels} channels × ${perChannel} readings`);
   await withClient(adminUrl, (c) => c.query(`CREATE DATABASE ${dbName}`));
   const url = dbUrl(dbName);
+  const twinUrl = dbUrl(twinName);
   try {
     // A production worker insists on its mail settings (lib/env.ts); the benchmark's readings raise no alarm.
     const mail = { AUTH_SECRET: randomUUID(), SMTP_URL: "smtp://127.0.0.1:9", APP_URL: "http://127.0.0.1:3000" };
     const env: NodeJS.ProcessEnv = { ...process.env, ...mail, DATABASE_URL: url, NODE_ENV: "production", WORKER_QUIET: "0" };
-    log(`load average before: ${os.loadavg().map((l) => l.toFixed(2)).join(", ")} on ${os.cpus().length} cores`);
+    const loadBefore = os.loadavg()[0];
+    log(`load average before: ${loadAverage()} on ${os.cpus().length} cores`);
     execFileSync(path.join(root, "node_modules/.bin/tsx"), ["db/migrate.ts", "up"], { cwd: root, env, stdio: "inherit" });
     const seedStart = Date.now();
     await withClient(url, async (c) => {
@@ -144,48 +245,72 @@ async function main() {
       await c.query("CHECKPOINT");
     });
     const queued = await withClient(url, async (c) => Number((await c.query(`SELECT count(*) AS n FROM reading_queue`)).rows[0].n));
-    log(`seeded ${queued} queued readings in ${((Date.now() - seedStart) / 1000).toFixed(1)} s`);
+    // The same backlog for the two workers: a file copy of the seeded database (no connection to it may be open).
+    await withClient(adminUrl, async (c) => {
+      await c.query(`CREATE DATABASE ${twinName} TEMPLATE ${dbName} STRATEGY FILE_COPY`);
+      await c.query("CHECKPOINT");
+    });
+    log(`seeded ${queued} queued readings (and a copy) in ${((Date.now() - seedStart) / 1000).toFixed(1)} s`);
 
+    const { workerRunEnv } = await import("./lib/worker-env.mjs");
+    if (process.env.BENCH_AB) {
+      await compareBundles(process.env.BENCH_AB.split(","), queued, workerRunEnv, env);
+      return;
+    }
     // The worker as production runs it: bundled by scripts/build-worker.mjs, plain Node.
     execFileSync(process.execPath, ["scripts/build-worker.mjs"], { cwd: root, stdio: "inherit" });
     const workerBundle = path.join(root, ".worker", "worker.cjs");
-    const { workerRunEnv } = await import("./lib/worker-env.mjs");
-    const peak: Peak = { rssKb: 0 };
-    const started = process.hrtime.bigint();
-    const child = spawn(process.execPath, [workerBundle, "--once"], { cwd: root, env: workerRunEnv(env), stdio: ["ignore", "pipe", "inherit"] });
-    let output = "";
-    child.stdout.on("data", (chunk: Buffer) => {
-      output += chunk.toString();
-      process.stdout.write(chunk);
-    });
-    const timer = watchPeakRss(child.pid as number, peak);
-    const code: number = await new Promise((resolve) => child.on("exit", (c) => resolve(c ?? 1)));
-    clearInterval(timer);
-    const seconds = Number(process.hrtime.bigint() - started) / 1e9;
-    if (code !== 0) throw new Error(`worker exited with ${code}`);
 
-    const check = await withClient(url, async (c) => {
-      const q = await c.query(`SELECT (SELECT count(*) FROM reading_queue) AS queue, (SELECT count(*) FROM measurements) AS measurements,
-                                      (SELECT count(DISTINCT reading_id) FROM measurements) AS distinct_readings,
-                                      (SELECT coalesce(sum(n_all), 0) FROM measurement_rollups WHERE bucket_s = 300) AS rolled,
-                                      (SELECT count(*) FROM health_flags) AS flags`);
-      const statuses = await c.query(`SELECT status, count(*) AS n FROM measurements GROUP BY status ORDER BY n DESC`);
-      return { ...q.rows[0], statuses: statuses.rows.map((r) => `${r.status} ${r.n}`).join(", ") };
-    });
-    const rate = queued / seconds;
-    log(`worker drained ${queued} readings in ${seconds.toFixed(1)} s → ${Math.round(rate).toLocaleString("en-GB")} readings/s (process start included)`);
-    // The worker's own account of its first cycle: time spent draining the queue alone.
-    const drainMs = Number(/drain (\d+)/.exec(output)?.[1] ?? 0);
-    if (drainMs > 0) log(`queue drain alone ${(drainMs / 1000).toFixed(1)} s → ${Math.round(queued / (drainMs / 1000)).toLocaleString("en-GB")} readings/s`);
-    log(`load average at the end: ${os.loadavg().map((l) => l.toFixed(2)).join(", ")} on ${os.cpus().length} cores`);
-    log(`peak RSS ${(peak.rssKb / 1024).toFixed(0)} MB`);
-    log(`check: queue ${check.queue}, measurements ${check.measurements} (${check.distinct_readings} distinct readings), rolled up ${check.rolled}, flags ${check.flags}`);
-    log(`statuses: ${check.statuses}`);
+    const one = await runWorkers(1, workerBundle, workerRunEnv(env));
+    const rate1 = perSecond(queued, one.seconds);
+    log(`1 worker drained ${queued} readings in ${one.seconds.toFixed(1)} s → ${fmt(rate1)} readings/s (process start included)`);
+    if (one.drainMs[0] > 0) log(`1 worker: queue drain alone ${(one.drainMs[0] / 1000).toFixed(1)} s → ${fmt(perSecond(queued, one.drainMs[0] / 1000))} readings/s`);
+    log(`1 worker: peak RSS ${mb(one.peakRssKb[0])} MB, CPU ${one.cpuS[0].toFixed(1)} s`);
+    log(`1 worker check: ${await checkDrained(url, queued)}`);
+
+    const anchor = await withClient(url, runAnchor);
+    const anchorRate = perSecond(anchor.rows, anchor.seconds);
+    log(`anchor INSERT … SELECT: ${anchor.rows} rows in ${anchor.seconds.toFixed(1)} s → ${fmt(anchorRate)} rows/s`);
+    const agree = await withClient(url, checkAnchor);
+    log(
+      `anchor check on ${agree.compared} distances: max |Δ| distance ${agree.maxDistanceDiffM.toExponential(2)} m, level ${agree.maxLevelDiffM.toExponential(2)} m, ` +
+        `volume ${agree.maxVolumeDiffL.toExponential(2)} L; statuses agree ${agree.statusAgreePct.toFixed(2)} %, bays' occupancy ${agree.occupiedAgreePct.toFixed(2)} % of ${agree.bayCompared} (the worker debounces)`,
+    );
+    if (!(agree.maxDistanceDiffM <= 1e-6) || !(agree.maxLevelDiffM <= 1e-6) || !(agree.maxVolumeDiffL <= 1e-3) || agree.compared === 0) {
+      throw new Error("the anchor does not compute the worker's distances, levels and volumes");
+    }
+
+    const two = await runWorkers(2, workerBundle, workerRunEnv({ ...env, DATABASE_URL: twinUrl }));
+    const rate2 = perSecond(queued, two.seconds);
+    log(`2 workers drained ${queued} readings in ${two.seconds.toFixed(1)} s → ${fmt(rate2)} readings/s (process start included)`);
+    log(`2 workers: peak RSS ${two.peakRssKb.map(mb).join(" MB, ")} MB, CPU ${two.cpuS.map((x) => x.toFixed(1)).join(" s, ")} s`);
+    log(`2 workers check: ${await checkDrained(twinUrl, queued)}`);
+
+    const ratio = Math.round((rate1 / anchorRate) * 1000) / 1000;
+    const scaling = Math.round((rate2 / rate1) * 100) / 100;
+    const rssMb = Math.max(...one.peakRssKb, ...two.peakRssKb) / 1024;
+    log(`load average at the end: ${loadAverage()} on ${os.cpus().length} cores`);
     log(`machine: ${os.cpus().length} × ${os.cpus()[0]?.model ?? "cpu"}, ${(os.totalmem() / 2 ** 30).toFixed(0)} GiB, Node ${process.version}`);
-    log(rate >= 50_000 && peak.rssKb <= 300 * 1024 ? "target met (≥ 50,000 readings/s, ≤ 300 MB)" : "target NOT met (≥ 50,000 readings/s, ≤ 300 MB)");
+    log(`worker ÷ anchor: ${ratio} (target ≥ 0.35) — ${ratio >= 0.35 ? "met" : "NOT met"}; peak RSS ${Math.round(rssMb)} MB (target ≤ 300) — ${rssMb <= 300 ? "met" : "NOT met"}`);
+    log(`2 workers ÷ 1: ${scaling}× (target ≥ 1.3×) — ${scaling >= 1.3 ? "met" : "NOT met"}`);
+    process.stdout.write(
+      JSON.stringify({
+        ratio,
+        worker_readings_per_s: { "1": rate1, "2": rate2 },
+        two_workers_vs_one: scaling,
+        anchor_rows_per_s: anchorRate,
+        peak_rss_mb: { "1": mb(one.peakRssKb[0]), "2": two.peakRssKb.map(mb) },
+        worker_cpu_s: { "1": Math.round(one.cpuS[0] * 10) / 10, "2": two.cpuS.map((x) => Math.round(x * 10) / 10) },
+        load_average: { before: Math.round(loadBefore * 100) / 100, after: Math.round(os.loadavg()[0] * 100) / 100 },
+      }) + "\n",
+    );
   } finally {
-    if (!keep) await withClient(adminUrl, (c) => c.query(`DROP DATABASE IF EXISTS ${dbName} WITH (FORCE)`));
-    else log(`kept database ${dbName}`);
+    if (!keep) {
+      await withClient(adminUrl, async (c) => {
+        await c.query(`DROP DATABASE IF EXISTS ${dbName} WITH (FORCE)`);
+        await c.query(`DROP DATABASE IF EXISTS ${twinName} WITH (FORCE)`);
+      });
+    } else process.stderr.write(`[bench:worker] kept databases ${dbName} and ${twinName}\n`);
   }
 }
 

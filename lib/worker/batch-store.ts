@@ -24,7 +24,23 @@ const READING_COLUMNS = ["id", "at", ...QUEUED_READING_COLUMNS];
 const READING_ARRAYS = READING_COLUMNS.map((c) => `${sendArray(`array_agg(${c === "samples_us" ? "array_send(r.samples_us)" : `r.${c}`})`)} AS ${c}`).join(", ");
 
 
-function readingsFromColumns(row: Record<string, Buffer | null>): ReadingRow[] {
+/**
+ * Microseconds past each reading's millisecond, by reading id, where not zero: a Date keeps only
+ * milliseconds, and the measurement must carry its reading's time exactly (it is half its key). Kept
+ * beside the readings by the claim and encode layers, so the computing stages see plain records.
+ */
+export type SubMillis = ReadonlyMap<number, number>;
+
+/** A reading's time in microseconds since 1970, exactly as the database holds it. */
+export const exactMicros = (r: ReadingRow, subMillis: SubMillis): number => r.at.getTime() * 1000 + (subMillis.get(r.id) ?? 0);
+
+/** Readings as the claim layer fetched them, in time order (then id), with their exact times. */
+export interface FetchedReadings {
+  readings: ReadingRow[];
+  subMillis: SubMillis;
+}
+
+function readingsFromColumns(row: Record<string, Buffer | null>): FetchedReadings {
   const id = decodeBinaryArray(row.id, "int8");
   const deviceId = decodeBinaryArray(row.device_id, "uuid");
   const channel = decodeBinaryArray(row.channel, "int2");
@@ -37,14 +53,27 @@ function readingsFromColumns(row: Record<string, Buffer | null>): ReadingRow[] {
   const highUs = decodeBinaryArray(row.high_us, "float8");
   const periodUs = decodeBinaryArray(row.period_us, "float8");
   const airTempC = decodeBinaryArray(row.air_temp_c, "float8");
-  const readings = new Array<ReadingRow>(id.length);
-  for (let i = 0; i < id.length; i++) {
-    readings[i] = {
+  const n = id.length;
+  // Time order (then id), by position, before any record is built.
+  let order: number[] | null = null;
+  for (let i = 1; i < n; i++) {
+    if (at[i - 1]! > at[i]! || (at[i - 1] === at[i] && id[i - 1]! > id[i]!)) {
+      order = Array.from({ length: n }, (_, k) => k).sort((a, b) => at[a]! - at[b]! || id[a]! - id[b]!);
+      break;
+    }
+  }
+  const readings = new Array<ReadingRow>(n);
+  const subMillis = new Map<number, number>();
+  for (let k = 0; k < n; k++) {
+    const i = order === null ? k : order[k];
+    const ms = Math.floor(at[i]! / 1000);
+    const sub = at[i]! - ms * 1000;
+    if (sub !== 0) subMillis.set(id[i]!, sub);
+    readings[k] = {
       id: id[i]!,
       deviceId: deviceId[i]!,
       channel: channel[i]!,
-      at: new Date(Math.floor(at[i]! / 1000)),
-      atMicros: at[i]!,
+      at: new Date(ms),
       echoUs: echoUs[i],
       ticks: ticks[i],
       overflows: overflows[i],
@@ -55,10 +84,8 @@ function readingsFromColumns(row: Record<string, Buffer | null>): ReadingRow[] {
       airTempC: airTempC[i],
     };
   }
-  return readings;
+  return { readings, subMillis };
 }
-
-const byTimeThenId = (a: ReadingRow, b: ReadingRow) => a.atMicros! - b.atMicros! || a.id - b.id;
 
 /**
  * SQL for the readings of a source that names its rows `r` (e.g. "readings r WHERE …", with `id`,
@@ -67,13 +94,9 @@ const byTimeThenId = (a: ReadingRow, b: ReadingRow) => a.atMicros! - b.atMicros!
 export const readingsAsArrays = (source: string) => `SELECT ${READING_ARRAYS} FROM (SELECT ${READING_COLUMNS.map((c) => `r.${c}`).join(", ")} FROM ${source}) r`;
 
 /** Readings of a statement built with readingsAsArrays, in time order (then id); ids and microsecond times stay below 2^53. */
-export async function fetchReadings(sql: string, bind: unknown[], transaction: Transaction): Promise<ReadingRow[]> {
+export async function fetchReadings(sql: string, bind: unknown[], transaction: Transaction): Promise<FetchedReadings> {
   const [row] = await sqlRows<Record<string, string | null>>(sql, bind, { transaction });
-  const readings = row ? readingsFromColumns(decodeBase64Row(row)) : [];
-  for (let i = 1; i < readings.length; i++) {
-    if (byTimeThenId(readings[i - 1], readings[i]) > 0) return readings.sort(byTimeThenId);
-  }
-  return readings;
+  return row ? readingsFromColumns(decodeBase64Row(row)) : { readings: [], subMillis: new Map() };
 }
 
 /** SQL for a timestamptz from microseconds since 1970, exact (a Date would round to milliseconds). */

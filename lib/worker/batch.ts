@@ -14,10 +14,10 @@
 import type { Transaction } from "sequelize";
 import { getSequelize } from "../db/sequelize";
 import { QUEUED_READING_COLUMNS } from "./reading-queue";
-import { channelKey, processBatch, processBatchInSteps, type ProcessedBatch } from "./compute/batch";
+import { processBatch, processBatchInSteps, type ProcessedBatch } from "./compute/batch";
 import type { ChannelState } from "./compute/channel-state";
 import type { ChannelConfig, ReadingRow } from "./compute/types";
-import { loadChannelsOfDevices, loadTemperatureChannelSites, loadTemperatureSamples, lockChannelStates, fetchReadings, MICROS_TO_TIMESTAMPTZ, readingsAsArrays, type LockedChannelState } from "./batch-store";
+import { exactMicros, loadChannelsOfDevices, loadTemperatureChannelSites, loadTemperatureSamples, lockChannelStates, fetchReadings, MICROS_TO_TIMESTAMPTZ, readingsAsArrays, type FetchedReadings, type LockedChannelState, type SubMillis } from "./batch-store";
 import { encodeBatch, writeEncodedBatch, type EncodedBatch } from "./encode";
 import { sqlRows, sqlRun } from "../db/sql";
 
@@ -37,6 +37,12 @@ export interface BatchResult {
   buckets: number;
 }
 
+/** Where a claim starts: after this reading's exact time and id (the queue's order). */
+interface ClaimKey {
+  micros: number;
+  id: number;
+}
+
 // Session-level advisory lock held while a worker claims its batch and queues for its channels' state
 // rows, so batches are claimed in time order and each channel's readings are processed in that order.
 const CLAIM_LOCK_KEY = 0x48545743;
@@ -46,7 +52,7 @@ const CLAIM_LOCK_KEY = 0x48545743;
  * reading of the batch in flight): the rows of that batch are still in the queue, deleted but not yet
  * committed, and skipping 40 000 locked rows one by one was nearly half of the claim.
  */
-async function claimBatch(batchSize: number, transaction: Transaction, after: ReadingRow | null): Promise<ReadingRow[]> {
+async function claimBatch(batchSize: number, transaction: Transaction, after: ClaimKey | null): Promise<FetchedReadings> {
   // The rows are deleted by the row addresses the locking subquery returns (they cannot move while
   // locked): cheaper than looking each up again by primary key. fetchReadings puts them in time order.
   const bound = after ? `WHERE (at, reading_id) > (${MICROS_TO_TIMESTAMPTZ("$2")}, $3::bigint)` : "";
@@ -57,7 +63,7 @@ async function claimBatch(batchSize: number, transaction: Transaction, after: Re
        RETURNING reading_id AS id, at, ${QUEUED_READING_COLUMNS.join(", ")}
      )
      ${readingsAsArrays("claimed r")}`,
-    after ? [batchSize, after.atMicros ?? after.at.getTime() * 1000, after.id] : [batchSize],
+    after ? [batchSize, after.micros, after.id] : [batchSize],
     transaction,
   );
 }
@@ -109,6 +115,7 @@ interface InFlight {
 interface Claimed {
   transaction: Transaction;
   readings: ReadingRow[];
+  subMillis: SubMillis;
   channelList: ChannelConfig[];
   /** Ids of the channels the readings are for. */
   ids: string[];
@@ -127,7 +134,7 @@ const releaseClaimLock = (transaction: Transaction) => sqlRun(`SELECT pg_advisor
  * this resolves (until prepareBatch queues for the states), unless the queue was empty: then it
  * resolves to null.
  */
-async function claimNextBatch(batchSize: number, after: ReadingRow | null = null): Promise<Claimed | null> {
+async function claimNextBatch(batchSize: number, after: ClaimKey | null = null): Promise<Claimed | null> {
   const transaction = await getSequelize().transaction();
   let locked = false;
   try {
@@ -137,8 +144,9 @@ async function claimNextBatch(batchSize: number, after: ReadingRow | null = null
     await sqlRun(`SELECT pg_advisory_lock($1)`, [CLAIM_LOCK_KEY], { transaction });
     locked = true;
     // Readings that came in late behind the batch in flight are claimed once those after it are done.
-    let readings = await claimBatch(batchSize, transaction, after);
-    if (readings.length === 0 && after) readings = await claimBatch(batchSize, transaction, null);
+    let fetched = await claimBatch(batchSize, transaction, after);
+    if (fetched.readings.length === 0 && after) fetched = await claimBatch(batchSize, transaction, null);
+    const { readings, subMillis } = fetched;
     if (readings.length === 0) {
       await abandonClaim({ transaction });
       return null;
@@ -159,7 +167,7 @@ async function claimNextBatch(batchSize: number, after: ReadingRow | null = null
     }
     const temperatureSamples = await loadTemperatureSamples([...new Set(channelList.map((c) => c.site.id))], new Date(from), new Date(to), transaction);
     const temperatureChannelSites = await loadTemperatureChannelSites(channelList.map((c) => c.id), transaction);
-    return { transaction, readings, channelList, ids, temperatureSamples, temperatureChannelSites };
+    return { transaction, readings, subMillis, channelList, ids, temperatureSamples, temperatureChannelSites };
   } catch (err) {
     if (locked) await releaseClaimLock(transaction).catch(() => undefined);
     await transaction.rollback().catch(() => undefined);
@@ -181,7 +189,7 @@ async function abandonClaim(claimed: Pick<Claimed, "transaction">): Promise<void
  * computing starts: the next claim goes to the database then, and runs there meanwhile.
  */
 async function prepareBatch(claimed: Claimed, before: InFlight | null, beforeCompute: () => void): Promise<Prepared> {
-  const { transaction, readings, channelList, ids, temperatureSamples, temperatureChannelSites } = claimed;
+  const { transaction, readings, subMillis, channelList, ids, temperatureSamples, temperatureChannelSites } = claimed;
   const inFlight = before?.commit ?? null;
   let unlocked = false;
   try {
@@ -192,7 +200,6 @@ async function prepareBatch(claimed: Claimed, before: InFlight | null, beforeCom
     const expected = before ? before.prepared.written() : null;
     const carried = ids.filter((id) => expected?.has(id));
     const fresh = await lockChannelStates(ids.filter((id) => !expected?.has(id)), transaction);
-    const channels = new Map(channelList.map((c) => [channelKey(c.device.id, c.index), c]));
     // Queued before the claim lock is released, so no later batch can take these rows first; the lock
     // is granted when the batch in flight commits, and this connection waits for it meanwhile.
     unlocked = true;
@@ -201,11 +208,11 @@ async function prepareBatch(claimed: Claimed, before: InFlight | null, beforeCom
     beforeCompute();
 
     const assumed = mergeStates(fresh, new Map(carried.map((id) => [id, expected!.get(id)!])));
-    const input = { readings, channels, temperatureSamples, temperatureChannelSites };
+    const input = { readings, channels: channelList, temperatureSamples, temperatureChannelSites };
     // In turns, so the write of the batch before goes on from statement to statement meanwhile.
     let batch = await processBatchInSteps({ ...input, states: assumed }, yieldToIo);
     await yieldToIo();
-    let encoded = encodeBatch(batch);
+    let encoded = encodeBatch(batch, subMillis);
     let states = assumed;
 
     const ready = (async () => {
@@ -219,7 +226,7 @@ async function prepareBatch(claimed: Claimed, before: InFlight | null, beforeCom
         if (carried.some((id) => locked.get(id)?.version !== expected!.get(id)!.version)) {
           states = mergeStates(fresh, locked);
           batch = processBatch({ ...input, states });
-          encoded = encodeBatch(batch);
+          encoded = encodeBatch(batch, subMillis);
         }
       }
     })();
@@ -303,7 +310,8 @@ export async function drainQueue(batchSize: number, hooks: readonly BatchHook[] 
       const more = Date.now() - started <= maxMs;
       next = await prepareBatch(claimed, inFlight, () => {
         if (!more) return;
-        claiming = claimNextBatch(batchSize, claimed.readings[claimed.readings.length - 1]);
+        const last = claimed.readings[claimed.readings.length - 1];
+        claiming = claimNextBatch(batchSize, { micros: exactMicros(last, claimed.subMillis), id: last.id });
         // Awaited in the next round; a failure meanwhile must not count as unhandled.
         claiming.catch(() => undefined);
       });

@@ -8,7 +8,7 @@ import { binaryArray, binaryColumn, ColumnWriter, decodeBase64Row, decodeBinaryA
 import type { ChannelState } from "./compute/channel-state";
 import type { ProcessedBatch } from "./compute/batch";
 import type { ChannelConfig, Measurement } from "./compute/types";
-import { applyFlagChanges, insertTemperatureSamples, upsertSessions } from "./batch-store";
+import { applyFlagChanges, exactMicros, insertTemperatureSamples, upsertSessions, type SubMillis } from "./batch-store";
 import { sqlRows, sqlRun } from "../db/sql";
 
 // ── Measurements and rollups ────────────────────────────────────────────────────────────────────
@@ -43,7 +43,7 @@ export const SENT_COLUMNS: [name: string, type: BinaryType][] = [
 const DICTIONARIES = 3;
 
 /** The measurement columns as binary arrays (SENT_COLUMNS, then the device, channel and asset dictionaries), in one pass over the records. */
-export function encodeMeasurements(ms: readonly Measurement[]): Buffer[] {
+export function encodeMeasurements(ms: readonly Measurement[], subMillis: SubMillis): Buffer[] {
   const n = ms.length;
   const float = () => new ColumnWriter("float8", n);
   const readingId = new ColumnWriter("int8", n);
@@ -64,7 +64,7 @@ export function encodeMeasurements(ms: readonly Measurement[]): Buffer[] {
     const m = ms[i];
     const r = m.reading;
     readingId.int8(r.id);
-    at.timestamptz(r.atMicros ?? r.at.getTime() * 1000);
+    at.timestamptz(exactMicros(r, subMillis));
     let d = deviceNumber.get(r.deviceId);
     if (d === undefined) deviceNumber.set(r.deviceId, (d = deviceNumber.size + 1));
     deviceN.int4(d);
@@ -132,7 +132,8 @@ const SQL_TYPE: Record<BinaryType, string> = { float8: "float8", int8: "bigint",
 const unnestedRows = (columns: readonly (readonly [string, BinaryType, ...unknown[]])[], alias: string, first = 1) =>
   `(SELECT ${columns.map(([n, t], i) => `unnest($${i + first}::${SQL_TYPE[t]}[]) AS ${n}`).join(", ")}) AS ${alias}`;
 
-const atMicrosOf = (m: Measurement) => m.reading.atMicros ?? m.reading.at.getTime() * 1000;
+// Millisecond order, then id: the order the computing stages gave each channel's measurements.
+const atMsOf = (m: Measurement) => m.reading.at.getTime();
 
 /** Each channel's measurements consecutive and in time order: how processBatch leaves them. */
 function inChannelRuns(measurements: readonly Measurement[]): boolean {
@@ -141,7 +142,7 @@ function inChannelRuns(measurements: readonly Measurement[]): boolean {
     const key = measurements[i].channel?.id ?? "";
     const previous = i > 0 ? measurements[i - 1] : null;
     if (previous && (previous.channel?.id ?? "") === key) {
-      if (atMicrosOf(previous) > atMicrosOf(measurements[i])) return false;
+      if (atMsOf(previous) > atMsOf(measurements[i]) || (atMsOf(previous) === atMsOf(measurements[i]) && previous.reading.id > measurements[i].reading.id)) return false;
       continue;
     }
     if (seen.has(key)) return false;
@@ -166,7 +167,7 @@ function inChannelOrder(measurements: readonly Measurement[]): Measurement[] {
   }
   const out: Measurement[] = [];
   for (const group of groups.values()) {
-    group.sort((a, b) => atMicrosOf(a) - atMicrosOf(b) || a.reading.id - b.reading.id);
+    group.sort((a, b) => atMsOf(a) - atMsOf(b) || a.reading.id - b.reading.id);
     for (const m of group) out.push(m);
   }
   return out;
@@ -218,12 +219,13 @@ export function rollUp(measurements: readonly Measurement[]): Rollup[] {
     const channelId = m.channel?.id;
     const assetId = m.channel?.asset?.id;
     if (!channelId || !assetId) continue;
-    const atMicros = m.reading.atMicros ?? m.reading.at.getTime() * 1000;
+    // Buckets are whole seconds long, so the reading's millisecond time places it exactly.
+    const micros = m.reading.at.getTime() * 1000;
     const ok = m.status === "ok";
     for (let s = 0; s < ROLLUP_BUCKETS_S.length; s++) {
       const bucketS = ROLLUP_BUCKETS_S[s];
       const length = bucketS * 1_000_000;
-      const startMicros = Math.floor(atMicros / length) * length;
+      const startMicros = Math.floor(micros / length) * length;
       let b = open[s];
       if (!b || b.startMicros !== startMicros || b.channelId !== channelId || b.assetId !== assetId) {
         b = { assetId, channelId, bucketS, startMicros, nAll: 0, n: 0, sum: [null, null, null, null, null], min: [null, null, null, null, null], max: [null, null, null, null, null], airTempN: 0, uncertaintySum: null, occupiedN: 0 };
@@ -339,13 +341,13 @@ export interface EncodedBatch {
   states: Buffer[];
 }
 
-export function encodeBatch(batch: ProcessedBatch): EncodedBatch {
+export function encodeBatch(batch: ProcessedBatch, subMillis: SubMillis): EncodedBatch {
   const ordered = inChannelOrder(batch.measurements);
   const rollups = rollUp(ordered);
   return {
     batch,
     ordered,
-    measurementColumns: encodeMeasurements(ordered),
+    measurementColumns: encodeMeasurements(ordered, subMillis),
     rollupColumns: rollupColumns(rollups),
     buckets: rollups.length,
     states: stateColumns(batch.states, new Set(batch.offlineCleared.map((o) => o.channelId))),
@@ -387,6 +389,6 @@ export async function writeEncodedBatch(e: EncodedBatch, transaction: Transactio
   return written;
 }
 
-export async function writeProcessedBatch(batch: ProcessedBatch, transaction: Transaction): Promise<{ inserted: number; buckets: number }> {
-  return writeEncodedBatch(encodeBatch(batch), transaction);
+export async function writeProcessedBatch(batch: ProcessedBatch, subMillis: SubMillis, transaction: Transaction): Promise<{ inserted: number; buckets: number }> {
+  return writeEncodedBatch(encodeBatch(batch, subMillis), transaction);
 }

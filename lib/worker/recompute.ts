@@ -4,9 +4,9 @@
 // channel is rebuilt in one transaction from a fresh state, so doing it twice gives the same rows.
 
 import { getSequelize } from "../db/sequelize";
-import { channelKey, processBatch } from "./compute/batch";
+import { processBatch } from "./compute/batch";
 import { initialChannelState, type ChannelState } from "./compute/channel-state";
-import { loadChannel, loadTemperatureChannelSites, loadTemperatureSamples, lockChannelStates, fetchReadings, MICROS_TO_TIMESTAMPTZ, readingsAsArrays } from "./batch-store";
+import { exactMicros, loadChannel, loadTemperatureChannelSites, loadTemperatureSamples, lockChannelStates, fetchReadings, MICROS_TO_TIMESTAMPTZ, readingsAsArrays } from "./batch-store";
 import { writeProcessedBatch } from "./encode";
 import { sqlRows, sqlRun } from "../db/sql";
 
@@ -43,14 +43,13 @@ export async function recomputeChannel(channelId: string): Promise<number> {
     let state: ChannelState = { ...initialChannelState(), open: crosstalk.length ? { crosstalk_risk: { sinceMs: crosstalk[0].since.getTime() } } : {} };
     await sqlRun(`UPDATE channel_state SET state = $2::jsonb, last_at = NULL, last_reading_id = NULL, version = version + 1 WHERE channel_id = $1`, [channelId, JSON.stringify(state)], { transaction });
 
-    const channels = new Map([[channelKey(d, channel.index), channel]]);
     const temperatureChannelSites = await loadTemperatureChannelSites([channelId], transaction);
     // Keyset paging from before any plausible reading (1900-01-01).
     let after = { micros: -2_208_988_800_000_000, id: 0 };
     let written = 0;
     for (;;) {
       // Readings still queued are left to the queue, which measures them after this.
-      const readings = await fetchReadings(
+      const { readings, subMillis } = await fetchReadings(
         readingsAsArrays(`(SELECT * FROM readings x
            WHERE x.device_id = $1 AND x.channel = $2 AND (x.at, x.id) > (${MICROS_TO_TIMESTAMPTZ("$3")}, $4::bigint)
              AND NOT EXISTS (SELECT 1 FROM measurements m WHERE m.reading_id = x.id AND m.at = x.at)
@@ -61,11 +60,11 @@ export async function recomputeChannel(channelId: string): Promise<number> {
       );
       if (readings.length === 0) break;
       const temperatureSamples = await loadTemperatureSamples([channel.site.id], readings[0].at, readings[readings.length - 1].at, transaction);
-      const batch = processBatch({ readings, channels, states: new Map([[channelId, { state, offlineSince: null }]]), temperatureSamples, temperatureChannelSites });
-      written += (await writeProcessedBatch(batch, transaction)).inserted;
+      const batch = processBatch({ readings, channels: [channel], states: new Map([[channelId, { state, offlineSince: null }]]), temperatureSamples, temperatureChannelSites });
+      written += (await writeProcessedBatch(batch, subMillis, transaction)).inserted;
       state = batch.states.get(channelId) ?? state;
       const last = readings[readings.length - 1];
-      after = { micros: last.atMicros ?? last.at.getTime() * 1000, id: last.id };
+      after = { micros: exactMicros(last, subMillis), id: last.id };
     }
     return written;
   });

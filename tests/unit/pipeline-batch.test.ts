@@ -1,5 +1,5 @@
 import { describe, it, expect } from "vitest";
-import { channelKey, processBatch, processBatchInSteps, type BatchInput, type ProcessedBatch, type StoredChannelState } from "@/lib/worker/compute/batch";
+import { processBatch, processBatchInSteps, type BatchInput, type ProcessedBatch, type StoredChannelState } from "@/lib/worker/compute/batch";
 import { parseChannelState } from "@/lib/worker/compute/channel-state";
 import type { TankGeometry } from "@/lib/geometry/tank-volume";
 import type { ChannelConfig, ReadingRow } from "@/lib/worker/compute/types";
@@ -10,7 +10,7 @@ const GEOMETRY: TankGeometry = { shape: "rectangular", length_m: 2, width_m: 1.5
 const tankChannel = channel({ id: "ch-tank", index: 0, asset: tank(GEOMETRY, 3) });
 const bayChannel = channel({ id: "ch-bay", index: 1, asset: bay(2.5, 1.8) });
 const pointChannel = channel({ id: "ch-point", index: 2, asset: point(1.5) });
-const channels = new Map<string, ChannelConfig>([tankChannel, bayChannel, pointChannel].map((c) => [channelKey(c.device.id, c.index), c]));
+const channels: ChannelConfig[] = [tankChannel, bayChannel, pointChannel];
 
 function input(readings: ReadingRow[], states: Map<string, StoredChannelState> = new Map()): BatchInput {
   return { readings, channels, states, temperatureSamples: new Map(), temperatureChannelSites: new Map() };
@@ -91,8 +91,7 @@ describe("processBatch", () => {
 
   it("turns a site's temperature channel into samples and interpolates them for the other channels", () => {
     const thermo = channel({ id: "ch-thermo", index: 3 });
-    const withThermo = new Map(channels);
-    withThermo.set(channelKey(thermo.device.id, thermo.index), thermo);
+    const withThermo = [...channels, thermo];
     const out = processBatch({
       readings: [
         reading({ channel: 3, at: new Date(T0), echoUs: 1000, airTempC: 10 }),
@@ -129,7 +128,6 @@ describe("processBatchInSteps", () => {
     channel({ id: `${d}-tank`, index: 0, device: { id: d }, asset: tank(GEOMETRY, 3) }),
     channel({ id: `${d}-bay`, index: 1, device: { id: d }, asset: bay(2.5, 1.8) }),
   ]);
-  const fleetChannels = new Map(fleet.map((c) => [channelKey(c.device.id, c.index), c]));
   const readings: ReadingRow[] = [];
   for (let k = 0; k < 60; k++) {
     devices.forEach((d, n) => {
@@ -142,7 +140,7 @@ describe("processBatchInSteps", () => {
   }
   readings.push(reading({ deviceId: "device-unknown", channel: 0, at: new Date(T0), echoUs: 5000 }));
   readings.sort((a, b) => a.at.getTime() - b.at.getTime()).forEach((r, i) => (r.id = i + 1));
-  const batchInput: BatchInput = { readings, channels: fleetChannels, states: new Map(), temperatureSamples: new Map(), temperatureChannelSites: new Map() };
+  const batchInput: BatchInput = { readings, channels: fleet, states: new Map(), temperatureSamples: new Map(), temperatureChannelSites: new Map() };
 
   const byId = (b: ProcessedBatch) => [...b.measurements].sort((x, y) => x.reading.id - y.reading.id);
   const flagKey = (f: { channelId: string; flag: string }) => `${f.channelId}:${f.flag}`;

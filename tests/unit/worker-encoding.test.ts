@@ -16,7 +16,6 @@ const loose = channel({ id: "6f1c0e1e-0000-4000-8000-0000000000c2", index: 1 });
 
 function record(deviceId: string, ch: typeof bayA | null, minute: number, fields: Partial<Measurement>): Measurement {
   const r = reading({ deviceId, channel: ch?.index ?? 7, at: new Date(T0 + minute * 60_000) });
-  r.atMicros = (T0 + minute * 60_000) * 1000 + 123;
   return Object.assign(blankMeasurement(r, ch), fields);
 }
 
@@ -27,7 +26,8 @@ describe("encoding a batch's measurements", () => {
     record(D1, loose, 1, { distanceM: 0.8, status: "noisy", statusDetail: 'spread "wide"' }),
     record(D2, null, 2, { status: "invalid_config", statusDetail: "no channel 7" }),
   ];
-  const columns = encodeMeasurements(batch);
+  // Every reading 123 µs past its millisecond, as the claim layer hands those back beside the records.
+  const columns = encodeMeasurements(batch, new Map(batch.map((m) => [m.reading.id, 123])));
   // A column by its name; the three dictionaries follow the named columns.
   const column = (name: string) => {
     const i = SENT_COLUMNS.findIndex(([n]) => n === name);
@@ -39,7 +39,7 @@ describe("encoding a batch's measurements", () => {
   it("keeps every field of every record in its column", () => {
     expect(columns).toHaveLength(SENT_COLUMNS.length + 3);
     expect(decodeBinaryArray(column("reading_id"), "int8")).toEqual(batch.map((m) => m.reading.id));
-    expect(decodeBinaryArray(column("at"), "timestamptz")).toEqual(batch.map((m) => m.reading.atMicros));
+    expect(decodeBinaryArray(column("at"), "timestamptz")).toEqual(batch.map((m) => m.reading.at.getTime() * 1000 + 123));
     expect(decodeBinaryArray(column("channel_index"), "int2")).toEqual([0, 0, 1, 7]);
     expect(decodeBinaryArray(column("status"), "text")).toEqual(["ok", "ok", "noisy", "invalid_config"]);
     expect(decodeBinaryArray(column("status_detail"), "text")).toEqual([null, null, 'spread "wide"', "no channel 7"]);

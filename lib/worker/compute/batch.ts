@@ -19,8 +19,8 @@ export interface StoredChannelState {
 
 export interface BatchInput {
   readings: readonly ReadingRow[];
-  /** Channel configuration by `${deviceId}:${index}`. */
-  channels: ReadonlyMap<string, ChannelConfig>;
+  /** The configuration of every channel of the readings' devices. */
+  channels: readonly ChannelConfig[];
   /** Saved state by channel id (missing = a channel never seen). */
   states: ReadonlyMap<string, StoredChannelState>;
   /** Stored temperature samples by site id, covering the batch's time span. */
@@ -33,22 +33,16 @@ export interface NewTemperatureSample extends TemperatureSample {
   siteId: string;
 }
 
-export function channelKey(deviceId: string, index: number): string {
-  return `${deviceId}:${index}`;
-}
-
 /**
  * Looks channels up by device and index without building a key string per reading: a batch looks up
  * every one of its readings, and hashing a fresh key each time showed in the worker's profile.
  */
-export function channelFinder(channels: ReadonlyMap<string, ChannelConfig>): (deviceId: string, index: number) => ChannelConfig | null {
+export function channelFinder(channels: readonly ChannelConfig[]): (deviceId: string, index: number) => ChannelConfig | null {
   const byDevice = new Map<string, Map<number, ChannelConfig>>();
-  for (const [key, channel] of channels) {
-    const cut = key.lastIndexOf(":");
-    const deviceId = key.slice(0, cut);
-    let indexes = byDevice.get(deviceId);
-    if (!indexes) byDevice.set(deviceId, (indexes = new Map()));
-    indexes.set(Number(key.slice(cut + 1)), channel);
+  for (const channel of channels) {
+    let indexes = byDevice.get(channel.device.id);
+    if (!indexes) byDevice.set(channel.device.id, (indexes = new Map()));
+    indexes.set(channel.index, channel);
   }
   return (deviceId, index) => byDevice.get(deviceId)?.get(index) ?? null;
 }

@@ -5,10 +5,10 @@
 // already guards against single stray echoes.
 
 import { tankCapacity, tankHeight, volumeAtLevel } from "../../geometry/tank-volume";
+import { isHampelSpike } from "../../signal/hampel";
 import { trackBayOccupancy, type BayConfig, type BaySession, type BayState } from "../../occupancy/bay";
 import { pushInto, roundForState, type ChannelState } from "./channel-state";
 import { PIPELINE_SETTINGS } from "./settings";
-import { isHampelSpike } from "./streaming-hampel";
 import type { AssetConfig, ChannelConfig, Measurement } from "./types";
 
 export interface DerivedChannel {
@@ -53,6 +53,7 @@ function deriveTank(m: Measurement, asset: AssetConfig): void {
 }
 
 const HAMPEL = { nSigmas: PIPELINE_SETTINGS.hampelSigmas, minSigma: PIPELINE_SETTINGS.hampelMinSigmaM, minWindow: PIPELINE_SETTINGS.hampelMinWindow };
+const HAMPEL_DETRENDED = { ...HAMPEL, detrend: true };
 
 function markSpikes(measurements: readonly Measurement[], state: ChannelState, detrend: boolean): number[] {
   const span = 2 * PIPELINE_SETTINGS.hampelHalfWindow;
@@ -60,7 +61,7 @@ function markSpikes(measurements: readonly Measurement[], state: ChannelState, d
   for (const m of measurements) {
     if (!hasUsableDistance(m)) continue;
     const x = m.distanceM as number;
-    if (isHampelSpike(window, x, detrend, HAMPEL) && m.status === "ok") {
+    if (isHampelSpike(window, x, detrend ? HAMPEL_DETRENDED : HAMPEL) && m.status === "ok") {
       m.status = "suspect";
       m.statusDetail = "spike rejected by the Hampel filter";
     }

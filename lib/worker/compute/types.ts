@@ -30,8 +30,6 @@ export interface ReadingRow {
   deviceId: string;
   channel: number;
   at: Date;
-  /** The time in microseconds since 1970, exactly as the database holds it; a Date keeps only milliseconds. */
-  atMicros?: number;
   echoUs: number | null;
   ticks: number | null;
   overflows: number | null;
