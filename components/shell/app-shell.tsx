@@ -4,9 +4,11 @@ import { navFor } from "@/lib/navigation";
 import { Wordmark } from "@/components/shell/wordmark";
 import { NavLinks } from "@/components/shell/nav-links";
 import { SignOutButton } from "@/components/shell/sign-out-button";
+import { TimeViewProvider, TimeViewToggle } from "@/components/ui/site-time";
 
 export function AppShell({ user, children }: { user: SessionUser; children: React.ReactNode }) {
   return (
+    <TimeViewProvider>
     <div className="min-h-screen">
       <header className="border-b border-rule bg-card">
         <div className="mx-auto flex max-w-screen-2xl items-center gap-6 px-4 py-2">
@@ -17,6 +19,7 @@ export function AppShell({ user, children }: { user: SessionUser; children: Reac
             <span className="hidden text-muted sm:inline" data-testid="signed-in-as">
               {user.email} · <span className="capitalize">{user.role}</span>
             </span>
+            <TimeViewToggle />
             <SignOutButton />
           </div>
         </div>
@@ -26,5 +29,6 @@ export function AppShell({ user, children }: { user: SessionUser; children: Reac
         <main className="min-w-0 flex-1">{children}</main>
       </div>
     </div>
+    </TimeViewProvider>
   );
 }

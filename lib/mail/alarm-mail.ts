@@ -2,6 +2,7 @@
 // Plain text first (a phone in the field), a simple HTML twin; times in the site's own time zone.
 
 import { ALARM_CAUTION } from "../alarms/engine";
+import { formatDateTime } from "../format/time";
 import { priorityText } from "../alarms/vocabulary";
 import type { AlarmPriority } from "../alarms/state-machine";
 
@@ -39,16 +40,7 @@ export interface ComposedMail {
 
 /** A time as people at the site read it, with the zone: "14 Mar 2026, 06:30 GMT", "1 Jul 2026, 13:00 BST". */
 export function formatSiteTime(at: Date, timeZone: string): string {
-  return new Intl.DateTimeFormat("en-GB", {
-    timeZone,
-    day: "numeric",
-    month: "short",
-    year: "numeric",
-    hour: "2-digit",
-    minute: "2-digit",
-    hourCycle: "h23",
-    timeZoneName: "short",
-  }).format(at);
+  return formatDateTime(at, { locale: "en-GB", timeZone, hourCycle: "h23" });
 }
 
 function figure(v: number | null, unit: string | null): string {
