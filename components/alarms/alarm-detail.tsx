@@ -3,7 +3,6 @@
 import Link from "next/link";
 import useSWR from "swr";
 import { useState } from "react";
-import { format } from "date-fns";
 import { can, type Role } from "@/lib/auth/permissions";
 import { fetchJson, swrFetcher } from "@/lib/fetcher";
 import { needsAcknowledgement } from "@/lib/alarms/engine";
@@ -14,6 +13,7 @@ import { STACKED_TABLE } from "@/components/ui/form-fields";
 import { AlarmStateLabel, alarmFigure, alarmWhere } from "@/components/alarms/alarm-badges";
 import { PriorityBadge } from "@/components/ui/priority-badge";
 import { ALARM_STATE_WORDS } from "@/lib/alarms/vocabulary";
+import { SiteTime } from "@/components/ui/site-time";
 import { AlarmActionDialog, type AlarmDialogMode } from "@/components/alarms/alarm-actions";
 import { NoticeDelivery, type NoticeDeliveryJson } from "@/components/alarms/alarm-notice-delivery";
 
@@ -42,8 +42,6 @@ interface NotificationJson extends NoticeDeliveryJson {
 
 type AlarmWithHistory = AlarmJson & { events: AlarmEventJson[]; notifications: NotificationJson[] };
 
-const stamp = (iso: string | null) => (iso ? format(new Date(iso), "yyyy-MM-dd HH:mm:ss") : "—");
-
 /** One alarm: what it is now, the actions the role allows, its events and the e-mails sent about it. */
 export function AlarmDetail({ id, role }: { id: string; role: Role }) {
   const { data, error, isLoading, mutate } = useSWR<AlarmWithHistory>(`/api/alarms/${id}`, swrFetcher, { refreshInterval: 15_000 });
@@ -55,6 +53,7 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
   if (!data) return null;
 
   const state = data.state as AlarmState;
+  const zone = data.site.time_zone;
   const what = `${data.label} at ${alarmWhere(data)}`;
   async function post(path: string) {
     setBusy(true);
@@ -73,12 +72,12 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
     <div className="space-y-6">
       <section className="card grid gap-4 p-4 sm:grid-cols-4" aria-label="Now">
         <div><p className="label">Priority</p><PriorityBadge priority={data.priority as AlarmPriority} calm={state === "normal"} /></div>
-        <div><p className="label">State</p><AlarmStateLabel state={state} awaitingReset={data.awaiting_reset} />{data.shelved_until && <p className="text-sm text-muted">until {stamp(data.shelved_until)} — {data.shelve_reason}</p>}</div>
+        <div><p className="label">State</p><AlarmStateLabel state={state} awaitingReset={data.awaiting_reset} />{data.shelved_until && <p className="text-sm text-muted">until <SiteTime at={data.shelved_until} zone={zone} /> — {data.shelve_reason}</p>}</div>
         <div><p className="label">Value / setpoint</p><p className="figures">{alarmFigure(data.value, data.unit, data.kind)}{data.setpoint !== null && <span className="text-muted"> / {alarmFigure(data.setpoint, data.unit, data.kind)}</span>}</p></div>
         <div><p className="label">Condition</p><p>{data.condition_active ? "Active" : "Clear"}</p></div>
-        <div><p className="label">Began</p><p className="figures">{stamp(data.activated_at)}</p></div>
-        <div><p className="label">Cleared</p><p className="figures">{stamp(data.cleared_at)}</p></div>
-        <div><p className="label">Acknowledged</p><p className="figures">{data.acknowledged_at ? `${stamp(data.acknowledged_at)} by ${data.acknowledged_by?.email ?? (data.acknowledged_by?.name || "—")}` : "—"}</p></div>
+        <div><p className="label">Began</p><p className="figures"><SiteTime at={data.activated_at} zone={zone} /></p></div>
+        <div><p className="label">Cleared</p><p className="figures"><SiteTime at={data.cleared_at} zone={zone} /></p></div>
+        <div><p className="label">Acknowledged</p><p className="figures">{data.acknowledged_at ? <><SiteTime at={data.acknowledged_at} zone={zone} /> by {data.acknowledged_by?.email ?? (data.acknowledged_by?.name || "—")}</> : "—"}</p></div>
         <div><p className="label">Activations</p><p className="figures">{data.activations}</p></div>
         {data.out_of_service_reason && <div className="sm:col-span-4"><p className="label">Out of service because</p><p>{data.out_of_service_reason}</p></div>}
       </section>
@@ -105,7 +104,7 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
           <tbody>
             {data.events.map((e) => (
               <tr key={e.id}>
-                <td data-label="When" className="figures whitespace-nowrap">{stamp(e.at)}</td>
+                <td data-label="When" className="figures whitespace-nowrap"><SiteTime at={e.at} zone={zone} /></td>
                 <td data-label="Event">{e.kind.replaceAll("_", " ")}</td>
                 <td data-label="State" className="whitespace-nowrap">{e.from_state && e.to_state ? `${ALARM_STATE_WORDS[e.from_state]} → ${ALARM_STATE_WORDS[e.to_state]}` : "—"}</td>
                 <td data-label="Cause">{e.cause}</td>
@@ -134,8 +133,8 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
                   <td data-label="To">{n.email ?? "on-call person"} <span className="text-muted">(on call #{n.position})</span></td>
                   <td data-label="Why">{n.reason === "escalation" ? "Escalation" : "First notice"}</td>
                   <td data-label="Delivery"><NoticeDelivery notice={n} timeZone={data.site.time_zone} /></td>
-                  <td data-label="Link used" className="figures">{stamp(n.used_at)}</td>
-                  <td data-label="Link expires" className="figures">{stamp(n.expires_at)}</td>
+                  <td data-label="Link used" className="figures"><SiteTime at={n.used_at} zone={zone} /></td>
+                  <td data-label="Link expires" className="figures"><SiteTime at={n.expires_at} zone={zone} /></td>
                 </tr>
               ))}
             </tbody>

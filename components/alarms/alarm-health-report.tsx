@@ -2,13 +2,14 @@
 
 import useSWR from "swr";
 import { usePathname, useRouter, useSearchParams } from "next/navigation";
-import { format } from "date-fns";
 import { swrFetcher } from "@/lib/fetcher";
 import { isUuid } from "@/lib/validations/common";
 import type { BenchmarkedMetric, BenchmarkVerdict } from "@/lib/alarms/alarm-health";
 import type { AlarmHealthJson } from "@/lib/read-models/alarm-health";
 import type { SiteJson } from "@/lib/services/sites";
 import { Loading, LoadError } from "@/components/ui/data-state";
+import { SiteTime, useTimeDisplay } from "@/components/ui/site-time";
+import { formatDateTime, formatTime } from "@/lib/format/time";
 import { STACKED_TABLE } from "@/components/ui/form-fields";
 
 const METRICS: { key: keyof AlarmHealthJson["metrics"]; label: string }[] = [
@@ -61,6 +62,9 @@ export function AlarmHealthReport() {
   if (siteId) q.set("site_id", siteId);
   const { data, error, isLoading, mutate } = useSWR<AlarmHealthJson>(`/api/alarm-health?${q.toString()}`, swrFetcher, { keepPreviousData: true });
   const sites = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
+  // One site chosen: its clock; all sites: the viewer's.
+  const zone = sites.data?.items.find((s) => s.id === siteId)?.time_zone ?? null;
+  const time = useTimeDisplay(zone);
 
   function setParam(key: string, value: string) {
     const next = new URLSearchParams(params.toString());
@@ -96,8 +100,8 @@ export function AlarmHealthReport() {
       {data && (
         <>
           <p className="text-sm">
-            <span className="figures">{data.totalActivations}</span> activations from <span className="figures">{format(new Date(data.from), "yyyy-MM-dd HH:mm")}</span> to{" "}
-            <span className="figures">{format(new Date(data.to), "yyyy-MM-dd HH:mm")}</span> (<span className="figures">{data.periodDays.toFixed(1)}</span> days).
+            <span className="figures">{data.totalActivations}</span> activations from <SiteTime at={data.from} zone={zone} className="figures" /> to{" "}
+            <SiteTime at={data.to} zone={zone} className="figures" /> (<span className="figures">{data.periodDays.toFixed(1)}</span> days).
             {!data.periodLongEnough && <span className="font-bold"> The benchmarks are stated over 30 days or more; read a shorter period as a trend only.</span>}
             {" "}The benchmarks are per operator position: choose the sites one desk or team looks after.
           </p>
@@ -157,7 +161,7 @@ export function AlarmHealthReport() {
               <p className="px-3 py-3 text-sm">
                 {data.floods.length === 0
                   ? "No floods (more than 10 alarms in 10 min) in this period."
-                  : `${data.floods.length} flood${data.floods.length > 1 ? "s" : ""}: ${data.floods.map((f) => `${format(new Date(f.start), "MM-dd HH:mm")}–${format(new Date(f.end), "HH:mm")} (${f.alarmCount} alarms, peak ${f.peakPer10Min} in 10 min)`).join("; ")}.`}
+                  : `${data.floods.length} flood${data.floods.length > 1 ? "s" : ""}: ${data.floods.map((f) => `${formatDateTime(f.start, time)} to ${formatTime(f.end, time)} (${f.alarmCount} alarms, peak ${f.peakPer10Min} in 10 min)`).join("; ")}.`}
               </p>
             </section>
             <section className="card overflow-x-auto" aria-labelledby="health-chatter-title">
@@ -182,7 +186,7 @@ export function AlarmHealthReport() {
                     {data.stale.slice(0, 20).map((s) => (
                       <tr key={`${s.alarmKey}-${s.activeSince}`}>
                         <td data-label="Alarm">{label(s.alarmKey)}{s.stillActive && <span className="text-muted"> (still active)</span>}</td>
-                        <td data-label="Active since" className="figures">{format(new Date(s.activeSince), "yyyy-MM-dd HH:mm")}</td>
+                        <td data-label="Active since" className="figures"><SiteTime at={s.activeSince} zone={zone} /></td>
                         <td data-label="Hours" className="figures">{s.activeHours.toFixed(1)} h</td>
                       </tr>
                     ))}

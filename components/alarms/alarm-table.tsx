@@ -18,6 +18,7 @@ import { ClearFilters } from "@/components/ui/clear-filters";
 import { AlarmStateLabel, alarmFigure, alarmWhere } from "@/components/alarms/alarm-badges";
 import { PriorityBadge } from "@/components/ui/priority-badge";
 import { ALARM_STATE_WORDS } from "@/lib/alarms/vocabulary";
+import { SiteTime } from "@/components/ui/site-time";
 import { AlarmActionDialog, type AlarmDialogMode } from "@/components/alarms/alarm-actions";
 
 interface AlarmPage {
@@ -171,7 +172,7 @@ export function AlarmTable({ role }: { role: Role }) {
         cell: ({ row }) => (
           <>
             <AlarmStateLabel state={row.original.state as AlarmState} awaitingReset={row.original.awaiting_reset} />
-            {row.original.shelved_until && <span className="text-muted"> until {new Date(row.original.shelved_until).toLocaleTimeString([], { hour: "2-digit", minute: "2-digit" })}</span>}
+            {row.original.shelved_until && <span className="text-muted"> until <SiteTime at={row.original.shelved_until} zone={row.original.site.time_zone} show="time" /></span>}
           </>
         ),
       },
@@ -183,9 +184,9 @@ export function AlarmTable({ role }: { role: Role }) {
           row.original.state === "normal" ? (
             row.original.cleared_at ? <span className="whitespace-nowrap text-muted">cleared {formatDistanceToNowStrict(new Date(row.original.cleared_at))} ago</span> : "—"
           ) : row.original.activated_at ? (
-            <time dateTime={row.original.activated_at} title={new Date(row.original.activated_at).toLocaleString()} className="figures whitespace-nowrap">
-              {formatDistanceToNowStrict(new Date(row.original.activated_at))}
-            </time>
+            <span className="figures whitespace-nowrap">
+              {formatDistanceToNowStrict(new Date(row.original.activated_at))} · <SiteTime at={row.original.activated_at} zone={row.original.site.time_zone} className="text-muted" />
+            </span>
           ) : (
             "—"
           ),

@@ -7,6 +7,7 @@ import { fetchJson } from "@/lib/fetcher";
 import { formatMetres } from "@/components/fleet/fleet-figures";
 import { sinceText } from "@/components/fleet/fleet-status";
 import { PriorityBadge } from "@/components/ui/priority-badge";
+import { SiteTime } from "@/components/ui/site-time";
 import { alarmStateWord } from "@/lib/alarms/vocabulary";
 
 // The alarm row of LOOK.md for the live screens: glyph and priority word, what and where in one line,
@@ -96,8 +97,8 @@ export function FleetAlarmList({
             <span className="flex flex-wrap gap-x-3 md:shrink-0 md:flex-nowrap md:gap-x-4">
               {valueText(a) && <span className="figures whitespace-nowrap">{valueText(a)}</span>}
               <span className="whitespace-nowrap">{alarmStateWord(a.state)}</span>
-              <span className="figures whitespace-nowrap text-muted" title={a.activated_at ? new Date(a.activated_at).toLocaleString() : undefined}>
-                for {sinceText(a.activated_at)}
+              <span className="figures whitespace-nowrap text-muted">
+                for {sinceText(a.activated_at)}{a.activated_at && <> · since <SiteTime at={a.activated_at} zone={a.site.time_zone} show="time" /></>}
               </span>
             </span>
             {canAcknowledge && NEEDS_ACK.has(a.state) && (

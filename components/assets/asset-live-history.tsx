@@ -5,15 +5,15 @@ import { FlagTag } from "@/components/fleet/fleet-status";
 import { PriorityBadge } from "@/components/ui/priority-badge";
 import { alarmStateWord } from "@/lib/alarms/vocabulary";
 import { STACKED_TABLE } from "@/components/ui/form-fields";
+import { SiteTime } from "@/components/ui/site-time";
 
 // How the asset got here: its alarm history, the health flags of the period, its manual dips and its
 // calibration changes. Dense tables that become stacked cards at phone width.
 
-const when = (iso: string) => new Date(iso).toLocaleString();
 // Only level alarms carry a value in metres; health alarms carry counts or seconds.
 const isLevel = (kind: string) => isAlarmKind(kind) && isLevelAlarmKind(kind);
 
-export function AlarmHistory({ events }: { events: AssetOverviewJson["alarm_history"] }) {
+export function AlarmHistory({ events, zone }: { events: AssetOverviewJson["alarm_history"]; zone: string }) {
   if (!events.length) return <p className="px-3 py-4 text-sm text-muted">No alarm has changed state on this asset yet.</p>;
   return (
     <table className={STACKED_TABLE}>
@@ -29,7 +29,7 @@ export function AlarmHistory({ events }: { events: AssetOverviewJson["alarm_hist
       <tbody>
         {events.map((e) => (
           <tr key={e.id}>
-            <td data-label="When" className="figures whitespace-nowrap">{when(e.at)}</td>
+            <td data-label="When" className="figures whitespace-nowrap"><SiteTime at={e.at} zone={zone} /></td>
             <td data-label="Alarm">{e.priority && <PriorityBadge priority={e.priority} />} {e.alarm_label}</td>
             <td data-label="Change">
               {e.from_state && e.to_state && e.from_state !== e.to_state
@@ -49,7 +49,7 @@ export function AlarmHistory({ events }: { events: AssetOverviewJson["alarm_hist
   );
 }
 
-export function FlagHistory({ flags, now }: { flags: AssetOverviewJson["flags"]; now: number }) {
+export function FlagHistory({ flags, now, zone }: { flags: AssetOverviewJson["flags"]; now: number; zone: string }) {
   if (!flags.length) return <p className="px-3 py-4 text-sm text-muted">No sensor fault in this period.</p>;
   return (
     <table className={STACKED_TABLE}>
@@ -68,8 +68,8 @@ export function FlagHistory({ flags, now }: { flags: AssetOverviewJson["flags"];
           return (
             <tr key={f.id}>
               <td data-label="Flag"><FlagTag flag={f.flag} /></td>
-              <td data-label="Since" className="figures whitespace-nowrap">{when(f.since)}</td>
-              <td data-label="Cleared" className="whitespace-nowrap">{f.cleared_at ? <span className="figures">{when(f.cleared_at)}</span> : <span className="font-bold">still open</span>}</td>
+              <td data-label="Since" className="figures whitespace-nowrap"><SiteTime at={f.since} zone={zone} /></td>
+              <td data-label="Cleared" className="whitespace-nowrap">{f.cleared_at ? <span className="figures"><SiteTime at={f.cleared_at} zone={zone} /></span> : <span className="font-bold">still open</span>}</td>
               <td data-label="Lasted" className="figures">{formatDuration((end - new Date(f.since).getTime()) / 1000)}</td>
               <td data-label="Magnitude" className="figures">{f.magnitude != null ? Number(f.magnitude.toPrecision(3)) : "—"}</td>
             </tr>
@@ -80,7 +80,7 @@ export function FlagHistory({ flags, now }: { flags: AssetOverviewJson["flags"];
   );
 }
 
-export function DipList({ dips }: { dips: AssetOverviewJson["dips"] }) {
+export function DipList({ dips, zone }: { dips: AssetOverviewJson["dips"]; zone: string }) {
   if (!dips.length) return <p className="px-3 py-4 text-sm text-muted">No manual dip in this period.</p>;
   return (
     <table className={STACKED_TABLE}>
@@ -96,7 +96,7 @@ export function DipList({ dips }: { dips: AssetOverviewJson["dips"] }) {
       <tbody>
         {dips.map((d) => (
           <tr key={d.id}>
-            <td data-label="When" className="figures whitespace-nowrap">{when(d.at)}</td>
+            <td data-label="When" className="figures whitespace-nowrap"><SiteTime at={d.at} zone={zone} /></td>
             <td data-label="Dipped level" className="figures">{formatMetres(d.level_m)}</td>
             <td data-label="Sensor then" className="figures">{formatMetres(d.measured_level_m)}</td>
             <td data-label="Sensor − dip" className="figures">{d.residual_m != null ? `${(d.residual_m * 1000).toFixed(1)}\u00a0mm` : "—"}</td>
@@ -108,7 +108,7 @@ export function DipList({ dips }: { dips: AssetOverviewJson["dips"] }) {
   );
 }
 
-export function CalibrationList({ changes }: { changes: AssetOverviewJson["calibrations"] }) {
+export function CalibrationList({ changes, zone }: { changes: AssetOverviewJson["calibrations"]; zone: string }) {
   if (!changes.length) return <p className="px-3 py-4 text-sm text-muted">No calibration change in this period.</p>;
   return (
     <table className={STACKED_TABLE}>
@@ -124,7 +124,7 @@ export function CalibrationList({ changes }: { changes: AssetOverviewJson["calib
       <tbody>
         {changes.map((c) => (
           <tr key={c.id}>
-            <td data-label="When" className="figures whitespace-nowrap">{when(c.at)}</td>
+            <td data-label="When" className="figures whitespace-nowrap"><SiteTime at={c.at} zone={zone} /></td>
             <td data-label="Offset" className="figures">{formatMetres(c.before_offset_m)} → {formatMetres(c.after_offset_m)}</td>
             <td data-label="Scale" className="figures">{c.before_scale.toFixed(5)} → {c.after_scale.toFixed(5)}</td>
             <td data-label="Residual after (RMS)" className="figures">{(c.rms_after_m * 1000).toFixed(1)}{"\u00a0"}mm</td>

@@ -14,6 +14,8 @@ import { formatDaysToReorder, formatDuration, formatLitres, formatMetres, format
 import { LIVE_REFRESH_MS } from "@/components/fleet/fleet-overview";
 import { FlagTag, OverdueAge, TankCaution, type Priority } from "@/components/fleet/fleet-status";
 import { LevelTrend } from "@/components/assets/level-trend";
+import { SiteTime, useTimeDisplay } from "@/components/ui/site-time";
+import { formatDateTime } from "@/lib/format/time";
 import { SoundingStrip } from "@/components/assets/sounding-strip";
 
 // The asset screen: what is wrong (alarms, open sensor flags), what it is now, and how it got here
@@ -90,7 +92,7 @@ function NowPanel({ o, now }: { o: Overview; now: number }) {
             {latest?.volume_l != null && o.asset.capacity_l != null && o.asset.safe_fill_pct != null ? formatLitres(Math.max(0, (o.asset.capacity_l * o.asset.safe_fill_pct) / 100 - latest.volume_l)) : "—"}
           </dd>
           <dt className="text-muted">Reorder</dt>
-          <dd>{s?.forecast ? formatDaysToReorder(s.forecast.days_to_reorder) : "no forecast yet"}{s?.forecast?.reorder_at && <span className="text-muted"> · {new Date(s.forecast.reorder_at).toLocaleDateString()}</span>}</dd>
+          <dd>{s?.forecast ? formatDaysToReorder(s.forecast.days_to_reorder) : "no forecast yet"}{s?.forecast?.reorder_at && <span className="text-muted"> · <SiteTime at={s.forecast.reorder_at} zone={o.asset.site_time_zone} show="date" /></span>}</dd>
           <dt className="text-muted">Empty</dt>
           <dd>{s?.forecast ? formatDaysToReorder(s.forecast.days_to_empty, "empty now") : "—"}</dd>
         </dl>
@@ -126,6 +128,7 @@ function Trend({ o, period }: { o: Overview; period: Period }) {
   // Units that time an echo are compensated for the air temperature; pulse- and duty-coded ones compensate themselves.
   const compensated = channel ? channel.device_profile === "echo" || channel.device_profile === "capture" : false;
   const key = channel ? ["asset-series", o.asset.id, channel.id, JSON.stringify(period)] : null;
+  const time = useTimeDisplay(o.asset.site_time_zone);
   const series = useSWR(key, () => fetchSeries(o.asset.id, channel.id, period, compensated), { refreshInterval: period.kind === "relative" ? SERIES_REFRESH_MS : 0, keepPreviousData: true });
   if (!channel) return <p className="text-sm text-muted">No channel measures this asset yet; a device must be assigned to it first.</p>;
   if (series.isLoading && !series.data) return <Loading label="Loading the trend…" />;
@@ -146,13 +149,13 @@ function Trend({ o, period }: { o: Overview; period: Period }) {
     calibrations: o.calibrations.map((c) => ({ atMs: Date.parse(c.at), label: "Calibration" })),
   };
   const n = trend.compensated.filter(([, v]) => v != null).length;
-  const description = `${isTank ? "Level" : "Distance"} of ${o.asset.name} from ${new Date(series.data.fromMs).toLocaleString()} to ${new Date(series.data.toMs).toLocaleString()}, ${n} points (${series.data.source})${marks.setpoints.length ? `; setpoints ${marks.setpoints.map((s) => `${s.key.toUpperCase()} ${formatMetres(s.value_m)}`).join(", ")}` : ""}${marks.dips.length ? `; ${marks.dips.length} manual dips` : ""}${marks.calibrations.length ? `; ${marks.calibrations.length} calibration changes` : ""}.`;
+  const description = `${isTank ? "Level" : "Distance"} of ${o.asset.name} from ${formatDateTime(series.data.fromMs, time)} to ${formatDateTime(series.data.toMs, time)}, ${n} points (${series.data.source})${marks.setpoints.length ? `; setpoints ${marks.setpoints.map((s) => `${s.key.toUpperCase()} ${formatMetres(s.value_m)}`).join(", ")}` : ""}${marks.dips.length ? `; ${marks.dips.length} manual dips` : ""}${marks.calibrations.length ? `; ${marks.calibrations.length} calibration changes` : ""}.`;
   return (
     <>
       {n === 0 ? (
         <p className="py-6 text-sm text-muted">No valid measurement in this period.</p>
       ) : (
-        <LevelTrend trend={trend} marks={marks} fromMs={series.data.fromMs} toMs={series.data.toMs} description={description} />
+        <LevelTrend trend={trend} marks={marks} fromMs={series.data.fromMs} toMs={series.data.toMs} description={description} timeZone={o.asset.site_time_zone} />
       )}
       <p className="mt-1 text-xs text-muted">
         From {series.data.source}. Raw is what a unit without temperature compensation would report (a fixed speed of sound for 20 °C).
@@ -215,24 +218,24 @@ export function AssetLive({ assetId, canAcknowledge }: { assetId: string; canAck
 
       <section className="card" aria-labelledby="asset-alarm-history">
         <h2 id="asset-alarm-history" className="border-b border-rule px-3 py-2 text-lg font-bold">Alarm history</h2>
-        <AlarmHistory events={data.alarm_history} />
+        <AlarmHistory events={data.alarm_history} zone={data.asset.site_time_zone} />
       </section>
 
       <section className="card" aria-labelledby="asset-flags">
         <h2 id="asset-flags" className="border-b border-rule px-3 py-2 text-lg font-bold">Sensor health in this period</h2>
-        <FlagHistory flags={data.flags} now={now} />
+        <FlagHistory flags={data.flags} now={now} zone={data.asset.site_time_zone} />
       </section>
 
       {isTank && (
         <section className="card" aria-labelledby="asset-dips">
           <h2 id="asset-dips" className="border-b border-rule px-3 py-2 text-lg font-bold">Manual dips in this period</h2>
-          <DipList dips={data.dips} />
+          <DipList dips={data.dips} zone={data.asset.site_time_zone} />
         </section>
       )}
 
       <section className="card" aria-labelledby="asset-calibrations">
         <h2 id="asset-calibrations" className="border-b border-rule px-3 py-2 text-lg font-bold">Calibration changes in this period</h2>
-        <CalibrationList changes={data.calibrations} />
+        <CalibrationList changes={data.calibrations} zone={data.asset.site_time_zone} />
       </section>
     </div>
   );

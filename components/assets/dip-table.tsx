@@ -3,6 +3,8 @@
 import type { DipJson } from "@/lib/services/dips";
 import { formatMetres } from "@/components/fleet/fleet-figures";
 import { createColumnHelper } from "@tanstack/react-table";
+import { SiteTime, useTimeDisplay } from "@/components/ui/site-time";
+import { formatDateTime } from "@/lib/format/time";
 import { DataTable } from "@/components/ui/data-table";
 
 const MINUS = "\u2212";
@@ -15,14 +17,11 @@ export function formatSignedMm(m: number | null | undefined): string {
   return `${Number(text) === 0 ? "±" : mm > 0 ? "+" : MINUS}${text}\u00a0mm`;
 }
 
-export function formatWhen(at: string | Date): string {
-  return new Date(at).toLocaleString(undefined, { dateStyle: "medium", timeStyle: "short" });
-}
-
 const column = createColumnHelper<DipJson>();
 
 /** Dips with the sensor's level at their time; a checkbox per dip chooses it for a calibration. */
-export function DipTable({ dips, selected, onToggle, selectable }: { dips: DipJson[]; selected: ReadonlySet<string>; onToggle: (id: string) => void; selectable: boolean }) {
+export function DipTable({ dips, selected, onToggle, selectable, zone }: { dips: DipJson[]; selected: ReadonlySet<string>; onToggle: (id: string) => void; selectable: boolean; zone: string }) {
+  const time = useTimeDisplay(zone);
   const columns = [
     ...(selectable
       ? [
@@ -36,13 +35,13 @@ export function DipTable({ dips, selected, onToggle, selectable }: { dips: DipJs
                 checked={selected.has(d.id)}
                 disabled={d.sensor === null}
                 onChange={() => onToggle(d.id)}
-                aria-label={`Use the dip of ${formatWhen(d.at)} (${d.level_m.toFixed(3)} m)`}
+                aria-label={`Use the dip of ${formatDateTime(d.at, time)} (${d.level_m.toFixed(3)} m)`}
               />
             ),
           }),
         ]
       : []),
-    column.accessor((d) => new Date(d.at).getTime(), { id: "time", header: "Time", cell: (c) => formatWhen(c.row.original.at), meta: { cellClassName: "figures" } }),
+    column.accessor((d) => new Date(d.at).getTime(), { id: "time", header: "Time", cell: (c) => <SiteTime at={c.row.original.at} zone={zone} />, meta: { cellClassName: "figures" } }),
     column.accessor("level_m", { header: "Dipped level", cell: (c) => formatMetres(c.getValue()), meta: { cellClassName: "figures" } }),
     column.accessor((d) => d.sensor?.level_m ?? null, {
       id: "sensor",

@@ -4,6 +4,8 @@ import dynamic from "next/dynamic";
 import type { EChartsOption } from "echarts";
 import { Loading } from "@/components/ui/data-state";
 import type { TrendData } from "@/components/assets/asset-live-series";
+import { axisZoneTitle, formatAxisLabel, formatDate, formatDateTime, type TimeDisplay } from "@/lib/format/time";
+import { useTimeDisplay } from "@/components/ui/site-time";
 
 // The trend of LOOK.md in echarts: compensated as a thin ink line, raw as a dashed muted line, air
 // temperature on a right axis, setpoints as dashed horizontals labelled at the right edge, the
@@ -25,7 +27,7 @@ export interface TrendMarks {
   calibrations: { atMs: number; label: string }[];
 }
 
-export function trendOption(trend: TrendData, marks: TrendMarks, window: { fromMs: number; toMs: number }): EChartsOption {
+export function trendOption(trend: TrendData, marks: TrendMarks, window: { fromMs: number; toMs: number }, time: TimeDisplay): EChartsOption {
   const label = trend.quantity === "level" ? "Level" : "Distance";
   const endMs = Math.max(window.toMs, marks.forecast.length ? marks.forecast[marks.forecast.length - 1][0] : 0);
   const hasTemperature = trend.temperature.some(([, v]) => v != null);
@@ -41,9 +43,21 @@ export function trendOption(trend: TrendData, marks: TrendMarks, window: { fromM
     legend: { bottom: 0, textStyle: { color: INK } },
     tooltip: {
       trigger: "axis",
+      axisPointer: { label: { formatter: (p) => (typeof p.value === "number" ? formatDateTime(p.value, time) : String(p.value)) } },
       valueFormatter: (v) => (typeof v === "number" ? v.toFixed(3) : String(v ?? "—")),
     },
-    xAxis: { type: "time", min: window.fromMs, max: endMs, axisLine: { lineStyle: { color: RULE } }, axisLabel: { color: MUTED, hideOverlap: true }, splitLine: { show: false } },
+    xAxis: {
+      type: "time",
+      min: window.fromMs,
+      max: endMs,
+      name: axisZoneTitle(window.fromMs, endMs, time),
+      nameLocation: "middle",
+      nameGap: 28,
+      nameTextStyle: { color: MUTED },
+      axisLine: { lineStyle: { color: RULE } },
+      axisLabel: { color: MUTED, hideOverlap: true, formatter: (v: number) => formatAxisLabel(v, time, endMs - window.fromMs) },
+      splitLine: { show: false },
+    },
     yAxis: [
       { type: "value", name: `${label} (m)`, nameTextStyle: { color: MUTED }, scale: true, axisLabel: { color: MUTED, formatter: (v: number) => v.toFixed(2) }, splitLine: { lineStyle: { color: RULE } } },
       ...(hasTemperature
@@ -103,7 +117,7 @@ export function trendOption(trend: TrendData, marks: TrendMarks, window: { fromM
               lineStyle: { color: INK, width: 1.2, type: "dotted" as const },
               itemStyle: { color: INK },
               // Above the line's end, right-aligned, so it stays inside the plot.
-              endLabel: { show: true, color: INK, align: "right" as const, offset: [0, -14] as [number, number], formatter: () => `Reorder ${new Date(marks.forecast[marks.forecast.length - 1][0]).toLocaleDateString()}` },
+              endLabel: { show: true, color: INK, align: "right" as const, offset: [0, -14] as [number, number], formatter: () => `Reorder ${formatDate(marks.forecast[marks.forecast.length - 1][0], time)}` },
             },
           ]
         : []),
@@ -126,8 +140,8 @@ export function trendOption(trend: TrendData, marks: TrendMarks, window: { fromM
   };
 }
 
-export function LevelTrend({ trend, marks, fromMs, toMs, description }: { trend: TrendData; marks: TrendMarks; fromMs: number; toMs: number; description: string }) {
-  const option = trendOption(trend, marks, { fromMs, toMs });
+export function LevelTrend({ trend, marks, fromMs, toMs, description, timeZone }: { trend: TrendData; marks: TrendMarks; fromMs: number; toMs: number; description: string; timeZone: string }) {
+  const option = trendOption(trend, marks, { fromMs, toMs }, useTimeDisplay(timeZone));
   // The legend's "band-base" is the band's invisible floor; hide it from the legend.
   const legend = { ...(option.legend as object), data: (option.series as { name: string }[]).map((s) => s.name).filter((n) => n !== "band-base") };
   return (

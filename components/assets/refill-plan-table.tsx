@@ -8,6 +8,7 @@ import type { RefillPlanJson } from "@/lib/read-models/refill-plan";
 import { MAX_HORIZON_DAYS } from "@/lib/validations/export";
 import { createColumnHelper } from "@tanstack/react-table";
 import { formatAge, formatDaysToReorder, formatLitres, formatPercent } from "@/components/fleet/fleet-figures";
+import { SiteTime } from "@/components/ui/site-time";
 import { DataTable } from "@/components/ui/data-table";
 
 export const HORIZON_CHOICES = [3, 7, 14, 30, 60, MAX_HORIZON_DAYS] as const;
@@ -18,16 +19,20 @@ function horizonFrom(value: string | null): number {
   return (HORIZON_CHOICES as readonly number[]).includes(n) ? n : DEFAULT_HORIZON;
 }
 
-function dueText(row: RefillPlanJson["items"][number]): string {
+function DueText({ row }: { row: RefillPlanJson["items"][number] }) {
   if (row.reason === "below_reorder") return "now: below the reorder level";
   const when = row.days_to_reorder <= 0 ? "now, by the forecast" : formatDaysToReorder(row.days_to_reorder);
-  return `${when} (${new Date(row.due_at).toLocaleDateString(undefined, { dateStyle: "medium" })})`;
+  return (
+    <>
+      {when} (<SiteTime at={row.due_at} zone={row.site_time_zone} show="date" />)
+    </>
+  );
 }
 
 type PlanRow = RefillPlanJson["items"][number];
 const column = createColumnHelper<PlanRow>();
 const columns = [
-  column.accessor((r) => new Date(r.due_at).getTime(), { id: "due", header: "Due", cell: (c) => <span className={c.row.original.reason === "below_reorder" ? "font-bold" : undefined}>{dueText(c.row.original)}</span> }),
+  column.accessor((r) => new Date(r.due_at).getTime(), { id: "due", header: "Due", cell: (c) => <span className={c.row.original.reason === "below_reorder" ? "font-bold" : undefined}><DueText row={c.row.original} /></span> }),
   column.accessor("asset_name", { header: "Tank", cell: (c) => <Link href={`/assets/${c.row.original.asset_id}`} className="underline">{c.getValue()}</Link> }),
   column.accessor("site_name", { header: "Site" }),
   column.accessor("fill_pct", { header: "Fill now", cell: (c) => formatPercent(c.getValue()), meta: { cellClassName: "figures" } }),

@@ -3,9 +3,9 @@
 import useSWR from "swr";
 import Link from "next/link";
 import { useSearchParams } from "next/navigation";
-import { format } from "date-fns";
 import { swrFetcher } from "@/lib/fetcher";
 import { createColumnHelper } from "@tanstack/react-table";
+import { SiteTime } from "@/components/ui/site-time";
 import { DataTable } from "@/components/ui/data-table";
 
 interface AuditPage {
@@ -18,7 +18,7 @@ interface AuditPage {
 type AuditEntry = AuditPage["items"][number];
 const column = createColumnHelper<AuditEntry>();
 const columns = [
-  column.accessor("at", { header: "When", cell: (c) => format(new Date(c.getValue()), "yyyy-MM-dd HH:mm:ss"), meta: { cellClassName: "figures whitespace-nowrap" } }),
+  column.accessor("at", { header: "When", cell: (c) => <SiteTime at={c.getValue()} />, meta: { cellClassName: "figures whitespace-nowrap" } }),
   column.accessor("actor", { header: "Who" }),
   column.accessor("action", { header: "Action" }),
   column.accessor("entity_type", { header: "What" }),

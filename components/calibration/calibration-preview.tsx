@@ -2,7 +2,8 @@
 
 import type { CalibrationPreviewJson } from "@/lib/services/calibration";
 import { CalibrationTrend } from "@/components/calibration/calibration-trend";
-import { formatSignedMm, formatWhen } from "@/components/assets/dip-table";
+import { formatSignedMm } from "@/components/assets/dip-table";
+import { SiteTime } from "@/components/ui/site-time";
 import { STACKED_TABLE } from "@/components/ui/form-fields";
 
 export function formatScale(scale: number): string {
@@ -14,7 +15,7 @@ export function formatOffsetMm(offsetM: number): string {
 }
 
 /** What the chosen dips say: offset and scale now and proposed, residuals before and after, the trend both ways. */
-export function CalibrationPreview({ preview }: { preview: CalibrationPreviewJson }) {
+export function CalibrationPreview({ preview, zone }: { preview: CalibrationPreviewJson; zone: string }) {
   const rows = [
     { label: "Offset", now: formatOffsetMm(preview.current.offset_m), proposed: formatOffsetMm(preview.proposed.offset_m) },
     { label: "Scale", now: formatScale(preview.current.scale), proposed: formatScale(preview.proposed.scale) },
@@ -66,7 +67,7 @@ export function CalibrationPreview({ preview }: { preview: CalibrationPreviewJso
         <tbody>
           {preview.residuals.map((r) => (
             <tr key={r.dip_id}>
-              <td data-label="Dip" className="figures">{formatWhen(r.at)}</td>
+              <td data-label="Dip" className="figures"><SiteTime at={r.at} zone={zone} /></td>
               <td data-label="Dipped level" className="figures">{r.dip_level_m.toFixed(3)}{"\u00a0"}m</td>
               <td data-label="Sensor − dip now" className="figures">{formatSignedMm(r.residual_before_m)}</td>
               <td data-label="Sensor − dip after" className="figures">{formatSignedMm(r.residual_after_m)}</td>
@@ -75,7 +76,7 @@ export function CalibrationPreview({ preview }: { preview: CalibrationPreviewJso
         </tbody>
       </table>
       {preview.series.length > 0 ? (
-        <CalibrationTrend series={preview.series.map((s) => ({ ...s, at: String(s.at) }))} dips={preview.dips.map((d) => ({ at: String(d.at), level_m: d.level_m }))} />
+        <CalibrationTrend series={preview.series.map((s) => ({ ...s, at: String(s.at) }))} dips={preview.dips.map((d) => ({ at: String(d.at), level_m: d.level_m }))} zone={zone} />
       ) : (
         <p className="text-sm text-muted">No valid measurements around the dips to draw.</p>
       )}

@@ -4,6 +4,8 @@ import { useEffect, useRef } from "react";
 import * as echarts from "echarts/core";
 import { LineChart, ScatterChart } from "echarts/charts";
 import { GridComponent, LegendComponent, TooltipComponent } from "echarts/components";
+import { useTimeDisplay } from "@/components/ui/site-time";
+import { axisZoneTitle, formatAxisLabel } from "@/lib/format/time";
 import { SVGRenderer } from "echarts/renderers";
 
 echarts.use([LineChart, ScatterChart, GridComponent, LegendComponent, TooltipComponent, SVGRenderer]);
@@ -17,19 +19,33 @@ const RULE = "#d9d6cc";
 export interface CalibrationTrendProps {
   series: { at: string; level_now_m: number; level_after_m: number }[];
   dips: { at: string; level_m: number }[];
+  zone: string;
 }
 
-export function CalibrationTrend({ series, dips }: CalibrationTrendProps) {
+export function CalibrationTrend({ series, dips, zone }: CalibrationTrendProps) {
   const ref = useRef<HTMLDivElement>(null);
+  const time = useTimeDisplay(zone);
   useEffect(() => {
     if (!ref.current) return;
     const chart = echarts.init(ref.current, undefined, { renderer: "svg" });
+    const times = [...series, ...dips].map((p) => Date.parse(p.at));
+    const fromMs = Math.min(...times);
+    const toMs = Math.max(...times);
     chart.setOption({
       animation: false,
-      grid: { left: 56, right: 16, top: 32, bottom: 40 },
+      grid: { left: 56, right: 16, top: 32, bottom: 56 },
       legend: { top: 0, textStyle: { color: INK }, data: ["After calibration", "As measured now", "Dips"] },
       tooltip: { trigger: "axis", valueFormatter: (v: unknown) => (typeof v === "number" ? `${v.toFixed(3)} m` : String(v)) },
-      xAxis: { type: "time", axisLine: { lineStyle: { color: RULE } }, axisLabel: { color: MUTED }, splitLine: { show: false } },
+      xAxis: {
+        type: "time",
+        name: axisZoneTitle(fromMs, toMs, time),
+        nameLocation: "middle",
+        nameGap: 28,
+        nameTextStyle: { color: MUTED },
+        axisLine: { lineStyle: { color: RULE } },
+        axisLabel: { color: MUTED, hideOverlap: true, formatter: (v: number) => formatAxisLabel(v, time, toMs - fromMs) },
+        splitLine: { show: false },
+      },
       yAxis: { type: "value", name: "level (m)", scale: true, axisLabel: { color: MUTED }, nameTextStyle: { color: MUTED }, splitLine: { lineStyle: { color: RULE } } },
       series: [
         { name: "After calibration", type: "line", showSymbol: false, lineStyle: { color: INK, width: 1.5 }, itemStyle: { color: INK }, data: series.map((s) => [s.at, s.level_after_m]) },
@@ -43,7 +59,7 @@ export function CalibrationTrend({ series, dips }: CalibrationTrendProps) {
       resize.disconnect();
       chart.dispose();
     };
-  }, [series, dips]);
+  }, [series, dips, time]);
   return (
     <figure>
       <div ref={ref} className="h-64 w-full" role="img" aria-label="Level as measured now (dashed) and after the calibration (solid), with the dips as diamonds" />

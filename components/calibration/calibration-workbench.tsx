@@ -8,12 +8,13 @@ import type { AssetChannel, DipJson } from "@/lib/services/dips";
 import type { CalibrationChangeJson, CalibrationChannelJson, CalibrationPreviewJson } from "@/lib/services/calibration";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { DipForm } from "@/components/assets/dip-form";
-import { DipTable, formatWhen } from "@/components/assets/dip-table";
+import { DipTable } from "@/components/assets/dip-table";
+import { SiteTime } from "@/components/ui/site-time";
 import { CalibrationPreview, formatOffsetMm, formatScale } from "@/components/calibration/calibration-preview";
 import { SelectField, STACKED_TABLE, TextAreaField } from "@/components/ui/form-fields";
 
 interface DipsResponse {
-  asset: { id: string; name: string; kind: string; site_id: string; mount_height_m: number | null; tank_height_m: number | null; max_dip_level_m: number | null };
+  asset: { id: string; name: string; kind: string; site_id: string; site_time_zone: string; mount_height_m: number | null; tank_height_m: number | null; max_dip_level_m: number | null };
   channels: AssetChannel[];
   channel_id: string | null;
   items: DipJson[];
@@ -24,7 +25,7 @@ interface CalibrationResponse {
   history: CalibrationChangeJson[];
 }
 
-function CalibrationHistory({ channelId }: { channelId: string }) {
+function CalibrationHistory({ channelId, zone }: { channelId: string; zone: string }) {
   const { data, error, isLoading, mutate } = useSWR<CalibrationResponse>(`/api/channels/${channelId}/calibration`, swrFetcher, { refreshInterval: 60000 });
   return (
     <section aria-labelledby="history-title" className="card overflow-x-auto">
@@ -56,7 +57,7 @@ function CalibrationHistory({ channelId }: { channelId: string }) {
               <tbody>
                 {data.history.map((h) => (
                   <tr key={h.id}>
-                    <td data-label="When" className="figures">{formatWhen(h.at)}</td>
+                    <td data-label="When" className="figures"><SiteTime at={h.at} zone={zone} /></td>
                     <td data-label="By">{h.by}</td>
                     <td data-label="Offset before → after" className="figures">{formatOffsetMm(h.before.offset_m)} → {formatOffsetMm(h.after.offset_m)}</td>
                     <td data-label="Scale before → after" className="figures">{formatScale(h.before.scale)} → {formatScale(h.after.scale)}</td>
@@ -154,7 +155,7 @@ export function CalibrationWorkbench({ assetId, canRecord, canApply }: { assetId
           <Link href={`/assets/${assetId}`} className="ml-auto text-sm underline">Tank trend</Link>
         </div>
         <p className="px-3 pt-1 text-sm text-muted">The sensor&apos;s level is its valid measurement nearest each dip&apos;s time, within an hour.</p>
-        <DipTable dips={data.items} selected={selected} onToggle={toggle} selectable={canApply && !!activeChannel} />
+        <DipTable dips={data.items} selected={selected} onToggle={toggle} selectable={canApply && !!activeChannel} zone={data.asset.site_time_zone} />
       </section>
 
       {canApply && activeChannel && (
@@ -173,7 +174,7 @@ export function CalibrationWorkbench({ assetId, canRecord, canApply }: { assetId
           )}
           {preview && (
             <>
-              <CalibrationPreview preview={preview} />
+              <CalibrationPreview preview={preview} zone={data.asset.site_time_zone} />
               <TextAreaField id="calibration-note" label="Note for the history" rows={2} value={note} onChange={(e) => setNote(e.target.value)} />
               <button type="button" className="btn" onClick={apply} disabled={busy !== null}>
                 {busy === "apply" ? "Applying…" : "Apply calibration"}
@@ -184,7 +185,7 @@ export function CalibrationWorkbench({ assetId, canRecord, canApply }: { assetId
         </section>
       )}
 
-      {activeChannel && <CalibrationHistory key={`${activeChannel}-${done ?? ""}`} channelId={activeChannel} />}
+      {activeChannel && <CalibrationHistory key={`${activeChannel}-${done ?? ""}`} channelId={activeChannel} zone={data.asset.site_time_zone} />}
     </div>
   );
 }

@@ -1,7 +1,6 @@
 "use client";
 
 import useSWR from "swr";
-import { format } from "date-fns";
 import { swrFetcher } from "@/lib/fetcher";
 import type { AssetJson } from "@/lib/services/assets";
 import type { describeDeviceTiming, DeviceJson } from "@/lib/services/devices";
@@ -9,14 +8,14 @@ import type { SiteJson } from "@/lib/services/sites";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { DeviceKeyActions } from "@/components/devices/device-key-actions";
 import { isOffline, PROFILE_LABELS } from "@/components/devices/device-table";
-import { formatAge, formatDbm, formatMetres, formatVolts, groupDigits } from "@/components/fleet/fleet-figures";
+import { formatAge, formatCount, formatDbm, formatMetres, formatVolts } from "@/components/fleet/fleet-figures";
+import { SiteTime } from "@/components/ui/site-time";
 import { STACKED_TABLE } from "@/components/ui/form-fields";
 
 type DeviceTiming = NonNullable<Awaited<ReturnType<typeof describeDeviceTiming>>>;
 type DeviceKeyRow = { id: string; prefix: string; created_at: string; revoked_at: string | null };
 type DeviceDetailJson = DeviceJson & { keys: DeviceKeyRow[]; timing: DeviceTiming | null };
 
-const when = (at: string | Date) => format(new Date(at), "yyyy-MM-dd HH:mm");
 const fig = (text: string) => <span className="figures">{text}</span>;
 
 function Facts({ items }: { items: [string, React.ReactNode][] }) {
@@ -39,7 +38,7 @@ function profileFacts(d: DeviceJson): [string, React.ReactNode][] {
     ["Max requests a minute", fig(String(d.max_requests_per_min))],
     ["Firmware", d.firmware ?? "—"],
   ];
-  if (d.profile === "capture") return [profile, ["Timer clock", fig(`${groupDigits(String(d.clock_hz))} Hz`)], ["Prescaler", fig(String(d.prescaler))], ["Timer width", fig(`${d.timer_bits} bits`)], ...rate];
+  if (d.profile === "capture") return [profile, ["Timer clock", fig(`${formatCount(d.clock_hz ?? 0)} Hz`)], ["Prescaler", fig(String(d.prescaler))], ["Timer width", fig(`${d.timer_bits} bits`)], ...rate];
   if (d.profile === "pulse_coded") return [profile, ["Scale", fig(`${d.us_per_mm} µs per mm`)], ...rate];
   if (d.profile === "duty_coded") return [profile, ["Zero", fig(formatMetres(d.zero_m))], ["Span", fig(formatMetres(d.span_m))], ...rate];
   return [profile, ...rate];
@@ -152,8 +151,8 @@ export function DeviceDetail({ id, canManage }: { id: string; canManage: boolean
             {data.keys.map((k) => (
               <tr key={k.id}>
                 <td data-label="Prefix" className="figures">ht_{k.prefix}_…</td>
-                <td data-label="Created" className="figures">{when(k.created_at)}</td>
-                <td data-label="Revoked" className="figures">{k.revoked_at ? when(k.revoked_at) : <span className="font-sans">active</span>}</td>
+                <td data-label="Created" className="figures"><SiteTime at={k.created_at} zone={site.data?.time_zone} /></td>
+                <td data-label="Revoked" className="figures">{k.revoked_at ? <SiteTime at={k.revoked_at} zone={site.data?.time_zone} /> : <span className="font-sans">active</span>}</td>
               </tr>
             ))}
           </tbody>

@@ -77,12 +77,13 @@ function MeasurementsExport() {
   const assets = useSWR<{ items: AssetJson[] }>("/api/assets", swrFetcher);
   const [siteId, setSiteId] = useState("");
   const [chosen, setChosen] = useState<Set<string>>(new Set());
+  const [fullPrecision, setFullPrecision] = useState(false);
   const range = useRange(7);
   const shown = useMemo(() => (assets.data?.items ?? []).filter((a) => !siteId || a.site_id === siteId), [assets.data, siteId]);
   const siteName = (id: string) => sites.data?.items.find((s) => s.id === id)?.name ?? "";
   const tooMany = chosen.size > MAX_EXPORT_ASSETS ? `Choose at most ${MAX_EXPORT_ASSETS} assets.` : null;
   const why = chosen.size === 0 ? "Choose at least one asset." : tooMany;
-  const href = !why && range.query ? `/api/exports/measurements?asset_ids=${[...chosen].join(",")}&${range.query}` : null;
+  const href = !why && range.query ? `/api/exports/measurements?asset_ids=${[...chosen].join(",")}&${range.query}${fullPrecision ? "&precision=full" : ""}` : null;
 
   function toggle(id: string) {
     setChosen((prev) => {
@@ -121,6 +122,13 @@ function MeasurementsExport() {
         {tooMany && <p className="field-error">{tooMany}</p>}
       </fieldset>
       <RangeFields idPrefix="measurements" {...range} />
+      <label className="flex items-start gap-2 text-sm">
+        <input type="checkbox" className="mt-1" checked={fullPrecision} onChange={(e) => setFullPrecision(e.target.checked)} />
+        <span>
+          Full precision
+          <span className="block text-muted">By default each figure keeps only the digits its uncertainty supports. Full precision keeps every digit as computed, for your own analysis.</span>
+        </span>
+      </label>
       <Download href={href} label="Download measurements CSV" why={why} />
     </section>
   );

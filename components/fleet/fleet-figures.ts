@@ -4,91 +4,53 @@
 
 import { differenceInDays, differenceInHours, differenceInMinutes } from "date-fns";
 
+import { formatLength, formatNumber, formatTemperature, formatVolume, type FigureOptions } from "@/lib/format/number";
+import { COVERAGE_FACTOR } from "@/lib/uncertainty/budget";
+
 const NBSP = "\u00a0";
-const NARROW_NBSP = "\u202f";
-const MINUS = "\u2212";
+
+// The organisation's units and locale are not threaded through every screen yet: SI in en-GB's
+// decimal sign, the figures' digits from lib/format.
+const SI: FigureOptions = { system: "si", locale: "en-GB" };
 
 /**
- * Rounds an uncertainty after the Particle Data Group's rule: the three leading digits 100–354 keep
- * two significant digits, 355–949 one, 950–999 round up to 1000 and keep two. Returns the rounded
- * value and the number of decimals it has (negative for tens, hundreds…).
+ * A length with its expanded uncertainty U = k·u (the stored uncertainty is the standard one, k = 1):
+ * "1.84 m ± 12 mm (k=2)", the value to the digits U supports; without one, to the millimetre.
  */
-export function roundUncertainty(u: number): { value: number; decimals: number } {
-  if (!(u > 0) || !Number.isFinite(u)) throw new RangeError("an uncertainty must be a positive number");
-  const exponent = Math.floor(Math.log10(u));
-  const leading = Math.round(u / 10 ** (exponent - 2));
-  // 999.5 and up rounds to 1000: the next power of ten, like the 950–999 case.
-  if (leading >= 950) {
-    const decimals = 1 - (exponent + 1);
-    return { value: roundTo(10 ** (exponent + 1), decimals), decimals };
-  }
-  const decimals = (leading <= 354 ? 2 : 1) - 1 - exponent;
-  return { value: roundTo(u, decimals), decimals };
-}
-
-/** Rounds to a number of decimals; a negative number rounds to tens, hundreds… */
-export function roundTo(value: number, decimals: number): number {
-  return decimals >= 0 ? Number(value.toFixed(decimals)) : Math.round(value / 10 ** -decimals) * 10 ** -decimals;
-}
-
-/** Digits in groups of three separated by a narrow no-break space, as the SI writes them. */
-export function groupDigits(text: string): string {
-  const negative = text.startsWith("-");
-  const body = negative ? text.slice(1) : text;
-  const [int, frac] = body.split(".");
-  const grouped = int.length > 3 ? int.replace(/\B(?=(\d{3})+(?!\d))/g, NARROW_NBSP) : int;
-  return `${negative ? MINUS : ""}${grouped}${frac !== undefined ? `.${frac}` : ""}`;
-}
-
-function fixed(value: number, decimals: number): string {
-  const d = Math.max(0, decimals);
-  const text = roundTo(value, decimals).toFixed(d);
-  // "-0.000" is zero.
-  return Number(text) === 0 ? (0).toFixed(d) : text;
-}
-
-// Finest and coarsest precision a distance is ever written with: 0.1 mm and 1 cm.
-const MAX_DECIMALS_M = 4;
-const MIN_DECIMALS_M = 2;
-
-/** A length with its uncertainty: "1.842 m ± 6 mm"; without one, to the millimetre. */
-export function formatMetres(m: number | null | undefined, uncertaintyM?: number | null): string {
+export function formatMetres(m: number | null | undefined, standardUncertaintyM?: number | null): string {
   if (m == null || !Number.isFinite(m)) return "—";
-  if (uncertaintyM == null || !(uncertaintyM > 0)) return `${groupDigits(fixed(m, 3))}${NBSP}m`;
-  const u = roundUncertainty(uncertaintyM);
-  const decimals = Math.min(MAX_DECIMALS_M, Math.max(MIN_DECIMALS_M, u.decimals));
-  const uMm = u.value * 1000;
-  const uText = fixed(uMm, Math.max(0, u.decimals - 3));
-  return `${groupDigits(fixed(m, decimals))}${NBSP}m ±${NBSP}${uText}${NBSP}mm`;
+  if (standardUncertaintyM == null || !(standardUncertaintyM > 0)) return formatLength(m, null, SI);
+  return `${formatLength(m, COVERAGE_FACTOR * standardUncertaintyM, SI)}${NBSP}(k=${COVERAGE_FACTOR})`;
 }
 
 /** Fill as a whole percentage: "63 %" (a fill is never read closer than that at a glance). */
 export function formatPercent(pct: number | null | undefined): string {
   if (pct == null || !Number.isFinite(pct)) return "—";
-  return `${fixed(pct, 0)}${NBSP}%`;
+  return `${formatNumber(pct, 0, SI.locale)}${NBSP}%`;
 }
 
 /** A volume to four significant figures and never finer than a litre: 12 483 → "12 480 L". */
 export function formatLitres(litres: number | null | undefined): string {
-  if (litres == null || !Number.isFinite(litres)) return "—";
-  const magnitude = litres === 0 ? 0 : Math.floor(Math.log10(Math.abs(litres)));
-  const decimals = Math.min(0, 3 - magnitude);
-  return `${groupDigits(fixed(litres, decimals))}${NBSP}L`;
+  return formatVolume(litres, null, SI);
 }
 
 export function formatCelsius(c: number | null | undefined): string {
-  if (c == null || !Number.isFinite(c)) return "—";
-  return `${groupDigits(fixed(c, 1))}${NBSP}°C`;
+  return formatTemperature(c, SI);
 }
 
 export function formatVolts(v: number | null | undefined): string {
   if (v == null || !Number.isFinite(v)) return "—";
-  return `${fixed(v, 2)}${NBSP}V`;
+  return `${formatNumber(v, 2, SI.locale)}${NBSP}V`;
 }
 
 export function formatDbm(dbm: number | null | undefined): string {
   if (dbm == null || !Number.isFinite(dbm)) return "—";
-  return `${groupDigits(fixed(dbm, 0))}${NBSP}dBm`;
+  return `${formatNumber(dbm, 0, SI.locale)}${NBSP}dBm`;
+}
+
+/** A whole number with its thousands grouped as the SI writes them: "16 000 000". */
+export function formatCount(n: number): string {
+  return formatNumber(n, 0, SI.locale);
 }
 
 /** How long ago, in the units a person reads at a glance: "14 min ago", "3 h ago", "2 d ago". */

@@ -7,6 +7,7 @@ import { swrFetcher } from "@/lib/fetcher";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { formatDaysToReorder, formatLitres, formatMetres, formatPercent } from "@/components/fleet/fleet-figures";
 import { AlarmCounts, FlagTag, OverdueAge, PRIORITIES, TankCaution } from "@/components/fleet/fleet-status";
+import { SiteTime } from "@/components/ui/site-time";
 import { STACKED_TABLE } from "@/components/ui/form-fields";
 
 // The fleet overview: every site with its tanks' level, fill and volume, its bays occupied and free,
@@ -138,7 +139,7 @@ export function FleetOverview() {
         <span className={t.devices_offline ? "font-bold text-high" : "text-muted"}>
           <span className="figures">{t.devices_offline}</span> of <span className="figures">{t.devices}</span> devices offline
         </span>
-        <span className="text-muted">Live · as of <time dateTime={data.generated_at} className="figures">{new Date(data.generated_at).toLocaleTimeString()}</time></span>
+        <span className="text-muted">Live · as of <SiteTime at={data.generated_at} show="time" className="figures" /></span>
       </p>
       {sites.length === 0 && (
         <p className="card px-4 py-6 text-sm text-muted">No sites yet. An admin adds them under <Link href="/sites" className="underline">Sites</Link>.</p>

@@ -1,6 +1,7 @@
 import { ALARM_CAUTION } from "@/lib/alarms/engine";
 import { PriorityBadge } from "@/components/ui/priority-badge";
 import type { PriorityCounts } from "@/lib/read-models/overview-alarms";
+import { formatDateTime } from "@/lib/format/time";
 import { ageWhenOverdue, formatAge } from "@/components/fleet/fleet-figures";
 
 // Marks every live screen uses for states: alarm counts by priority (drawn by the priority badge), a
@@ -41,11 +42,11 @@ export function FlagTag({ flag }: { flag: string }) {
 }
 
 /** The age of a value, shown only once it is overdue (two expected intervals). */
-export function OverdueAge({ at, expectedIntervalS, now }: { at: string | null | undefined; expectedIntervalS: number | null | undefined; now?: number }) {
+export function OverdueAge({ at, expectedIntervalS, now, zone = "UTC" }: { at: string | null | undefined; expectedIntervalS: number | null | undefined; now?: number; zone?: string }) {
   if (!expectedIntervalS) return null;
   const age = ageWhenOverdue(at, expectedIntervalS, now);
   if (!age) return null;
-  return <span className="font-sans text-sm font-bold text-medium" title={at ? new Date(at).toLocaleString() : undefined}> · {age}</span>;
+  return <span className="font-sans text-sm font-bold text-medium" title={at ? formatDateTime(at, { locale: "en-GB", timeZone: zone }) : undefined}> · {age}</span>;
 }
 
 /** "for 14 min": how long an alarm has been in its episode. */

@@ -6,7 +6,7 @@ import { swrFetcher } from "@/lib/fetcher";
 import type { UploadJson } from "@/lib/services/imports";
 import { IMPORT_KIND_LABELS } from "@/lib/validations/import";
 import { createColumnHelper } from "@tanstack/react-table";
-import { formatWhen } from "@/components/assets/dip-table";
+import { SiteTime } from "@/components/ui/site-time";
 import { ImportProgress, UploadStatusText } from "@/components/imports/import-progress";
 import { DataTable } from "@/components/ui/data-table";
 
@@ -19,7 +19,7 @@ export function ImportHistory() {
   const { data, error, isLoading, mutate } = useSWR<{ items: UploadJson[] }>(UPLOAD_HISTORY_URL, swrFetcher, { refreshInterval: 10000 });
   const [open, setOpen] = useState<string | null>(null);
   const columns = [
-    column.accessor((u) => new Date(u.created_at).getTime(), { id: "when", header: "When", cell: (c) => formatWhen(c.row.original.created_at), meta: { cellClassName: "figures" } }),
+    column.accessor((u) => new Date(u.created_at).getTime(), { id: "when", header: "When", cell: (c) => <SiteTime at={c.row.original.created_at} />, meta: { cellClassName: "figures" } }),
     column.accessor((u) => IMPORT_KIND_LABELS[u.kind].title, { id: "what", header: "What" }),
     column.accessor("target_label", { header: "Into" }),
     column.accessor("file_name", { header: "File", meta: { cellClassName: "break-all" } }),

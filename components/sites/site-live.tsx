@@ -11,6 +11,7 @@ import { formatMetres } from "@/components/fleet/fleet-figures";
 import { LIVE_REFRESH_MS } from "@/components/fleet/fleet-overview";
 import { FlagTag, OverdueAge, TankCaution } from "@/components/fleet/fleet-status";
 import { STACKED_TABLE } from "@/components/ui/form-fields";
+import { SiteTime } from "@/components/ui/site-time";
 import { TankCard } from "@/components/sites/site-live-tank";
 
 // The site screen, in the order a person checks it: what is wrong (alarms), what it is now (tanks,
@@ -34,7 +35,7 @@ export function SiteLive({ siteId, canAcknowledge }: { siteId: string; canAcknow
           <span className="figures">{data.devices.offline}</span> of <span className="figures">{data.devices.total}</span> devices offline
         </span>
         <span className="text-muted">Time zone {data.site.time_zone}</span>
-        <span className="text-muted">Live · as of <time dateTime={data.generated_at} className="figures">{new Date(data.generated_at).toLocaleTimeString()}</time></span>
+        <span className="text-muted">Live · as of <SiteTime at={data.generated_at} zone={data.site.time_zone} show="time" className="figures" /></span>
       </p>
 
       <section className="card" aria-labelledby="site-alarms">

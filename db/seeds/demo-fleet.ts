@@ -20,7 +20,7 @@ const keysFile = () => demoKeysFilePath(env.dataFiles, process.cwd());
 
 function assetInput(asset: DemoAsset, siteId: string) {
   if (asset.kind === "tank") {
-    return { site_id: siteId, kind: "tank", name: asset.name, geometry: asset.geometry, mount_height_m: asset.mount_height_m, safe_fill_pct: asset.safe_fill_pct, reorder_pct: asset.reorder_pct };
+    return { site_id: siteId, kind: "tank", name: asset.name, purpose: asset.purpose, geometry: asset.geometry, mount_height_m: asset.mount_height_m, safe_fill_pct: asset.safe_fill_pct, reorder_pct: asset.reorder_pct };
   }
   return {
     site_id: siteId, kind: "bay", name: asset.name, floor_distance_m: asset.floor_distance_m, occupied_below_m: asset.occupied_below_m,

@@ -1,4 +1,5 @@
 import type { TankGeometry } from "../../lib/geometry/tank-volume";
+import type { TankPurpose } from "../../lib/forecast/purpose";
 import type { SignalProfile } from "../../lib/validations/device";
 import type { ChannelFault, SimBehaviour, TankUsage } from "../../workers/simulation/keys-file";
 
@@ -31,6 +32,8 @@ export interface DemoTank {
   key: string;
   site: DemoSiteKey;
   name: string;
+  /** What the tank is for (lib/forecast/purpose.ts): what its plan is, if any. */
+  purpose: TankPurpose;
   geometry: TankGeometry;
   mount_height_m: number;
   safe_fill_pct: number;
@@ -108,12 +111,14 @@ const QUIET = { l: 0, ll: 0, h: 0, hh: 0, why: null };
 export const DEMO_TANKS: DemoTank[] = [
   {
     kind: "tank", key: "clearwater", site: "north", name: "Clearwater Tank",
+    purpose: "process",
     geometry: { shape: "vertical_cylinder", diameter_m: 6, height_m: 3.5, bottom: "flat", bottom_depth_m: 0 },
     mount_height_m: 3.8, safe_fill_pct: 92, reorder_pct: 30, usage: usage(55, 38, 88, 100, 0.2),
     setpoints_pct: setpoints(15, 30, 90, 92), planted_activations: QUIET,
   },
   {
     kind: "tank", key: "hypochlorite", site: "north", name: "Hypochlorite Day Tank",
+    purpose: "supply",
     geometry: { shape: "vertical_cylinder", diameter_m: 1.2, height_m: 1.6, bottom: "cone", bottom_depth_m: 0.3 },
     mount_height_m: 2.05, safe_fill_pct: 90, reorder_pct: 25,
     // The planted problem of North Works: the supplier is late, the tank stands near LL at the first run
@@ -123,12 +128,14 @@ export const DEMO_TANKS: DemoTank[] = [
   },
   {
     kind: "tank", key: "coagulant", site: "north", name: "Coagulant Tank",
+    purpose: "supply",
     geometry: { shape: "vertical_cylinder", diameter_m: 2.4, height_m: 2, bottom: "ellipsoidal", bottom_depth_m: 0.6 },
     mount_height_m: 2.75, safe_fill_pct: 90, reorder_pct: 30, usage: usage(4, 22, 85, 50, 0.8),
     setpoints_pct: setpoints(8, 15, 88, 90), planted_activations: QUIET,
   },
   {
     kind: "tank", key: "diesel", site: "north", name: "Standby Generator Diesel",
+    purpose: "supply",
     geometry: { shape: "horizontal_cylinder", diameter_m: 1.5, length_m: 2.8, heads: "flat" },
     mount_height_m: 1.6, safe_fill_pct: 90, reorder_pct: 40, usage: usage(1.5, 35, 85, 30, 0.6),
     // A standby generator keeps a reserve: L well above empty.
@@ -136,24 +143,28 @@ export const DEMO_TANKS: DemoTank[] = [
   },
   {
     kind: "tank", key: "lime", site: "north", name: "Lime Slurry Tank",
+    purpose: "supply",
     geometry: { shape: "rectangular", length_m: 2, width_m: 1.5, height_m: 1.8 },
     mount_height_m: 1.95, safe_fill_pct: 88, reorder_pct: 30, usage: usage(9, 25, 82, 60, 0.3),
     setpoints_pct: setpoints(10, 18, 86, 88), planted_activations: QUIET,
   },
   {
     kind: "tank", key: "service", site: "upland", name: "Upland Service Tank",
+    purpose: "process",
     geometry: { shape: "horizontal_cylinder", diameter_m: 2.8, length_m: 7.5, heads: "hemispherical" },
     mount_height_m: 2.95, safe_fill_pct: 93, reorder_pct: 35, usage: usage(30, 40, 88, 120, 0.45),
     setpoints_pct: setpoints(20, 32, 91, 93), planted_activations: QUIET,
   },
   {
     kind: "tank", key: "backwash", site: "upland", name: "Backwash Recovery Tank",
+    purpose: "process",
     geometry: { shape: "horizontal_cylinder", diameter_m: 2.2, length_m: 5, heads: "ellipsoidal", head_depth_m: 0.55 },
     mount_height_m: 2.35, safe_fill_pct: 90, reorder_pct: 20, usage: usage(18, 15, 80, 90, 0.7),
     setpoints_pct: setpoints(5, 10, 85, 90), planted_activations: QUIET,
   },
   {
     kind: "tank", key: "sludge", site: "upland", name: "Sludge Holding Sump",
+    purpose: "sump",
     // A cast-in sump that narrows towards the bottom, measured by a strapping table (demo values).
     geometry: {
       shape: "strapping",
@@ -173,6 +184,7 @@ export const DEMO_TANKS: DemoTank[] = [
   },
   {
     kind: "tank", key: "firewater", site: "upland", name: "Fire Water Tank",
+    purpose: "reserve",
     geometry: { shape: "vertical_cylinder", diameter_m: 4, height_m: 3.2, bottom: "flat", bottom_depth_m: 0 },
     mount_height_m: 3.45, safe_fill_pct: 95, reorder_pct: 70, usage: usage(1.2, 80, 92, 240, 0.5),
     // The fire reserve matters most: L just under the refill point, LL where the reserve is at risk.

@@ -14,6 +14,7 @@ export interface RefillPlanRow {
   asset_name: string;
   site_id: string;
   site_name: string;
+  site_time_zone: string;
   /** When the tank reaches its reorder level; now when it is already at or below it. */
   due_at: string;
   reason: "below_reorder" | "forecast";
@@ -34,7 +35,7 @@ export interface RefillPlanRow {
 export function buildRefillPlan(
   states: readonly AssetStateJson[],
   forecasts: ReadonlyMap<string, ForecastJson>,
-  siteNames: ReadonlyMap<string, string>,
+  sitesById: ReadonlyMap<string, { name: string; time_zone: string }>,
   horizonDays: number,
   now: Date,
 ): RefillPlanRow[] {
@@ -56,7 +57,8 @@ export function buildRefillPlan(
       asset_id: s.id,
       asset_name: s.name,
       site_id: s.site_id,
-      site_name: siteNames.get(s.site_id) ?? "",
+      site_name: sitesById.get(s.site_id)?.name ?? "",
+      site_time_zone: sitesById.get(s.site_id)?.time_zone ?? "UTC",
       due_at: new Date(dueMs).toISOString(),
       reason: below ? "below_reorder" : "forecast",
       days_to_reorder: Math.max(0, (dueMs - now.getTime()) / DAY_MS),
@@ -80,8 +82,8 @@ export async function refillPlan(scope: Scope, options: { horizonDays: number; s
     listTankForecasts(scope, { siteId: options.siteId }),
     listSites(scope),
   ]);
-  const names = new Map(sites.map((s) => [s.id, s.name]));
+  const sitesById = new Map(sites.map((s) => [s.id, s]));
   const byAsset = new Map(forecasts.map((f) => [f.asset_id, f]));
-  return { horizon_days: options.horizonDays, generated_at: now.toISOString(), items: buildRefillPlan(states, byAsset, names, options.horizonDays, now) };
+  return { horizon_days: options.horizonDays, generated_at: now.toISOString(), items: buildRefillPlan(states, byAsset, sitesById, options.horizonDays, now) };
 }
 export type RefillPlanJson = Awaited<ReturnType<typeof refillPlan>>;

@@ -1,11 +1,16 @@
 // CSV exports as streams of row batches: each batch is one keyset-paged query (a cursor that survives
 // between pulls without holding a connection), so a year of measurements never sits in memory.
+// Times are ISO 8601 in the site's own zone with its offset (the instant is exact, the clock is the
+// site's), beside a column naming that zone.
 
 import { personLabel, siteScope, textFor, type Scope } from "../db/site-scope";
 import { AppError } from "../errors";
 import type { CsvValue } from "../csv/write";
 import type { ExportRange } from "../validations/export";
 import { refillPlan } from "../read-models/refill-plan";
+import { formatIsoWithOffset } from "../format/time";
+import { roundMeasurement, roundToDecimals, roundUncertainty } from "../format/precision";
+import { COVERAGE_FACTOR } from "../uncertainty/budget";
 import { sqlRows } from "../db/sql";
 
 export const EXPORT_BATCH_ROWS = 5000;
@@ -19,6 +24,7 @@ export const MEASUREMENT_COLUMNS = [
   "device",
   "channel",
   "at",
+  "site_time_zone",
   "status",
   "tof_us",
   "air_temp_c",
@@ -38,12 +44,13 @@ interface ExportAsset {
   id: string;
   name: string;
   site_name: string;
+  site_time_zone: string;
 }
 
 /** The chosen assets of the organisation, in the order given; an unknown id is 404 before anything streams. */
 export async function exportAssets(scope: Scope, assetIds: readonly string[]): Promise<ExportAsset[]> {
   const rows = await sqlRows<ExportAsset>(
-    `SELECT a.id, a.name, s.name AS site_name FROM assets a JOIN sites s ON s.id = a.site_id
+    `SELECT a.id, a.name, s.name AS site_name, s.time_zone AS site_time_zone FROM assets a JOIN sites s ON s.id = a.site_id
       WHERE a.organisation_id = $1 AND ${siteScope(scope, "a.site_id")} AND a.id = ANY($2::uuid[])`,
     [scope.organisationId, assetIds],
   );
@@ -73,8 +80,43 @@ interface MeasurementRow {
   uncertainty_m: number | null;
 }
 
+const asComputed = (m: MeasurementRow) => m;
+
+const roundOrNull = (x: number | null, decimals: number) => (x === null ? null : roundToDecimals(x, decimals));
+
+/** Four significant figures, never finer than a litre (as the screens write a volume without its uncertainty). */
+function roundLitres(l: number | null): number | null {
+  if (l === null) return null;
+  const magnitude = l === 0 ? 0 : Math.floor(Math.log10(Math.abs(l)));
+  return roundToDecimals(l, Math.min(0, 3 - magnitude));
+}
+
+/**
+ * A measurement with no digit its uncertainty does not support: lengths to the decimal place of
+ * U = 2u (GUM §7.2.6), the standard uncertainty itself to two significant digits, the speed of
+ * sound to 0.01 m/s and the air temperature to 0.1 K (finer than their own doubt: common practice),
+ * volumes as on the screens.
+ */
+function toMeasuredPrecision(m: MeasurementRow): MeasurementRow {
+  const u = m.uncertainty_m;
+  const length = (x: number | null) => (x === null || u === null || !(u > 0) ? x : roundMeasurement(x, COVERAGE_FACTOR * u).value);
+  return {
+    ...m,
+    raw_distance_m: length(m.raw_distance_m),
+    distance_m: length(m.distance_m),
+    level_m: length(m.level_m),
+    speed_of_sound_ms: roundOrNull(m.speed_of_sound_ms, 2),
+    air_temp_c: roundOrNull(m.air_temp_c, 1),
+    volume_l: roundLitres(m.volume_l),
+    ullage_l: roundLitres(m.ullage_l),
+    fill_pct: roundOrNull(m.fill_pct, 1),
+    uncertainty_m: u === null || !(u > 0) ? u : roundUncertainty(u, { significantDigits: 2 }).value,
+  };
+}
+
 /** Measurements of each asset in [from, to), asset by asset and channel by channel in time order. */
-export async function* measurementBatches(assets: readonly ExportAsset[], range: ExportRange): Batches {
+export async function* measurementBatches(assets: readonly ExportAsset[], range: ExportRange & { precision?: "measured" | "full" }): Batches {
+  const shown = range.precision === "full" ? asComputed : toMeasuredPrecision;
   for (const asset of assets) {
     // Channels measuring the asset now, and any that did in the past (a replaced device).
     const channels = await sqlRows<{ id: string }>(
@@ -94,13 +136,14 @@ export async function* measurementBatches(assets: readonly ExportAsset[], range:
           [channel.id, asset.id, range.from, range.to, after.at, after.id, EXPORT_BATCH_ROWS],
         );
         if (rows.length === 0) break;
-        yield rows.map((m) => [
+        yield rows.map(shown).map((m) => [
           asset.site_name,
           asset.name,
           asset.id,
           m.device_name,
           m.channel_index,
-          new Date(m.at),
+          formatIsoWithOffset(m.at, asset.site_time_zone),
+          asset.site_time_zone,
           m.status,
           m.tof_us,
           m.air_temp_c,
@@ -125,6 +168,7 @@ export async function* measurementBatches(assets: readonly ExportAsset[], range:
 
 export const ALARM_EVENT_COLUMNS = [
   "at",
+  "site_time_zone",
   "site",
   "asset",
   "alarm_kind",
@@ -145,6 +189,7 @@ interface AlarmEventRow {
   id: string;
   at: Date;
   site_name: string;
+  time_zone: string;
   asset_name: string | null;
   alarm_kind: string;
   priority: string | null;
@@ -166,7 +211,7 @@ export async function* alarmEventBatches(scope: Scope, range: ExportRange): Batc
   let after: { at: Date; id: string } = { at: new Date(range.from.getTime() - 1), id: "0" };
   for (;;) {
     const rows = await sqlRows<AlarmEventRow>(
-      `SELECT e.id, e.at, s.name AS site_name, a.name AS asset_name, al.kind AS alarm_kind, coalesce(e.priority, al.priority) AS priority,
+      `SELECT e.id, e.at, s.name AS site_name, s.time_zone, a.name AS asset_name, al.kind AS alarm_kind, coalesce(e.priority, al.priority) AS priority,
               e.kind, e.from_state, e.to_state, e.cause, e.value, e.setpoint, al.unit, e.actor_label, u.name AS actor_name, e.comment, e.alarm_id
          FROM alarm_events e JOIN alarms al ON al.id = e.alarm_id JOIN sites s ON s.id = al.site_id LEFT JOIN assets a ON a.id = al.asset_id
               LEFT JOIN users u ON u.id = e.user_id
@@ -176,7 +221,8 @@ export async function* alarmEventBatches(scope: Scope, range: ExportRange): Batc
     );
     if (rows.length === 0) return;
     yield rows.map((e) => [
-      new Date(e.at),
+      formatIsoWithOffset(e.at, e.time_zone),
+      e.time_zone,
       e.site_name,
       e.asset_name,
       e.alarm_kind,
@@ -200,6 +246,7 @@ export async function* alarmEventBatches(scope: Scope, range: ExportRange): Batc
 
 export const REFILL_PLAN_COLUMNS = [
   "due_at",
+  "site_time_zone",
   "site",
   "tank",
   "reason",
@@ -220,7 +267,8 @@ const round = (x: number | null, digits: number) => (x === null ? null : Math.ro
 export async function* refillPlanBatches(scope: Scope, options: { horizonDays: number; siteId?: string }): Batches {
   const plan = await refillPlan(scope, options);
   yield plan.items.map((r) => [
-    r.due_at,
+    formatIsoWithOffset(r.due_at, r.site_time_zone),
+    r.site_time_zone,
     r.site_name,
     r.asset_name,
     r.reason,
@@ -231,7 +279,7 @@ export async function* refillPlanBatches(scope: Scope, options: { horizonDays: n
     round(r.capacity_l, 1),
     r.safe_fill_pct,
     round(r.deliver_l, 1),
-    r.measured_at,
+    r.measured_at === null ? null : formatIsoWithOffset(r.measured_at, r.site_time_zone),
     r.asset_id,
   ]);
 }

@@ -54,6 +54,8 @@ export const measurementsExportQuery = z
           .min(1, "Choose at least one asset.")
           .max(MAX_EXPORT_ASSETS, `Choose at most ${MAX_EXPORT_ASSETS} assets an export.`),
       ),
+    /** "measured" (default): each figure to the digits its uncertainty supports; "full": as computed. */
+    precision: z.enum(["measured", "full"]).default("measured"),
   })
   .superRefine(withRange)
   .transform(asRange);

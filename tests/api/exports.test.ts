@@ -41,13 +41,37 @@ describe("measurements", () => {
     const { header, rows } = csvByName(res.body as string);
     expect(header).toEqual(expect.arrayContaining(["site", "asset", "at", "status", "distance_m", "level_m", "volume_l", "uncertainty_m"]));
     expect(rows).toHaveLength(N);
-    const times = rows.map((r) => r.at);
+    // ISO 8601 in the site's zone with its offset, the zone named beside it.
+    for (const r of rows) {
+      expect(r.at).toMatch(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}(\.\d{3})?[+-]\d{2}:\d{2}$/);
+      expect(r.site_time_zone).toBe(fleet.site.time_zone);
+    }
+    const times = rows.map((r) => Date.parse(r.at));
     expect(new Set(times).size).toBe(N);
-    expect([...times].sort()).toEqual(times);
+    expect([...times].sort((a, b) => a - b)).toEqual(times);
     const ok = rows.filter((r) => r.status === "ok");
     expect(ok.length).toBeGreaterThan(N - 20);
     // The level the readings encode, back through c·t/2 (echo times rounded to 0.1 µs: ±0.02 mm).
     for (const r of ok.slice(0, 50)) expect(Number(r.level_m)).toBeCloseTo(1.25, 3);
+  });
+
+  it("writes no digit the uncertainty does not support unless full precision is asked for", async () => {
+    const range = `asset_ids=${fleet.tank.id}&from=${new Date(first - 60_000).toISOString()}&to=${new Date(first + 600_000).toISOString()}`;
+    const measured = csvByName((await text(viewer.get(`/api/exports/measurements?${range}`))).body as string).rows.filter((r) => r.status === "ok");
+    const full = csvByName((await text(viewer.get(`/api/exports/measurements?${range}&precision=full`))).body as string).rows.filter((r) => r.status === "ok");
+    expect(measured.length).toBeGreaterThan(10);
+    expect(full.map((r) => r.at)).toEqual(measured.map((r) => r.at));
+    const decimals = (x: string) => (x.split(".")[1] ?? "").length;
+    measured.forEach((r, i) => {
+      // GUM (JCGM 100:2008) §7.2.6: U = 2u quoted to at most two significant digits, the value to
+      // the same decimal place; so the level has at most 1 − floor(log10 U) decimals.
+      const U = 2 * Number(full[i].uncertainty_m);
+      expect(decimals(r.level_m)).toBeLessThanOrEqual(1 - Math.floor(Math.log10(U)));
+      expect(Math.abs(Number(r.level_m) - Number(full[i].level_m))).toBeLessThanOrEqual(U / 10);
+      expect(decimals(r.speed_of_sound_ms)).toBeLessThanOrEqual(2);
+    });
+    // Full precision keeps the computed digits (a speed of sound from c = 331.3·√(1 + t/273.15) is never round).
+    expect(full.some((r) => decimals(r.speed_of_sound_ms) > 2)).toBe(true);
   });
 
   it("exports only the range asked for", async () => {
@@ -100,10 +124,15 @@ describe("alarms", () => {
     const res = await text(viewer.get(`/api/exports/alarms?from=${new Date(Date.now() - 30 * 86_400_000).toISOString()}&to=${new Date().toISOString()}`));
     expect(res.status).toBe(200);
     const { header, rows } = csvByName(res.body as string);
-    expect([...header].sort()).toEqual(["alarm_id", "alarm_kind", "asset", "at", "by", "cause", "comment", "event", "from_state", "priority", "setpoint", "site", "to_state", "unit", "value"]);
-    expect(rows.filter((r) => r.alarm_id === alarm.id)).toEqual([
+    expect([...header].sort()).toEqual(["alarm_id", "alarm_kind", "asset", "at", "by", "cause", "comment", "event", "from_state", "priority", "setpoint", "site", "site_time_zone", "to_state", "unit", "value"]);
+    const ours = rows.filter((r) => r.alarm_id === alarm.id);
+    expect(ours).toHaveLength(1);
+    // The same instant, written in the site's clock with its offset.
+    expect(Date.parse(ours[0].at)).toBe(at.getTime());
+    expect(ours[0].at).toMatch(/[+-]\d{2}:\d{2}$/);
+    expect(ours.map(({ at: _at, ...rest }) => rest)).toEqual([
       {
-        at: at.toISOString(), site: fleet.site.name, asset: fleet.tank.name, alarm_kind: "l", priority: "medium", event: "activated", from_state: "normal",
+        site_time_zone: fleet.site.time_zone, site: fleet.site.name, asset: fleet.tank.name, alarm_kind: "l", priority: "medium", event: "activated", from_state: "normal",
         to_state: "unacknowledged", cause: "condition", value: "0.61", setpoint: "0.7", unit: "m", by: "", comment: 'level, low "L"', alarm_id: alarm.id,
       },
     ]);

@@ -77,7 +77,7 @@ describe("GET /api/refill-plan", () => {
     expect(res.headers["content-type"]).toMatch(/^text\/csv/);
     expect(res.headers["content-disposition"]).toMatch(/attachment; filename="refill-plan-14-days-/);
     const { header, rows } = csvByName(res.body as string);
-    expect([...header].sort()).toEqual(["asset_id", "capacity_l", "current_volume_l", "days_to_empty", "days_to_reorder", "deliver_l", "due_at", "fill_pct", "measured_at", "reason", "safe_fill_pct", "site", "tank"]);
+    expect([...header].sort()).toEqual(["asset_id", "capacity_l", "current_volume_l", "days_to_empty", "days_to_reorder", "deliver_l", "due_at", "fill_pct", "measured_at", "reason", "safe_fill_pct", "site", "site_time_zone", "tank"]);
     const order = rows.map((r) => r.asset_id).filter((id) => Object.values(tanks).some((t) => t.tank.id === id));
     expect(order).toEqual([tanks.below.tank.id, tanks.soon.tank.id, tanks.later.tank.id]);
   });

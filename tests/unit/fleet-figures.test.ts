@@ -7,51 +7,25 @@ import {
   formatLitres,
   formatMetres,
   formatPercent,
-  groupDigits,
   isOverdue,
-  roundUncertainty,
 } from "@/components/fleet/fleet-figures";
 
 const NBSP = "\u00a0";
 const NARROW = "\u202f";
 
-describe("roundUncertainty", () => {
-  // Particle Data Group, Review of Particle Physics, Introduction, "Rounding" (from memory):
-  // 0.827 ± 0.119 is written 0.83 ± 0.12, and 0.827 ± 0.367 is written 0.8 ± 0.4; leading digits
-  // 950–999 round up to 1000 and keep two significant digits.
-  it("keeps two significant digits when the leading three lie in 100–354", () => {
-    expect(roundUncertainty(0.119)).toEqual({ value: 0.12, decimals: 2 });
-    expect(roundUncertainty(0.354)).toEqual({ value: 0.35, decimals: 2 });
-  });
-  it("keeps one significant digit when they lie in 355–949", () => {
-    expect(roundUncertainty(0.367)).toEqual({ value: 0.4, decimals: 1 });
-    expect(roundUncertainty(0.0062)).toEqual({ value: 0.006, decimals: 3 });
-  });
-  it("rounds 950–999 up to the next power of ten with two significant digits", () => {
-    expect(roundUncertainty(0.98)).toEqual({ value: 1, decimals: 1 });
-    expect(roundUncertainty(0.00097)).toEqual({ value: 0.001, decimals: 4 });
-  });
-  it("rounds large uncertainties to tens and hundreds", () => {
-    expect(roundUncertainty(367)).toEqual({ value: 400, decimals: -2 });
-    expect(roundUncertainty(119)).toEqual({ value: 120, decimals: -1 });
-  });
-  it("refuses a zero or negative uncertainty", () => {
-    expect(() => roundUncertainty(0)).toThrow(RangeError);
-    expect(() => roundUncertainty(-1)).toThrow(RangeError);
-  });
-});
-
 describe("formatMetres", () => {
-  it("writes the value to the decimal place of its rounded uncertainty (LOOK.md's example)", () => {
-    // LOOK.md: level "1.842 m ± 6 mm"; 6.2 mm rounds to 6 mm by the PDG rule above.
-    expect(formatMetres(1.84237, 0.0062)).toBe(`1.842${NBSP}m ±${NBSP}6${NBSP}mm`);
+  // The stored uncertainty is the standard one (k = 1); screens quote U = 2u (GUM, JCGM 100:2008, §6.2–6.3)
+  // to one or two significant digits (§7.2.6) with the Particle Data Group's 354 rule (from memory):
+  // leading digits 100–354 keep two, 355–949 one. Expected texts worked out by hand.
+  it("quotes U = 2u with k and writes the value to U's decimal place", () => {
+    // u = 6.2 mm → U = 12.4 mm → leading 124: two digits, 12 mm → the value to the millimetre.
+    expect(formatMetres(1.84237, 0.0062)).toBe(`1.842${NBSP}m ±${NBSP}12${NBSP}mm${NBSP}(k=2)`);
+    // u = 3.1 mm → U = 6.2 mm → leading 620: one digit, 6 mm (LOOK.md's "1.842 m ± 6 mm").
+    expect(formatMetres(1.84237, 0.0031)).toBe(`1.842${NBSP}m ±${NBSP}6${NBSP}mm${NBSP}(k=2)`);
   });
-  it("keeps a second digit of the uncertainty in the 100–354 band", () => {
-    // PDG rule: 1.23 mm → 1.2 mm, so the value carries 0.1 mm.
-    expect(formatMetres(1.84237, 0.00123)).toBe(`1.8424${NBSP}m ±${NBSP}1.2${NBSP}mm`);
-  });
-  it("never writes a length coarser than a centimetre", () => {
-    expect(formatMetres(1.84237, 0.6)).toBe(`1.84${NBSP}m ±${NBSP}600${NBSP}mm`);
+  it("drops digits a coarse uncertainty does not support", () => {
+    // u = 0.3 m → U = 0.6 m: one digit, the value to a tenth of a metre.
+    expect(formatMetres(1.84237, 0.3)).toBe(`1.8${NBSP}m ±${NBSP}600${NBSP}mm${NBSP}(k=2)`);
   });
   it("writes a millimetre without an uncertainty, and a dash for no value", () => {
     expect(formatMetres(0.5)).toBe(`0.500${NBSP}m`);
@@ -62,11 +36,6 @@ describe("formatMetres", () => {
 describe("grouping and units", () => {
   // BIPM, The International System of Units, 9th ed. (2019), §5.4.3–5.4.4 [published]: a space between
   // the number and the unit (also for %), digits grouped in threes with a thin space.
-  it("groups thousands with a narrow no-break space", () => {
-    expect(groupDigits("12480")).toBe(`12${NARROW}480`);
-    expect(groupDigits("1234567.25")).toBe(`1${NARROW}234${NARROW}567.25`);
-    expect(groupDigits("-3000")).toBe(`\u22123${NARROW}000`);
-  });
   it("writes a volume to four significant figures and not finer than a litre", () => {
     // LOOK.md: "12 480 L".
     expect(formatLitres(12483.4)).toBe(`12${NARROW}480${NBSP}L`);

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { actorOf, requirePermission } from "@/lib/auth/session";
 import { findAsset } from "@/lib/services/assets";
+import { findSite } from "@/lib/services/sites";
 import { channelsOfAsset, listDips, maxDipLevel, recordDip } from "@/lib/services/dips";
 import { tankHeight } from "@/lib/geometry/tank-volume";
 import { notFound } from "@/lib/errors";
@@ -18,7 +19,7 @@ export const GET = route<IdContext>(async (req, ctx) => {
   const id = await idParam(ctx, "That asset");
   const asset = await findAsset(user.scope, id);
   const query = parseQuery(req.url, listQuery);
-  const channels = await channelsOfAsset(id);
+  const [channels, site] = await Promise.all([channelsOfAsset(id), findSite(user.organisationId, asset.site_id)]);
   const channel = query.channel_id ? channels.find((c) => c.id === query.channel_id) : channels[0];
   if (query.channel_id && !channel) throw notFound("That channel");
   return Response.json({
@@ -27,6 +28,7 @@ export const GET = route<IdContext>(async (req, ctx) => {
       name: asset.name,
       kind: asset.kind,
       site_id: asset.site_id,
+      site_time_zone: site.time_zone,
       mount_height_m: asset.mount_height_m ?? null,
       tank_height_m: asset.geometry ? tankHeight(asset.geometry) : null,
       max_dip_level_m: maxDipLevel(asset),
