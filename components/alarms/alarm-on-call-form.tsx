@@ -10,17 +10,18 @@ import { errorsFromApi, FormAlert, type FieldErrors } from "@/components/ui/form
 /** A site's on-call list in escalation order: add people, move them up or down, remove them, save. */
 export function AlarmOnCallForm({ siteId, editable }: { siteId: string; editable: boolean }) {
   const { data, error, isLoading, mutate } = useSWR<OnCallJson>(`/api/sites/${siteId}/on-call`, swrFetcher, { revalidateOnFocus: false });
+  // Kept here: the list starts afresh from what was saved (its key changes), and the notice must outlive it.
+  const [saved, setSaved] = useState(false);
   if (isLoading) return <Loading />;
   if (error) return <LoadError error={error} retry={() => mutate()} />;
-  return data ? <OnCallFields key={JSON.stringify(data.entries)} data={data} editable={editable} onSaved={(d) => mutate(d, { revalidate: false })} /> : null;
+  return data ? <OnCallFields key={JSON.stringify(data.entries)} data={data} editable={editable} saved={saved} setSaved={setSaved} onSaved={(d) => mutate(d, { revalidate: false })} /> : null;
 }
 
-function OnCallFields({ data, editable, onSaved }: { data: OnCallJson; editable: boolean; onSaved: (d: OnCallJson) => void }) {
+function OnCallFields({ data, editable, saved, setSaved, onSaved }: { data: OnCallJson; editable: boolean; saved: boolean; setSaved: (v: boolean) => void; onSaved: (d: OnCallJson) => void }) {
   const [ids, setIds] = useState<string[]>(data.entries.map((e) => e.user_id));
   const [adding, setAdding] = useState("");
   const [errors, setErrors] = useState<FieldErrors>({});
   const [busy, setBusy] = useState(false);
-  const [saved, setSaved] = useState(false);
   const people = new Map<string, { email: string | null; name: string; role: string }>();
   for (const e of data.entries) people.set(e.user_id, { email: e.email, name: e.name, role: e.role });
   for (const c of data.candidates ?? []) people.set(c.id, { email: c.email, name: c.name, role: c.role });

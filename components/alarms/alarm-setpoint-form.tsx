@@ -99,16 +99,17 @@ function Check({ id, label, checked, onChange, disabled }: { id: string; label: 
 /** A tank's HH/H/L/LL setpoints and leak limit; read-only without `setpoint:edit`. */
 export function AlarmSetpointForm({ assetId, editable }: { assetId: string; editable: boolean }) {
   const { data, error, isLoading, mutate } = useSWR<SetpointsJson>(`/api/assets/${assetId}/setpoints`, swrFetcher, { revalidateOnFocus: false });
+  // Kept here: the fields start afresh from what was saved (their key changes), and the notice must outlive them.
+  const [saved, setSaved] = useState(false);
   if (isLoading) return <Loading />;
   if (error) return <LoadError error={error} retry={() => mutate()} />;
-  return data ? <SetpointFields key={JSON.stringify(data)} data={data} editable={editable} onSaved={(d) => mutate(d, { revalidate: false })} /> : null;
+  return data ? <SetpointFields key={JSON.stringify(data)} data={data} editable={editable} saved={saved} setSaved={setSaved} onSaved={(d) => mutate(d, { revalidate: false })} /> : null;
 }
 
-function SetpointFields({ data, editable, onSaved }: { data: SetpointsJson; editable: boolean; onSaved: (d: SetpointsJson) => void }) {
+function SetpointFields({ data, editable, saved, setSaved, onSaved }: { data: SetpointsJson; editable: boolean; saved: boolean; setSaved: (v: boolean) => void; onSaved: (d: SetpointsJson) => void }) {
   const [values, setValues] = useState<Values>(() => initial(data, "m"));
   const [errors, setErrors] = useState<FieldErrors>({});
   const [busy, setBusy] = useState(false);
-  const [saved, setSaved] = useState(false);
   const { read, rest } = errorReader(errors);
   const setRow = (key: SetpointKey, patch: Partial<Row>) => setValues((v) => ({ ...v, rows: { ...v.rows, [key]: { ...v.rows[key], ...patch } } }));
   const unitWord = values.unit === "m" ? "m" : "% fill";

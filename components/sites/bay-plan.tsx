@@ -47,8 +47,8 @@ function BayCell({ bay, now }: { bay: PlanBay; now: number }) {
   const placed = bay.bay?.row != null && bay.bay?.col != null;
   return (
     <li
-      className="min-w-0"
-      style={placed ? { gridRowStart: (bay.bay!.row as number) + 1, gridColumnStart: (bay.bay!.col as number) + 1 } : undefined}
+      className="min-w-0 sm:[grid-column-start:var(--bay-col,auto)] sm:[grid-row-start:var(--bay-row,auto)]"
+      style={placed ? ({ "--bay-row": (bay.bay!.row as number) + 1, "--bay-col": (bay.bay!.col as number) + 1 } as React.CSSProperties) : undefined}
       data-testid="bay"
       data-state={condition}
     >
@@ -92,8 +92,12 @@ export function BayPlan({ bays, now }: { bays: PlanBay[]; now: number }) {
                 {counts.unknown > 0 && <> · <span className="figures">{counts.unknown}</span> without reading</>}
               </span>
             </h3>
+            {/* On a phone the bays flow in rows that fit the screen; from 640 px they stand where they are placed. */}
             <div className="overflow-x-auto pb-2">
-              <ul className="grid gap-2" style={{ gridTemplateColumns: `repeat(${columns}, minmax(6.5rem, 1fr))` }}>
+              <ul
+                className="grid grid-cols-[repeat(auto-fill,minmax(6.5rem,1fr))] gap-2 sm:grid-cols-[repeat(var(--bay-cols),minmax(6.5rem,1fr))]"
+                style={{ "--bay-cols": columns } as React.CSSProperties}
+              >
                 {group.map((b) => <BayCell key={b.id} bay={b} now={now} />)}
               </ul>
             </div>

@@ -3,7 +3,6 @@
 // labelled with it; the state the alarm is in when the e-mail goes out, never the state it was queued in.
 
 import { ALARM_CAUTION } from "../alarms/engine";
-import { formatDateTime } from "../format/time";
 import { priorityText } from "../alarms/vocabulary";
 import type { AlarmPriority } from "../alarms/state-machine";
 import { formatDateTime } from "../format/time";

@@ -19,7 +19,7 @@ export const GET = route<IdContext>(async (req, ctx) => {
   const id = await idParam(ctx, "That asset");
   const asset = await findAsset(user.scope, id);
   const query = parseQuery(req.url, listQuery);
-  const [channels, site] = await Promise.all([channelsOfAsset(id), findSite(user.organisationId, asset.site_id)]);
+  const [channels, site] = await Promise.all([channelsOfAsset(id), findSite(user.scope, asset.site_id)]);
   const channel = query.channel_id ? channels.find((c) => c.id === query.channel_id) : channels[0];
   if (query.channel_id && !channel) throw notFound("That channel");
   return Response.json({
