@@ -52,7 +52,7 @@ test("an alarm's page: its state now, its events and e-mails; acknowledging it i
 test("alarm health for one site: each measure beside its benchmark, and the site's alarm among the most frequent", async ({ page }) => {
   await signInAs(page, "operator@halftrip.test");
   await page.goto("/alarm-health");
-  await page.getByLabel("Site").selectOption({ label: tank.site.name });
+  await page.getByLabel("Site", { exact: true }).selectOption({ label: tank.site.name });
   await expect(page).toHaveURL(new RegExp(`site_id=${tank.site.id}`));
   const benchmarks = page.getByRole("region", { name: "Against the benchmarks" });
   for (const measure of ["Alarms per 10 min, average", "Alarms per day, average", "Chattering alarms", "Share of the 10 most frequent alarms"]) {
@@ -131,7 +131,7 @@ test("exports: the measurements and alarm-event CSVs download with their documen
   await signInAs(page, "operator@halftrip.test");
   await page.goto("/exports");
   const measurements = page.getByRole("region", { name: "Measurements" });
-  await measurements.getByLabel("Site").selectOption({ label: tank.site.name });
+  await measurements.getByLabel("Site", { exact: true }).selectOption({ label: tank.site.name });
   await measurements.getByRole("checkbox", { name: new RegExp(tank.tank.name) }).check();
   const [download] = await Promise.all([page.waitForEvent("download"), measurements.getByRole("link", { name: "Download measurements CSV" }).click()]);
   const { header, rows } = csvByName(fs.readFileSync((await download.path())!, "utf8"));
