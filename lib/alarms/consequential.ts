@@ -20,7 +20,7 @@
 //    condition seen during suppression (from no values or bad ones) is dropped and the alarm is
 //    judged again from the first fresh values.
 
-import { type HealthFlagKind } from "../worker/compute/types";
+import { type HealthFlagKind } from "../health/flags";
 import { type AlarmKind, type AlarmRecord, type EngineEvent, type EngineResult, applyAlarmInput, applyConditionChanges } from "./engine";
 import { SETPOINT_KEYS } from "./setpoints";
 import { type Instant, instantToMs } from "./state-machine";

@@ -8,7 +8,7 @@
 // that advances each time the alarm newly needs someone's attention, so notifications and escalation
 // belong to one episode and a re-alarm before anyone acknowledged does not start another round.
 
-import { HEALTH_FLAGS, type HealthFlagKind } from "../worker/compute/types";
+import { HEALTH_FLAGS, type HealthFlagKind } from "../health/flags";
 import {
   type LevelSample,
   type SetpointDef,

@@ -3,6 +3,10 @@
 
 import { median, robustSigmaFromDifferences } from "../signal/robust-stats";
 
+/** The sensor-health flags a channel can carry (the worker's health stage raises them, alarms follow them). */
+export const HEALTH_FLAGS = ["drift", "stuck", "noisy", "offline", "crosstalk_risk", "out_of_range", "no_echo"] as const;
+export type HealthFlagKind = (typeof HEALTH_FLAGS)[number];
+
 export interface StuckOptions {
   /** Length of the unchanging run, ending at the latest value, that counts as stuck. */
   minSamples: number;

@@ -20,7 +20,7 @@ import {
 import type { LevelSample, SetpointKey, SetpointState } from "../alarms/setpoints";
 import { keepUnseenOccurrenceAsHistory } from "../alarms/late-history";
 import type { AlarmPriority } from "../alarms/state-machine";
-import type { HealthFlagKind } from "./compute/types";
+import type { HealthFlagKind } from "../health/flags";
 import { type AlarmDbRow, type EventToWrite, insertAlarmEvents, toRecord } from "../services/alarm-store";
 import { sqlRows, sqlRun } from "../db/sql";
 

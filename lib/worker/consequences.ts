@@ -9,7 +9,7 @@ import type { Transaction } from "sequelize";
 import { DEFAULT_PRIORITIES, isLevelAlarmKind, type AlarmKind } from "../alarms/engine";
 import { type DeviceConditions, type OpenFlag, followCondition, planConsequences, reconcileSuppression, targetKey } from "../alarms/consequential";
 import { OFFLINE_AFTER_INTERVALS } from "../alarms/late-history";
-import type { HealthFlagKind } from "./compute/types";
+import type { HealthFlagKind } from "../health/flags";
 import { type AlarmDbRow, toRecord } from "../services/alarm-store";
 import { type StageCounts, type StageUpdate, saveStageUpdates } from "./alarm-evaluation";
 import { sqlRows } from "../db/sql";

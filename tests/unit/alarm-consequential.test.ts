@@ -10,7 +10,7 @@ import {
   type DeviceConditions,
 } from "@/lib/alarms/consequential";
 import { initialSetpointState, type SetpointDef } from "@/lib/alarms/setpoints";
-import type { HealthFlagKind } from "@/lib/worker/compute/types";
+import type { HealthFlagKind } from "@/lib/health/flags";
 
 // The states and transitions checked here are those of REFERENCES.md §4 (ISA-18.2 / IEC 62682,
 // published): suppressed by design from any state, the condition still evaluated and logged. Which

@@ -3,7 +3,7 @@
 
 import { initialBayState, type BayState } from "../../occupancy/bay";
 import type { CusumState } from "../../signal/cusum";
-import type { HealthFlagKind } from "./types";
+import type { HealthFlagKind } from "../../health/flags";
 
 export interface DriftState {
   /** Residual noise σ, fixed once the warm-up is complete; null while warming up. */

@@ -7,7 +7,8 @@ import { createCusum } from "../../signal/cusum";
 import { median, robustSigmaFromDifferences } from "../../signal/robust-stats";
 import { pushInto, roundForState, type ChannelState, type DriftState, type RunState } from "./channel-state";
 import { PIPELINE_SETTINGS } from "./settings";
-import type { ChannelConfig, HealthFlagKind, Measurement } from "./types";
+import type { ChannelConfig, Measurement } from "./types";
+import type { HealthFlagKind } from "../../health/flags";
 
 export interface FlagOpen {
   channelId: string;

@@ -18,8 +18,6 @@ export type MeasurementStatus = (typeof MEASUREMENT_STATUSES)[number];
 export const TEMP_SOURCES = ["reading", "site_samples", "site_fixed", "default"] as const;
 export type TempSource = (typeof TEMP_SOURCES)[number];
 
-export const HEALTH_FLAGS = ["drift", "stuck", "noisy", "offline", "crosstalk_risk", "out_of_range", "no_echo"] as const;
-export type HealthFlagKind = (typeof HEALTH_FLAGS)[number];
 
 export type SignalProfile = "echo" | "capture" | "pulse_coded" | "duty_coded";
 export type AssetKind = "tank" | "bay" | "point";
