@@ -12,6 +12,7 @@ import { execFileSync, spawn, type ChildProcess } from "node:child_process";
 import { randomBytes, randomUUID } from "node:crypto";
 import fs from "node:fs";
 import http from "node:http";
+import net from "node:net";
 import { createRequire } from "node:module";
 import os from "node:os";
 import path from "node:path";
@@ -33,7 +34,6 @@ const SITES = 20;
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 10);
 // One client at a time (what a person waits for) and four at once (a busy control room on two cores).
 const CONNECTIONS = (process.env.BENCH_CONNECTIONS ?? "1,4").split(",").map(Number);
-const PORT = Number(process.env.BENCH_PORT ?? 3310);
 const DIST_DIR = ".next-bench-dashboard";
 const TARGET_P95_MS: Record<number, number> = { 1: 50, 4: 100 };
 const TARGET_SERIES_BYTES = 60 * 1024;
@@ -152,6 +152,11 @@ const HOURLY_ROLLUPS_SQL = `
 const STATE_SQL = `
   INSERT INTO channel_state (channel_id, last_at, last_reading_id)
     SELECT channel_id, max(at), max(reading_id) FROM measurements GROUP BY channel_id;
+  INSERT INTO channel_latest (channel_id, reading_id, at, distance_m, level_m, volume_l, fill_pct, uncertainty_m, occupied)
+    SELECT c.id, m.reading_id, m.at, m.distance_m, m.level_m, m.volume_l, m.fill_pct, m.uncertainty_m, m.occupied
+    FROM channels c CROSS JOIN LATERAL (
+      SELECT * FROM measurements m WHERE m.channel_id = c.id AND m.status = 'ok' ORDER BY m.at DESC, m.reading_id DESC LIMIT 1
+    ) m;
   INSERT INTO occupancy_sessions (asset_id, channel_id, started_at, ended_at, duration_s)
     SELECT bc.asset_id, bc.id, now() - interval '3 hours', CASE WHEN bc.j % 3 = 0 THEN NULL ELSE now() - interval '40 minutes' END, 8400
     FROM bench_channels bc WHERE bc.j % 10 BETWEEN 5 AND 7;
@@ -192,6 +197,18 @@ async function seed(url: string) {
   });
   const counts = await withClient(url, async (c) => (await c.query(`SELECT (SELECT count(*) FROM measurements) AS m, (SELECT count(*) FROM measurement_rollups) AS r, (SELECT count(*) FROM alarms) AS a`)).rows[0]);
   log(`seeded ${Number(counts.m).toLocaleString("en-GB")} measurements, ${Number(counts.r).toLocaleString("en-GB")} rollup rows, ${counts.a} alarms in ${((Date.now() - started) / 1000).toFixed(0)} s`);
+}
+
+/** BENCH_PORT, or a port free now: with a fixed default, a second run on the machine measured the first one's server. */
+function serverPort(): Promise<number> {
+  if (process.env.BENCH_PORT) return Promise.resolve(Number(process.env.BENCH_PORT));
+  return new Promise((resolve, reject) => {
+    const probe = net.createServer().once("error", reject);
+    probe.listen(0, "127.0.0.1", () => {
+      const { port } = probe.address() as net.AddressInfo;
+      probe.close(() => resolve(port));
+    });
+  });
 }
 
 async function waitFor(url: string) {
@@ -293,6 +310,7 @@ async function main() {
     await withClient(adminUrl, (c) => c.query(`CREATE DATABASE ${dbName}`));
   }
   let server: ChildProcess | undefined;
+  const PORT = await serverPort();
   try {
     const env: NodeJS.ProcessEnv = { ...process.env, DATABASE_URL: url, AUTH_SECRET: randomBytes(16).toString("hex"), NODE_ENV: "production", DB_POOL_MAX: "10", PORT: String(PORT), NEXT_DIST_DIR: DIST_DIR };
     if (!reuse) {
@@ -301,7 +319,8 @@ async function main() {
     }
     if (process.env.BENCH_SKIP_BUILD === "1" && fs.existsSync(path.join(root, DIST_DIR, "BUILD_ID"))) log(`reusing the build in ${DIST_DIR}`);
     else execFileSync(path.join(root, "node_modules/.bin/next"), ["build"], { cwd: root, env, stdio: "inherit" });
-    server = spawn(path.join(root, "node_modules/.bin/next"), ["start", "-p", String(PORT)], { cwd: root, env, stdio: "ignore", detached: true });
+    server = spawn(path.join(root, "node_modules/.bin/next"), ["start", "-H", "127.0.0.1", "-p", String(PORT)], { cwd: root, env, stdio: "ignore", detached: true });
+    server.once("exit", (code) => log(`the server exited (${code}) — is port ${PORT} taken?`));
     const base = `http://127.0.0.1:${PORT}`;
     await waitFor(`${base}/api/health`);
     const cookie = await signIn(base);
@@ -339,7 +358,8 @@ async function main() {
       log(`${r.name.padEnd(20)} ${r.connections} conn · p50 ${String(r.p50).padStart(6)} ms · p95 ${String(r.p95).padStart(6)} ms · p99 ${String(r.p99).padStart(6)} ms · ${r.rps.toFixed(1).padStart(6)} req/s · ${r.bytes} B · ${verdict}`);
     }
   } finally {
-    if (server?.pid) process.kill(-server.pid, "SIGTERM");
+    server?.removeAllListeners("exit");
+    if (server?.pid && server.exitCode === null) process.kill(-server.pid, "SIGTERM");
     await new Promise((r) => setTimeout(r, 1000));
     if (!keep) await withClient(adminUrl, (c) => c.query(`DROP DATABASE IF EXISTS ${dbName} WITH (FORCE)`));
     else log(`kept database ${dbName}`);

@@ -1,5 +1,5 @@
-import { type Scope } from "../db/site-scope";
-import { findSite } from "../services/sites";
+import { siteScope, type Scope } from "../db/site-scope";
+import { notFound } from "../errors";
 import { deviceCountsBySite, listAssetStates, type AssetStateJson } from "./overview";
 import { listAttentionAlarms, setpointsByAsset, type SetpointJson } from "./overview-alarms";
 import { sqlRows } from "../db/sql";
@@ -38,11 +38,12 @@ async function dayTrends(organisationId: string, siteId: string, since: Date): P
             CASE WHEN a.kind = 'tank' THEN min(r.level_min) ELSE min(r.distance_min) END AS lo,
             CASE WHEN a.kind = 'tank' THEN max(r.level_max) ELSE max(r.distance_max) END AS hi
      FROM measurement_rollups r JOIN assets a ON a.id = r.asset_id
-     WHERE a.organisation_id = :organisationId AND a.site_id = :siteId AND a.kind IN ('tank', 'point')
-       AND r.bucket_s = :bucketS AND r.bucket_start >= :since
+     WHERE a.organisation_id = $1 AND a.site_id = $2 AND a.kind IN ('tank', 'point')
+       AND r.bucket_s = $3 AND r.bucket_start >= $4
      GROUP BY r.asset_id, a.kind, r.bucket_start
      ORDER BY r.asset_id, r.bucket_start`,
-    { organisationId, siteId, bucketS: HOUR_S, since },
+    [organisationId, siteId, HOUR_S, since],
+    { name: "site_day_trends" },
   );
   const out = new Map<string, DayTrend>();
   for (const r of rows) {
@@ -63,14 +64,19 @@ export async function siteOverview(scope: Scope, siteId: string, now = new Date(
   const { organisationId } = scope;
   const since = new Date(Math.floor((now.getTime() - 24 * HOUR_S * 1000) / (HOUR_S * 1000)) * HOUR_S * 1000);
   // Every query is scoped to the organisation, so they all run at once; another's site is still a 404.
-  const [site, assets, trends, alarms, devices, setpoints] = await Promise.all([
-    findSite(scope, siteId),
+  const [[site], assets, trends, alarms, devices, setpoints] = await Promise.all([
+    sqlRows<{ id: string; name: string; time_zone: string; air_temp_c: number | null }>(
+      `SELECT id, name, time_zone, air_temp_c FROM sites WHERE id = $1 AND organisation_id = $2 AND ${siteScope(scope, "id")}`,
+      [siteId, organisationId],
+      { name: "site_in_scope" },
+    ),
     listAssetStates(scope, { siteId }),
     dayTrends(organisationId, siteId, since),
     listAttentionAlarms(scope, { siteId }),
     deviceCountsBySite(scope, now, siteId),
     setpointsByAsset(scope, { siteId }),
   ]);
+  if (!site) throw notFound("That site");
   const detailed = assets.map((a) => withDay(a, trends.get(a.id), setpoints.get(a.id) ?? []));
   return {
     generated_at: now.toISOString(),
