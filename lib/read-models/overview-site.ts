@@ -12,7 +12,7 @@ const HOUR_S = 3600;
 interface TrendRow {
   asset_id: string;
   kind: "tank" | "point";
-  bucket_start: Date;
+  at_ms: number;
   mean: number | null;
   lo: number | null;
   hi: number | null;
@@ -32,7 +32,7 @@ interface DayTrend {
  */
 async function dayTrends(organisationId: string, siteId: string, since: Date): Promise<Map<string, DayTrend>> {
   const rows = await sqlRows<TrendRow>(
-    `SELECT r.asset_id, a.kind, r.bucket_start,
+    `SELECT r.asset_id, a.kind, (extract(epoch FROM r.bucket_start) * 1000)::float8 AS at_ms,
             -- To 0.1 mm: finer than any sensor here reads, and a quarter of the digits.
             round((CASE WHEN a.kind = 'tank' THEN sum(r.level_sum) ELSE sum(r.distance_sum) END / NULLIF(sum(r.n), 0))::numeric, 4)::float8 AS mean,
             CASE WHEN a.kind = 'tank' THEN min(r.level_min) ELSE min(r.distance_min) END AS lo,
@@ -48,7 +48,7 @@ async function dayTrends(organisationId: string, siteId: string, since: Date): P
   const out = new Map<string, DayTrend>();
   for (const r of rows) {
     const t = out.get(r.asset_id) ?? { trend: [], range: null };
-    if (r.kind === "tank") t.trend.push([new Date(r.bucket_start).getTime(), r.mean]);
+    if (r.kind === "tank") t.trend.push([r.at_ms, r.mean]);
     if (r.lo != null && r.hi != null) t.range = t.range ? [Math.min(t.range[0], r.lo), Math.max(t.range[1], r.hi)] : [r.lo, r.hi];
     out.set(r.asset_id, t);
   }
