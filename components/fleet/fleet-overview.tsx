@@ -6,6 +6,7 @@ import type { FleetOverviewJson } from "@/lib/read-models/overview";
 import { swrFetcher } from "@/lib/fetcher";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { formatDaysToReorder, formatLitres, formatMetres, formatPercent } from "@/components/fleet/fleet-figures";
+import { plural } from "@/lib/format/number";
 import { AlarmCounts, FlagTag, OverdueAge, PRIORITIES, TankCaution } from "@/components/fleet/fleet-status";
 import { SiteTime } from "@/components/ui/site-time";
 import { STACKED_TABLE } from "@/components/ui/form-fields";
@@ -134,7 +135,7 @@ export function FleetOverview() {
     <div className="space-y-4">
       {error && <LoadError error={error} retry={() => mutate()} />}
       <p className="flex flex-wrap gap-x-6 gap-y-1 text-sm" data-testid="fleet-totals">
-        <span><span className="figures">{t.sites}</span> sites · <span className="figures">{t.tanks}</span> tanks · <span className="figures">{t.bays}</span> bays, <span className="figures">{t.bays_occupied}</span> occupied</span>
+        <span><span className="figures">{t.sites}</span> {plural(t.sites, "site")} · <span className="figures">{t.tanks}</span> {plural(t.tanks, "tank")} · <span className="figures">{t.bays}</span> {plural(t.bays, "bay")}, <span className="figures">{t.bays_occupied}</span> occupied</span>
         <span><AlarmCounts counts={t.alarms} /></span>
         <span className={t.devices_offline ? "font-bold text-high" : "text-muted"}>
           <span className="figures">{t.devices_offline}</span> of <span className="figures">{t.devices}</span> devices offline
