@@ -89,8 +89,9 @@ describe("GET /api/refill-plan by purpose", () => {
   it("gives a supply tank its reorder date, empty date and delivery to safe fill", async () => {
     const soon = item((await plan(14)).items, "soon")!;
     expect(soon).toMatchObject({ purpose: "supply", status: "due", action: "deliver" });
-    // Computed: (3 000 − 2 100) L / 300 L a day = 3 d; empty at 3 000 / 300 = 10 d. The last reading's
-    // ±0.5 mm (±1.5 L, ±7 min) and the 5-minute bucket's middle (±2.5 min) stay within 15 min.
+    // Computed: (3 000 − 2 100) L / 300 L a day = 3 d; empty at 3 000 / 300 = 10 d. The projection
+    // starts at the 5-minute bucket's middle (±2.5 min) and the echo time's 0.1 µs rounding moves the
+    // level by under 0.02 mm: well within 15 min.
     near(soon.due_at, END.getTime() + 3 * DAY, 15 * 60_000);
     near(soon.limit_at, END.getTime() + 10 * DAY, 15 * 60_000);
     expect(soon.current_volume_l).toBeCloseTo(1.0 * L_PER_M, -1);
@@ -101,7 +102,7 @@ describe("GET /api/refill-plan by purpose", () => {
   it("gives a supply tank below its reorder level a delivery now, without waiting for a forecast", async () => {
     const below = item((await plan(14)).items, "below")!;
     expect(below).toMatchObject({ status: "due_now", action: "deliver", days_to_due: 0, limit_at: null });
-    // Computed: 7 560 − 0.6 m × 3 000 L/m = 5 760 L; the ±0.5 mm of the readings leave under 2 L.
+    // Computed: 7 560 − 0.6 m × 3 000 L/m = 5 760 L.
     expect(below.volume_l).toBeCloseTo(5760, -1);
   });
 
