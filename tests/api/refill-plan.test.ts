@@ -193,3 +193,16 @@ describe("the same verdict on the tank, site and fleet screens", () => {
     expect(process).toMatchObject({ purpose: "process", status: "alarms_only", due_at: null });
   });
 });
+
+describe("a tank whose purpose changes", () => {
+  it("is not planned by its old purpose, and is projected by its new one at the worker's next pass", async () => {
+    const later = tanks.later;
+    await admin.patch(`/api/assets/${later.tank.id}`).send({ purpose: "sump" }).expect(200);
+    const before = (await viewer.get(`/api/assets/${later.tank.id}/overview`).expect(200)).body.state.plan;
+    expect(before).toMatchObject({ purpose: "sump", status: "not_ready", due_at: null });
+    await runWorkerOnce();
+    // Falling 200 L a day: a sump that is not filling has nothing to pump out.
+    const after = (await viewer.get(`/api/assets/${later.tank.id}/overview`).expect(200)).body.state.plan;
+    expect(after).toMatchObject({ purpose: "sump", status: "not_due", reason: "The sump is not filling.", due_at: null });
+  }, 120_000);
+});
