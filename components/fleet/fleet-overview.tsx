@@ -5,9 +5,10 @@ import useSWR from "swr";
 import type { FleetOverviewJson } from "@/lib/read-models/overview";
 import { swrFetcher } from "@/lib/fetcher";
 import { Loading, LoadError } from "@/components/ui/data-state";
-import { formatDaysToReorder, formatLitres, formatMetres, formatPercent } from "@/components/fleet/fleet-figures";
+import { formatLitres, formatMetres, formatPercent } from "@/components/fleet/fleet-figures";
 import { plural } from "@/lib/format/number";
 import { AlarmCounts, FlagTag, OverdueAge, PRIORITIES, TankCaution } from "@/components/fleet/fleet-status";
+import { TankPlanVerdict } from "@/components/assets/tank-plan";
 import { SiteTime } from "@/components/ui/site-time";
 import { STACKED_TABLE } from "@/components/ui/form-fields";
 
@@ -36,7 +37,7 @@ function FillBar({ pct }: { pct: number | null }) {
   );
 }
 
-function TankLine({ tank, now }: { tank: TankSummary; now: number }) {
+function TankLine({ tank, zone, now }: { tank: TankSummary; zone: string; now: number }) {
   return (
     <tr>
       <td data-label="Tank">
@@ -51,7 +52,7 @@ function TankLine({ tank, now }: { tank: TankSummary; now: number }) {
         {formatMetres(tank.level_m, tank.uncertainty_m)}
         <OverdueAge at={tank.at} expectedIntervalS={tank.expected_interval_s} now={now} />
       </td>
-      <td data-label="Reorder" className={`whitespace-nowrap ${tank.days_to_reorder === 0 ? "font-bold" : ""}`}>{tank.forecast_at ? formatDaysToReorder(tank.days_to_reorder) : <span className="text-muted">no forecast yet</span>}</td>
+      <td data-label="Plan"><TankPlanVerdict plan={tank.plan} zone={zone} /></td>
     </tr>
   );
 }
@@ -90,10 +91,10 @@ function SiteCard({ site, now }: { site: SiteSummary; now: number }) {
               <th scope="col">Fill</th>
               <th scope="col">Volume</th>
               <th scope="col">Level</th>
-              <th scope="col">Reorder</th>
+              <th scope="col">Plan</th>
             </tr>
           </thead>
-          <tbody>{tanks.map((t) => <TankLine key={t.id} tank={t} now={now} />)}</tbody>
+          <tbody>{tanks.map((t) => <TankLine key={t.id} tank={t} zone={site.time_zone} now={now} />)}</tbody>
         </table>
       )}
       {site.tank_count > site.tanks.length && (

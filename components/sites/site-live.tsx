@@ -49,7 +49,7 @@ export function SiteLive({ siteId, canAcknowledge }: { siteId: string; canAcknow
           <h2 id="site-tanks" className="text-lg font-bold">Tanks</h2>
           <TankCaution />
           <div className="grid gap-4 md:grid-cols-2 xl:grid-cols-3">
-            {data.tanks.map((t) => <TankCard key={t.id} tank={t} alarms={data.alarms} now={now} />)}
+            {data.tanks.map((t) => <TankCard key={t.id} tank={t} zone={data.site.time_zone} alarms={data.alarms} now={now} />)}
           </div>
         </section>
       )}
