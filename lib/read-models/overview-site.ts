@@ -70,7 +70,7 @@ export async function siteOverview(scope: Scope, siteId: string, now = new Date(
       [siteId, organisationId],
       { name: "site_in_scope" },
     ),
-    listAssetStates(scope, { siteId }),
+    listAssetStates(scope, { siteId }, now),
     dayTrends(organisationId, siteId, since),
     listAttentionAlarms(scope, { siteId }),
     deviceCountsBySite(scope, now, siteId),
