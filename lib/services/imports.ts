@@ -16,7 +16,7 @@ import { dipRowReader, readingRowReader, strappingRowReader, temperatureRowReade
 import { IMPORT_KIND_LABELS, MAX_LISTED_ERRORS, MAX_STRAPPING_ROWS, MAX_UPLOAD_BYTES, type CreateUploadInput, type ImportKind, type ImportMode, type UploadStatus } from "../validations/import";
 import type { SignalProfile } from "../validations/device";
 import { findAsset, updateAsset } from "./assets";
-import { existingDipTimes, insertDips, maxDipLevel } from "./dips";
+import { dipDateFacts, existingDipTimes, insertDips, maxDipLevel } from "./dips";
 import { requestRecompute } from "./recompute-requests";
 import { sqlRows, sqlRun } from "../db/sql";
 
@@ -282,7 +282,8 @@ async function planFor(actor: Actor, upload: UploadJson, transaction: Transactio
     }
     case "dips": {
       const asset = await findAsset(wholeOrganisation(actor.organisationId), id);
-      return { reader: dipRowReader(maxDipLevel(asset), now) as RowReader<unknown>, sink: dipSink(id, actor.userId, transaction) as ImportSink<unknown> };
+      const dates = await dipDateFacts(asset, new Date(now));
+      return { reader: dipRowReader(maxDipLevel(asset), dates) as RowReader<unknown>, sink: dipSink(id, actor.userId, transaction) as ImportSink<unknown> };
     }
     case "temperature": {
       return {
