@@ -7,8 +7,8 @@ import { swrFetcher } from "@/lib/fetcher";
 import type { RefillPlanJson } from "@/lib/read-models/refill-plan";
 import { MAX_HORIZON_DAYS } from "@/lib/validations/export";
 import { createColumnHelper } from "@tanstack/react-table";
-import { formatAge, formatDaysToReorder, formatLitres, formatPercent } from "@/components/fleet/fleet-figures";
-import { SiteTime } from "@/components/ui/site-time";
+import { formatDaysToReorder, formatLitres, formatPercent } from "@/components/fleet/fleet-figures";
+import { RelativeTime, SiteTime } from "@/components/ui/site-time";
 import { DataTable } from "@/components/ui/data-table";
 
 export const HORIZON_CHOICES = [3, 7, 14, 30, 60, MAX_HORIZON_DAYS] as const;
@@ -48,7 +48,7 @@ const columns = [
     ),
   }),
   column.accessor("days_to_empty", { header: "Empty in", cell: (c) => (c.getValue() == null ? "—" : `${c.getValue()!.toFixed(1)}\u00a0d`), meta: { cellClassName: "figures" } }),
-  column.accessor("measured_at", { header: "Measured", cell: (c) => (c.getValue() ? formatAge(c.getValue()!) : "never") }),
+  column.accessor("measured_at", { header: "Measured", cell: (c) => (c.getValue() ? <RelativeTime at={c.getValue()!} /> : "never") }),
 ];
 
 /**
