@@ -28,11 +28,11 @@ export function UncertaintyBudgetTable({ assetId, zone }: { assetId: string; zon
     column.accessor("name", { header: "Contribution", cell: (c) => <>{c.getValue()}{c.row.original.is_default && <span className="text-muted"> (default)</span>}</> }),
     column.accessor("type", { header: "Type", meta: { cellClassName: "figures" } }),
     column.accessor("standard_uncertainty", {
-      header: "u(xᵢ)",
+      header: () => <span className="normal-case">u(xᵢ)</span>,
       meta: { label: "Standard uncertainty of the input", cellClassName: "figures" },
       cell: (c) => (c.row.original.unit === "m" ? mm(c.getValue()) : twoDigits(c.getValue(), 1, c.row.original.unit, locale)),
     }),
-    column.accessor("contribution_m", { header: "|cᵢ|·u(xᵢ)", meta: { label: "Contribution to the distance", cellClassName: "figures" }, cell: (c) => mm(c.getValue()) }),
+    column.accessor("contribution_m", { header: () => <span className="normal-case">|cᵢ|·u(xᵢ)</span>, meta: { label: "Contribution to the distance", cellClassName: "figures" }, cell: (c) => mm(c.getValue()) }),
     column.accessor("variance_share", { header: "Share", meta: { cellClassName: "figures" }, cell: (c) => `${formatNumber(c.getValue() * 100, 0, locale)}\u00a0%` }),
     column.accessor("source", { header: "From", enableSorting: false }),
   ];
@@ -43,7 +43,7 @@ export function UncertaintyBudgetTable({ assetId, zone }: { assetId: string; zon
       {data && !budget && <p className="text-sm text-muted">No valid distance measured yet on {data.channel.label}.</p>}
       {data?.measurement && (
         <p className="text-sm text-muted">
-          {data.channel.label}, measured <SiteTime at={data.measurement.at} zone={zone} />. Uncertainty budget after the GUM ({budget?.reference}); inputs independent,
+          {data.channel.label}, measured <SiteTime at={data.measurement.at} zone={zone} />. Budget after the {budget?.reference}; inputs independent,
           u<sub>c</sub>² = Σ (cᵢ·u(xᵢ))².
         </p>
       )}
