@@ -1,13 +1,14 @@
 "use client";
 
 import useSWR, { useSWRConfig } from "swr";
+import Link from "next/link";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { fetchJson, swrFetcher } from "@/lib/fetcher";
 import { fieldErrors } from "@/lib/http/errors";
 import { tankCapacity, tankHeight, type StrappingPoint, type TankGeometry } from "@/lib/geometry/tank-volume";
 import { assetConsistencyIssues, createAssetSchema, geometrySchema, updateAssetSchema } from "@/lib/validations/asset";
-import type { AssetJson } from "@/lib/services/assets";
+import type { AssetJson, AssetWarning } from "@/lib/services/assets";
 import type { SiteJson } from "@/lib/services/sites";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { ASSET_KINDS } from "@/lib/validations/asset";
@@ -163,6 +164,8 @@ export function AssetForm({ asset, siteId = "" }: { asset?: AssetJson; siteId?: 
   const [values, setValues] = useState<Values>(() => initialValues(asset, siteId));
   const [errors, setErrors] = useState<FieldErrors>({});
   const [busy, setBusy] = useState(false);
+  // Saved, with what will not read (a bottom beyond the sensor's range…): said before leaving the form.
+  const [savedWithWarnings, setSavedWithWarnings] = useState<{ id: string; warnings: AssetWarning[] } | null>(null);
   const sites = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
   const set = (key: keyof Values) => (e: React.ChangeEvent<HTMLInputElement | HTMLSelectElement | HTMLTextAreaElement>) => setValues((v) => ({ ...v, [key]: e.target.value }));
   const { read, rest } = errorReader(errors);
@@ -179,14 +182,28 @@ export function AssetForm({ asset, siteId = "" }: { asset?: AssetJson; siteId?: 
     setErrors({});
     setBusy(true);
     try {
-      const saved = await fetchJson<{ id: string }>(asset ? `/api/assets/${asset.id}` : "/api/assets", { method: asset ? "PATCH" : "POST", body: JSON.stringify(data) });
+      const saved = await fetchJson<{ id: string; warnings: AssetWarning[] }>(asset ? `/api/assets/${asset.id}` : "/api/assets", { method: asset ? "PATCH" : "POST", body: JSON.stringify(data) });
       await mutate(isUnder("/api/assets"));
+      if (saved.warnings.length) {
+        setBusy(false);
+        return setSavedWithWarnings(saved);
+      }
       router.push(`/assets/${saved.id}`);
       router.refresh();
     } catch (e) {
       setErrors(errorsFromApi(e));
       setBusy(false);
     }
+  }
+
+  if (savedWithWarnings) {
+    return (
+      <div role="status" className="card max-w-3xl space-y-3 border-l-4 border-medium p-4">
+        <p className="font-bold">Saved, with a warning:</p>
+        <ul className="list-disc pl-5 text-sm">{savedWithWarnings.warnings.map((w) => <li key={w.message}>{w.message}</li>)}</ul>
+        <Link href={`/assets/${savedWithWarnings.id}`} className="btn">Go to the asset</Link>
+      </div>
+    );
   }
 
   return (
