@@ -26,6 +26,9 @@ const PRESENT = LANE_COUNT;
 /** SQL for the lane of a device id column. */
 export const laneOfDevice = (column: string) => `(hashtext(${column}::text) & ${LANE_COUNT - 1})`;
 
+/** How many waiting readings (the next in the queue's physical order) are counted to weigh lanes when giving some up. */
+const WEIGH_READINGS = 100_000;
+
 /** How long a worker that owns no lane waits for another to give some up, and how often it asks. */
 const WAIT_FOR_LANES_MS = 5_000;
 const ASK_EVERY_MS = 25;
@@ -60,9 +63,9 @@ export class LaneOwnership {
       );
       const share = Math.ceil(LANE_COUNT / Math.max(1, workers));
       if (this.held.length > share) {
-        const surplus = this.held.slice(share);
+        const surplus = await this.surplus(share);
         await this.sql(`SELECT pg_advisory_unlock($1, l) FROM unnest($2::int[]) AS l`, [OWNED, surplus]);
-        this.held = this.held.slice(0, share);
+        this.held = this.held.filter((l) => !surplus.includes(l));
       } else if (this.held.length < share) {
         const free = Array.from({ length: LANE_COUNT }, (_, l) => l).filter((l) => !this.held.includes(l));
         // The filter runs row by row under the LIMIT: it stops trying once the share is full.
@@ -73,4 +76,34 @@ export class LaneOwnership {
       await sleep(ASK_EVERY_MS);
     }
   }
+
+  /**
+   * The lanes to give up to keep `share`, chosen so that what is given up carries its part of the
+   * waiting readings: a worker that joins late, or comes back after emptying its own lanes, then gets
+   * work rather than empty lanes. Lanes are weighed by the next readings waiting, heaviest first, each
+   * to the side further below its part.
+   */
+  private async surplus(share: number): Promise<number[]> {
+    const rows = await this.sql<{ lane: number; n: number }>(
+      `SELECT ${laneOfDevice("device_id")} AS lane, count(*)::int AS n FROM (SELECT device_id FROM reading_queue LIMIT $1) q GROUP BY 1`,
+      [WEIGH_READINGS],
+    );
+    return lanesToGiveUp(this.held, new Map(rows.map((r) => [r.lane, r.n])), share);
+  }
+}
+
+/**
+ * Splits the held lanes into `share` to keep and the rest to give up, each side carrying about its
+ * part of the weight: heaviest lane first, each to the side whose weight per lane it is to hold is lower.
+ */
+export function lanesToGiveUp(held: readonly number[], weight: ReadonlyMap<number, number>, share: number): number[] {
+  const w = (lane: number) => weight.get(lane) ?? 0;
+  const keep = { lanes: [] as number[], n: 0, size: share };
+  const give = { lanes: [] as number[], n: 0, size: held.length - share };
+  for (const lane of [...held].sort((a, b) => w(b) - w(a) || a - b)) {
+    const side = keep.lanes.length === keep.size ? give : give.lanes.length === give.size ? keep : keep.n / keep.size <= give.n / give.size ? keep : give;
+    side.lanes.push(lane);
+    side.n += w(lane);
+  }
+  return give.lanes.sort((a, b) => a - b);
 }
