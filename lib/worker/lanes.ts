@@ -24,7 +24,7 @@ export const CLAIMING = 0x48544c43;
 const PRESENT = LANE_COUNT;
 
 /** SQL for the lane of a device id column. */
-export const laneOfDevice = (column: string) => `(hashtext(${column}::text) & ${LANE_COUNT - 1})`;
+export const laneOfDevice = (column: string) => `(uuid_hash(${column}) & ${LANE_COUNT - 1})`;
 
 /** How many waiting readings (the next in the queue's physical order) are counted to weigh lanes when giving some up. */
 const WEIGH_READINGS = 100_000;

@@ -20,7 +20,7 @@ const BATCH = 60;
 let admin: Agent;
 const devices: string[] = [];
 
-const laneOf = async (deviceId: string) => (await sql<{ lane: number }>(`SELECT hashtext($1::text) & 15 AS lane`, [deviceId]))[0].lane;
+const laneOf = async (deviceId: string) => (await sql<{ lane: number }>(`SELECT uuid_hash($1::uuid) & 15 AS lane`, [deviceId]))[0].lane;
 
 beforeAll(async () => {
   admin = await signedIn("admin@halftrip.test");
