@@ -174,6 +174,7 @@ async function runWorkers(count: number, workerBundle: string, env: NodeJS.Proce
   });
   const done = await Promise.all(runs);
   const seconds = Number(process.hrtime.bigint() - started) / 1e9;
+  await settle();
   return { seconds, drainMs: done.map((d) => d.drainMs), peakRssKb: done.map((d) => d.rssKb), cpuS: done.map((d) => d.cpuS), serverCpuS: serverCpuSeconds(postmaster) - serverBefore };
 }
 
@@ -194,6 +195,8 @@ async function checkDrained(url: string, queued: number): Promise<string> {
 }
 
 const perSecond = (n: number, seconds: number) => Math.round(n / seconds);
+/** Lets the backends of connections just closed exit and be reaped, so their CPU time is counted. */
+const settle = () => new Promise((resolve) => setTimeout(resolve, 1000));
 
 /** Where a run's CPU went: the workers', the server's, and how many cores that kept busy on average. */
 function cpuAccount(label: string, run: WorkerRun, readings: number): string {
@@ -294,6 +297,7 @@ async function main() {
 
     const anchorServerBefore = serverCpuSeconds(postmaster);
     const anchor = await withClient(url, runAnchor);
+    await settle();
     const anchorServerCpuS = serverCpuSeconds(postmaster) - anchorServerBefore;
     const anchorRate = perSecond(anchor.rows, anchor.seconds);
     log(`anchor INSERT … SELECT: ${anchor.rows} rows in ${anchor.seconds.toFixed(1)} s → ${fmt(anchorRate)} rows/s (PostgreSQL CPU ${anchorServerCpuS.toFixed(1)} s)`);

@@ -4,7 +4,8 @@ import type pg from "pg";
 // CPU seconds the PostgreSQL server spends, read from /proc (proc(5)): the postmaster's own time, the
 // time of its children it has already reaped (backends that ended: a worker's connections close when
 // it exits) and the time of the children still running. The difference of two readings is what the
-// whole server (backends, WAL writer, checkpointer, autovacuum) spent in between.
+// whole server (backends, WAL writer, checkpointer, autovacuum, and any other database of the cluster)
+// spent in between.
 
 const CLOCK_TICKS = 100; // USER_HZ on Linux (sysconf(_SC_CLK_TCK))
 
