@@ -68,3 +68,23 @@ async function prepared<T>(name: string, text: string, values: readonly unknown[
     await manager.releaseConnection(connection);
   }
 }
+
+/** Statements on one held connection (see withSession). */
+export type SessionSql = <T extends object>(text: string, params?: readonly unknown[]) => Promise<T[]>;
+
+/**
+ * Runs `fn` with one primary connection held throughout, outside any transaction: for session-level
+ * state that must outlive transactions (the worker's lane locks). The session's advisory locks are
+ * released before the connection goes back to the pool.
+ */
+export async function withSession<T>(fn: (sql: SessionSql) => Promise<T>): Promise<T> {
+  const manager = getSequelize().connectionManager as unknown as ConnectionManager;
+  const connection = await manager.getConnection({ type: "RAW", useMaster: true });
+  const run: SessionSql = async <R extends object>(text: string, params: readonly unknown[] = []) => (await connection.query(text, [...params])).rows as R[];
+  try {
+    return await fn(run);
+  } finally {
+    await connection.query(`SELECT pg_advisory_unlock_all()`).catch(() => undefined);
+    await manager.releaseConnection(connection);
+  }
+}

@@ -8,7 +8,7 @@ import { getSequelize } from "../db/sequelize";
 import { writeAudit, type Actor } from "./audit";
 import { AppError, notFound } from "../errors";
 import { alarmKindLabel, applyAlarmInput } from "../alarms/engine";
-import { httpStatusForAlarmError, isAwaitingReset, type AlarmInput, type AlarmPriority, type AlarmState } from "../alarms/state-machine";
+import { isAwaitingReset, type AlarmActionErrorCode, type AlarmInput, type AlarmPriority, type AlarmState } from "../alarms/state-machine";
 import { groupAlarms } from "../alarms/floods";
 import type { AlarmListQuery, AlarmSort } from "../validations/alarm";
 import { type AlarmDbRow, type AlarmRowExtras, insertAlarmEvents, saveAlarm, toRecord } from "./alarm-store";
@@ -295,10 +295,15 @@ function actionExtras(action: AlarmAction, actor: Actor, now: Date): AlarmRowExt
   }
 }
 
+/** A refused action as an application error: a bad shelve expiry is the request's fault, the rest conflict with the alarm's state. */
+export function alarmRefusal(code: AlarmActionErrorCode, message: string): AppError {
+  return new AppError(code === "invalid_shelve_expiry" ? "invalid" : "conflict", message, { code });
+}
+
 async function actInTransaction(actor: Actor, id: string, action: AlarmAction, now: Date, transaction: Transaction): Promise<AlarmJson> {
   const row = await findAlarmRow(wholeOrganisation(actor.organisationId), id, transaction);
   const applied = applyAlarmInput(toRecord(row), actionInput(action, now), { at: now, cause: actionCause(action) });
-  if (!applied.ok) throw new AppError(httpStatusForAlarmError(applied.code) === 422 ? "invalid" : "conflict", applied.message, { code: applied.code });
+  if (!applied.ok) throw alarmRefusal(applied.code, applied.message);
   await saveAlarm(id, applied.result.record, actionExtras(action, actor, now), transaction);
   await insertAlarmEvents(
     applied.result.events.map((event) => ({
