@@ -43,10 +43,9 @@ export function DipTable({ dips, selected, onToggle, selectable, zone }: { dips:
       : []),
     column.accessor((d) => new Date(d.at).getTime(), { id: "time", header: "Time", cell: (c) => <SiteTime at={c.row.original.at} zone={zone} />, meta: { cellClassName: "figures" } }),
     column.accessor("level_m", { header: "Dipped level", cell: (c) => formatMetres(c.getValue()), meta: { cellClassName: "figures" } }),
-    column.accessor((d) => d.sensor?.level_m ?? null, {
+    column.accessor((d) => d.sensor?.level_m, {
       id: "sensor",
       header: "Sensor level then",
-      sortUndefined: "last",
       cell: (c) => (c.row.original.sensor ? formatMetres(c.row.original.sensor.level_m) : <span className="font-sans text-muted">no reading within an hour</span>),
       meta: { cellClassName: "figures" },
     }),

@@ -127,9 +127,8 @@ export function FormButtons({ busy, label, cancelHref }: { busy: boolean; label:
   );
 }
 
-/** A dense table at desktop width; at phone width each row becomes a stacked card, each cell labelled by data-label. */
-export const STACKED_TABLE =
-  "table-dense w-full max-md:[&_thead]:sr-only max-md:[&_tr]:block max-md:[&_tr]:border-b max-md:[&_tr]:border-rule max-md:[&_tr]:py-2 max-md:[&_td]:flex max-md:[&_td]:h-auto max-md:[&_td]:justify-between max-md:[&_td]:gap-4 max-md:[&_td]:border-0 max-md:[&_td]:py-1 max-md:[&_td]:text-right max-md:[&_td]:before:text-left max-md:[&_td]:before:font-sans max-md:[&_td]:before:font-bold max-md:[&_td]:before:content-[attr(data-label)]";
+// Lists draw through DataTable; the stacked layout is re-exported for screens not yet converted.
+export { STACKED_TABLE } from "@/components/ui/data-table";
 
 export function NotFoundPanel({ what, backHref, backLabel }: { what: string; backHref: string; backLabel: string }) {
   return (
