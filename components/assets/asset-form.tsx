@@ -15,6 +15,7 @@ import { Loading, LoadError } from "@/components/ui/data-state";
 import { formatLitres, formatMetres } from "@/components/fleet/fleet-figures";
 import {
   applyApiErrors,
+  useSelectsFollowOptions,
   errorReader,
   isUnder,
   fieldId,
@@ -186,6 +187,7 @@ export function AssetForm({ asset, siteId = "" }: { asset?: AssetJson; siteId?: 
   const errors = flatErrors(formState.errors);
   const busy = formState.isSubmitting || formState.isSubmitSuccessful;
   const sites = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
+  useSelectsFollowOptions(form, ["site_id"], sites.data);
   const { read, rest } = errorReader(errors);
   const id = (key: string) => fieldId("asset", key);
   const num = (key: (typeof ASSET_FIELDS)[number], label: string, unit: string, hint?: string) => (

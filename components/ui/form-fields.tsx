@@ -1,7 +1,8 @@
 "use client";
 
 import Link from "next/link";
-import type { FieldValues, Path, UseFormReturn } from "react-hook-form";
+import { useEffect } from "react";
+import type { FieldValues, Path, PathValue, UseFormReturn } from "react-hook-form";
 import { ApiError } from "@/lib/fetcher";
 
 // Shared pieces of the provisioning screens (sites, assets, devices): labelled fields with their error,
@@ -21,12 +22,28 @@ export function errorsFromApi(e: unknown): FieldErrors {
   return { _: (e as Error).message };
 }
 
-/** Puts the API's 422 field messages on the form's fields, anything else on the form as a whole. */
-export function applyApiErrors<T extends FieldValues>(form: Pick<UseFormReturn<T>, "setError">, e: unknown) {
+/**
+ * Puts the API's 422 field messages on the form's fields, anything else on the form as a whole;
+ * `fieldOf` renames an API path to the form's where they differ.
+ */
+export function applyApiErrors<T extends FieldValues>(form: Pick<UseFormReturn<T>, "setError">, e: unknown, fieldOf: (key: string) => string = (key) => key) {
   const errors = errorsFromApi(e);
   for (const [key, message] of Object.entries(errors)) {
-    form.setError(key === "_" ? "root" : (key as Path<T>), { message });
+    form.setError(key === "_" ? "root" : (fieldOf(key) as Path<T>), { message });
   }
+}
+
+/**
+ * A select whose options arrive after the form was drawn (sites, assets) shows the form's value once they
+ * do: the browser could not select an option that did not exist yet.
+ */
+export function useSelectsFollowOptions<T extends FieldValues>(form: Pick<UseFormReturn<T>, "getValues" | "setValue">, names: readonly Path<T>[], options: unknown) {
+  const { getValues, setValue } = form;
+  const key = names.join(" ");
+  useEffect(() => {
+    if (!options) return;
+    for (const name of key.split(" ")) setValue(name as Path<T>, getValues(name as Path<T>) as PathValue<T, Path<T>>);
+  }, [options, key, getValues, setValue]);
 }
 
 /** After a save, every cached list or record under this API path is fetched again. */
