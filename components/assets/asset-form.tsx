@@ -28,7 +28,7 @@ import {
   TextAreaField,
   textOf,
 } from "@/components/ui/form-fields";
-import { flatErrors, payloadSchema, type FormIssue } from "@/components/ui/form-schema";
+import { flatErrors, payloadSchema, textBoxes, type FormIssue } from "@/components/ui/form-schema";
 
 const SHAPES = { vertical_cylinder: "Vertical cylinder", horizontal_cylinder: "Horizontal cylinder", rectangular: "Rectangular", strapping: "Strapping table" } as const;
 
@@ -37,8 +37,7 @@ const ASSET_FIELDS = ["site_id", "kind", "name", "mount_height_m", "safe_fill_pc
 type GeometryValues = Record<(typeof GEOMETRY_FIELDS)[number], string>;
 // The boxes as typed; the geometry's sit under "geometry." as the API names them, so its messages land beside them.
 type Values = Record<(typeof ASSET_FIELDS)[number], string> & { geometry: GeometryValues };
-const texts = <K extends string>(keys: readonly K[]) => z.object(Object.fromEntries(keys.map((k) => [k, z.string()])) as Record<K, z.ZodString>);
-const valuesSchema = texts(ASSET_FIELDS).extend({ geometry: texts(GEOMETRY_FIELDS) });
+const valuesSchema = textBoxes(ASSET_FIELDS).extend({ geometry: textBoxes(GEOMETRY_FIELDS) });
 
 function initialValues(asset: AssetJson | undefined, siteId: string): Values {
   const g = (asset?.geometry ?? {}) as Partial<Record<string, unknown>> & { points?: StrappingPoint[] };

@@ -18,7 +18,7 @@ import { Loading, LoadError } from "@/components/ui/data-state";
 import { DeviceKeyReveal } from "@/components/devices/device-key-reveal";
 import { PROFILE_LABELS } from "@/components/devices/device-table";
 import { applyApiErrors, useSelectsFollowOptions, errorReader, isUnder, fieldId, FormAlert, FormButtons, InputField, NumberField, numberOrNull, SelectField, textOf } from "@/components/ui/form-fields";
-import { flatErrors, payloadSchema, type FormIssue } from "@/components/ui/form-schema";
+import { flatErrors, payloadSchema, textBoxes, type FormIssue } from "@/components/ui/form-schema";
 
 const PROFILE_FIELDS: Record<SignalProfile, ("clock_hz" | "prescaler" | "timer_bits" | "us_per_mm" | "zero_m" | "span_m")[]> = {
   echo: [],
@@ -31,8 +31,7 @@ const DEVICE_FIELDS = ["site_id", "serial", "name", "profile", "clock_hz", "pres
 const CHANNEL_FIELDS = ["index", "asset_id", "min_range_m", "max_range_m", "face_offset_m"] as const;
 type ChannelRow = Record<(typeof CHANNEL_FIELDS)[number], string>;
 type Values = Record<(typeof DEVICE_FIELDS)[number], string> & { channels: ChannelRow[] };
-const texts = <K extends string>(keys: readonly K[]) => z.object(Object.fromEntries(keys.map((k) => [k, z.string()])) as Record<K, z.ZodString>);
-const valuesSchema = texts(DEVICE_FIELDS).extend({ channels: z.array(texts(CHANNEL_FIELDS)) });
+const valuesSchema = textBoxes(DEVICE_FIELDS).extend({ channels: z.array(textBoxes(CHANNEL_FIELDS)) });
 
 function channelRow(c?: Partial<DeviceJson["channels"][number]> & { index: number }): ChannelRow {
   return { index: String(c?.index ?? 0), asset_id: c?.asset_id ?? "", min_range_m: textOf(c?.min_range_m ?? 0.02), max_range_m: textOf(c?.max_range_m ?? 4), face_offset_m: textOf(c?.face_offset_m ?? 0) };

@@ -11,11 +11,11 @@ import type { SiteJson } from "@/lib/services/sites";
 import { createSiteSchema, updateSiteSchema } from "@/lib/validations/site";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { applyApiErrors, errorReader, isUnder, fieldId, FormAlert, FormButtons, InputField, NumberField, numberOrNull, textOf } from "@/components/ui/form-fields";
-import { flatErrors, payloadSchema } from "@/components/ui/form-schema";
+import { flatErrors, payloadSchema, textBoxes } from "@/components/ui/form-schema";
 
 const FIELDS = ["name", "time_zone", "latitude", "longitude", "air_temp_c", "humidity_pct", "escalation_delay_min"] as const;
 type Values = Record<(typeof FIELDS)[number], string>;
-const valuesSchema = z.object(Object.fromEntries(FIELDS.map((f) => [f, z.string()])) as Record<(typeof FIELDS)[number], z.ZodString>);
+const valuesSchema = textBoxes(FIELDS);
 
 function initialValues(site?: SiteJson): Values {
   return {

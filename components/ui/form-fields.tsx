@@ -5,8 +5,9 @@ import { useEffect } from "react";
 import type { FieldValues, Path, PathValue, UseFormReturn } from "react-hook-form";
 import { ApiError } from "@/lib/fetcher";
 
-// Shared pieces of the provisioning screens (sites, assets, devices): labelled fields with their error,
-// the form's alert, number parsing, the stacked table. Figures are written by ./fleet-figures.
+// The kit's form pieces: labelled fields with their hint and error, the form's alert, the API's answers
+// put beside the fields they name. Forms hold their state in react-hook-form with a schema from
+// ./form-schema; every number box is a NumberField, so a unit or locale applies to all of them at once.
 
 export type FieldErrors = Record<string, string>;
 

@@ -12,6 +12,11 @@ function valueAt(payload: unknown, path: readonly PropertyKey[]): unknown {
   return path.reduce<unknown>((v, key) => (v != null && typeof v === "object" ? (v as Record<PropertyKey, unknown>)[key] : undefined), payload);
 }
 
+/** A form's text boxes by name: each holds a string as typed. */
+export function textBoxes<K extends string>(names: readonly K[]) {
+  return z.object(Object.fromEntries(names.map((name) => [name, z.string()])) as Record<K, z.ZodString>);
+}
+
 export type FormIssue = { path: string; message: string };
 
 /**
