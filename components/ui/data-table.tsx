@@ -141,8 +141,9 @@ export function DataTable<T>({
     data: data ?? [],
     columns,
     getRowId,
-    // A missing value (an accessor's undefined) goes last whichever way the column is sorted.
-    defaultColumn: { sortUndefined: "last" },
+    // The first click sorts ascending on every column (numbers and times too); a missing value (an
+    // accessor's undefined) goes last whichever way the column is sorted.
+    defaultColumn: { sortUndefined: "last", sortDescFirst: false },
     state: { sorting },
     enableSorting: sortable,
     onSortingChange: setSorting,
