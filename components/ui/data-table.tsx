@@ -61,7 +61,7 @@ export interface DataTableStates<T> {
   title?: boolean;
   /** Shows `label` as the table's visible caption (a list under a heading of its own); otherwise the caption is for screen readers. */
   caption?: boolean;
-  /** Drawn without a card of its own, inside a card that already frames it. */
+  /** Drawn without a card or region of its own, inside a card that already frames it (its table keeps `label` as caption). */
   bare?: boolean;
   /** Classes added to the <table> (md:table-fixed). */
   tableClassName?: string;
@@ -80,10 +80,12 @@ export interface DataTableStates<T> {
 export function DataTableView<T>({ table, label, title, caption, bare, tableClassName, loading, error, retry, empty, rowProps, footer }: DataTableStates<T> & { table: Table<T> }) {
   const rows = table.getRowModel().rows;
   const titleId = useId();
+  // A bare table sits inside a region that already names it; only a framed list is a region of its own.
+  const Frame = bare ? "div" : "section";
   return (
-    <section
+    <Frame
       className={bare ? "overflow-x-auto" : "card overflow-x-auto"}
-      aria-label={title ? undefined : label}
+      aria-label={title || bare ? undefined : label}
       aria-labelledby={title ? titleId : undefined}
       aria-busy={loading || undefined}
     >
@@ -115,7 +117,7 @@ export function DataTableView<T>({ table, label, title, caption, bare, tableClas
         </table>
       )}
       {footer}
-    </section>
+    </Frame>
   );
 }
 
@@ -138,7 +140,9 @@ export function DataTable<T>({
   // TanStack Table keeps its own state and hands out fresh functions each render; the compiler skips this component, as intended.
   // eslint-disable-next-line react-hooks/incompatible-library
   const table = useReactTable({
-    data: data ?? [],
+    // A fresh array each render: TanStack caches each row's values until its data changes, and an accessor
+    // may read what the screen loaded beside the rows (a site's or asset's name arriving later).
+    data: data ? [...data] : [],
     columns,
     getRowId,
     // The first click sorts ascending on every column (numbers and times too); a missing value (an
