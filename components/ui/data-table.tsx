@@ -141,8 +141,10 @@ export function DataTable<T>({
   // eslint-disable-next-line react-hooks/incompatible-library
   const table = useReactTable({
     // A fresh array each render: TanStack caches each row's values until its data changes, and an accessor
-    // may read what the screen loaded beside the rows (a site's or asset's name arriving later).
+    // may read what the screen loaded beside the rows (a site's or asset's name arriving later). These
+    // lists are not paged, so nothing is reset when the rows are rebuilt (a reset would render again, forever).
     data: data ? [...data] : [],
+    autoResetAll: false,
     columns,
     getRowId,
     // The first click sorts ascending on every column (numbers and times too); a missing value (an
