@@ -1,15 +1,16 @@
 "use client";
 
 import useSWR, { useSWRConfig } from "swr";
+import Link from "next/link";
 import { useRouter } from "next/navigation";
-import { useMemo } from "react";
+import { useMemo, useState } from "react";
 import { useForm, useWatch, type Control } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { z } from "zod";
 import { fetchJson, swrFetcher } from "@/lib/fetcher";
 import { tankCapacity, tankHeight, type StrappingPoint, type TankGeometry } from "@/lib/geometry/tank-volume";
 import { ASSET_KINDS, assetConsistencyIssues, createAssetSchema, geometrySchema, updateAssetSchema } from "@/lib/validations/asset";
-import type { AssetJson } from "@/lib/services/assets";
+import type { AssetJson, AssetWarning } from "@/lib/services/assets";
 import type { SiteJson } from "@/lib/services/sites";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { formatLitres, formatMetres } from "@/components/fleet/fleet-figures";
@@ -185,6 +186,8 @@ export function AssetForm({ asset, siteId = "" }: { asset?: AssetJson; siteId?: 
   const kind = asset?.kind ?? chosenKind;
   const errors = flatErrors(formState.errors);
   const busy = formState.isSubmitting || formState.isSubmitSuccessful;
+  // Saved, with what will not read (a bottom beyond the sensor's range…): said before leaving the form.
+  const [savedWithWarnings, setSavedWithWarnings] = useState<{ id: string; warnings: AssetWarning[] } | null>(null);
   const sites = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
   useSelectsFollowOptions(form, ["site_id"], sites.data);
   const { read, rest } = errorReader(errors);
@@ -198,14 +201,25 @@ export function AssetForm({ asset, siteId = "" }: { asset?: AssetJson; siteId?: 
 
   const onSubmit = handleSubmit(async (payload) => {
     try {
-      const saved = await fetchJson<{ id: string }>(asset ? `/api/assets/${asset.id}` : "/api/assets", { method: asset ? "PATCH" : "POST", body: JSON.stringify(payload) });
+      const saved = await fetchJson<{ id: string; warnings: AssetWarning[] }>(asset ? `/api/assets/${asset.id}` : "/api/assets", { method: asset ? "PATCH" : "POST", body: JSON.stringify(payload) });
       await mutate(isUnder("/api/assets"));
+      if (saved.warnings?.length) return setSavedWithWarnings(saved);
       router.push(`/assets/${saved.id}`);
       router.refresh();
     } catch (e) {
       applyApiErrors(form, e);
     }
   });
+
+  if (savedWithWarnings) {
+    return (
+      <div role="status" className="card max-w-3xl space-y-3 border-l-4 border-medium p-4">
+        <p className="font-bold">Saved, with a warning:</p>
+        <ul className="list-disc pl-5 text-sm">{savedWithWarnings.warnings.map((w) => <li key={w.message}>{w.message}</li>)}</ul>
+        <Link href={`/assets/${savedWithWarnings.id}`} className="btn">Go to the asset</Link>
+      </div>
+    );
+  }
 
   return (
     <form onSubmit={onSubmit} noValidate className="card grid max-w-3xl gap-4 p-4 sm:grid-cols-2">

@@ -8,6 +8,7 @@ import { fetchJson } from "@/lib/fetcher";
 import { recordDipSchema, type RecordDipInput } from "@/lib/validations/dip";
 import { applyApiErrors, InputField, NumberField, TextAreaField } from "@/components/ui/form-fields";
 import { parseDecimal } from "@/components/ui/decimal";
+import { dipLevelQuestion } from "@/lib/input-checks/questions";
 
 /** The moment now as a datetime-local value in the browser's zone (YYYY-MM-DDTHH:mm). */
 export function localNow(now = new Date()): string {
@@ -36,7 +37,10 @@ function dipFormSchema(maxLevelM: number | null) {
       note: v.note.trim() || undefined,
     }))
     .pipe(recordDipSchema)
-    .refine((d) => maxLevelM === null || d.level_m <= maxLevelM, { path: ["level"], message: `The tank is ${maxLevelM?.toFixed(3)} m tall; a dip cannot read higher.` });
+    .superRefine((d, ctx) => {
+      const question = dipLevelQuestion(d.level_m, maxLevelM);
+      if (question) ctx.addIssue({ code: "custom", path: ["level"], message: question.message });
+    });
 }
 
 type DipFormValues = { level: string; at: string; note: string };

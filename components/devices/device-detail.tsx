@@ -8,8 +8,8 @@ import type { SiteJson } from "@/lib/services/sites";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { DeviceKeyActions } from "@/components/devices/device-key-actions";
 import { isOffline, PROFILE_LABELS } from "@/components/devices/device-table";
-import { formatAge, formatCount, formatDbm, formatMetres, formatVolts } from "@/components/fleet/fleet-figures";
-import { SiteTime } from "@/components/ui/site-time";
+import { formatCount, formatDbm, formatMetres, formatVolts } from "@/components/fleet/fleet-figures";
+import { RelativeTime, SiteTime } from "@/components/ui/site-time";
 import { createColumnHelper } from "@tanstack/react-table";
 import { DataTable } from "@/components/ui/data-table";
 
@@ -121,7 +121,7 @@ export function DeviceDetail({ id, canManage }: { id: string; canManage: boolean
         <Facts
           items={[
             ["Site", site.data?.name ?? "…"],
-            ["Last seen", <>{data.last_seen_at ? formatAge(data.last_seen_at) : "never"}{isOffline(data) && " · offline (no reading for three expected intervals)"}</>],
+            ["Last seen", <>{data.last_seen_at ? <RelativeTime at={data.last_seen_at} /> : "never"}{isOffline(data) && " · offline (no reading for three expected intervals)"}</>],
             ["Battery", fig(formatVolts(data.battery_v))],
             ["Signal", fig(formatDbm(data.rssi_dbm))],
           ]}

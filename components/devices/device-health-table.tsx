@@ -1,5 +1,7 @@
 "use client";
 
+import { RelativeTime } from "@/components/ui/site-time";
+
 import Link from "next/link";
 import { useState } from "react";
 import useSWR from "swr";
@@ -8,7 +10,7 @@ import type { DeviceHealthPage, DeviceHealthRow } from "@/lib/read-models/overvi
 import type { SiteJson } from "@/lib/services/sites";
 import { swrFetcher } from "@/lib/fetcher";
 import { DEVICE_HEALTH_FLAGS, deviceHealthQuerySchema, type DeviceHealthSort } from "@/lib/validations/overview";
-import { formatAge, formatDbm, formatVolts } from "@/components/fleet/fleet-figures";
+import { formatDbm, formatVolts } from "@/components/fleet/fleet-figures";
 import { LIVE_REFRESH_MS } from "@/components/fleet/fleet-overview";
 import { FlagTag, flagLabel } from "@/components/fleet/fleet-status";
 import { DataTableView } from "@/components/ui/data-table";
@@ -58,7 +60,7 @@ const columns = [
     header: "Last seen",
     cell: (c) => (
       <span className="figures">
-        {c.getValue() ? formatAge(c.getValue() as string) : "never"}
+        {c.getValue() ? <RelativeTime at={c.getValue() as string} /> : "never"}
         {c.row.original.offline && <span className="ml-1 font-sans font-bold text-high">offline</span>}
       </span>
     ),

@@ -1,5 +1,7 @@
 "use client";
 
+import { RelativeTime } from "@/components/ui/site-time";
+
 import Link from "next/link";
 import useSWR from "swr";
 import { createColumnHelper } from "@tanstack/react-table";
@@ -7,7 +9,7 @@ import { swrFetcher } from "@/lib/fetcher";
 import { deviceListQuerySchema } from "@/lib/validations/device";
 import type { DeviceJson } from "@/lib/services/devices";
 import type { SiteJson } from "@/lib/services/sites";
-import { formatAge, formatDbm, formatVolts } from "@/components/fleet/fleet-figures";
+import { formatDbm, formatVolts } from "@/components/fleet/fleet-figures";
 import { DataTable } from "@/components/ui/data-table";
 import { useListParams } from "@/components/ui/list-params";
 import { ClearFilters } from "@/components/ui/clear-filters";
@@ -40,7 +42,7 @@ export function DeviceTable() {
       meta: { cellClassName: "figures" },
       cell: (c) => (
         <>
-          {c.getValue() ? formatAge(c.getValue()!) : "never"}
+          {c.getValue() ? <RelativeTime at={c.getValue()!} /> : "never"}
           {isOffline(c.row.original) && <span className="font-sans"> · offline</span>}
         </>
       ),

@@ -5,8 +5,10 @@ import useSWR from "swr";
 import type { FleetOverviewJson } from "@/lib/read-models/overview";
 import { swrFetcher } from "@/lib/fetcher";
 import { Loading, LoadError } from "@/components/ui/data-state";
-import { formatDaysToReorder, formatLitres, formatMetres, formatPercent } from "@/components/fleet/fleet-figures";
+import { formatLitres, formatMetres, formatPercent } from "@/components/fleet/fleet-figures";
+import { plural } from "@/lib/format/number";
 import { AlarmCounts, FlagTag, OverdueAge, PRIORITIES, TankCaution } from "@/components/fleet/fleet-status";
+import { TankPlanVerdict } from "@/components/assets/tank-plan";
 import { SiteTime } from "@/components/ui/site-time";
 import { createColumnHelper } from "@tanstack/react-table";
 import { DataTable } from "@/components/ui/data-table";
@@ -38,7 +40,7 @@ function FillBar({ pct }: { pct: number | null }) {
 
 const tankColumn = createColumnHelper<TankSummary>();
 
-function tankColumns(now: number) {
+function tankColumns(now: number, zone: string) {
   return [
     tankColumn.accessor("name", {
       header: "Tank",
@@ -68,12 +70,11 @@ function tankColumns(now: number) {
       ),
       meta: { headerClassName: "md:w-[22%]", cellClassName: "figures whitespace-nowrap" },
     }),
-    tankColumn.accessor((t) => (t.forecast_at ? (t.days_to_reorder ?? undefined) : undefined), {
-      id: "reorder",
-      header: "Reorder",
-      cell: ({ row: { original: tank } }) =>
-        tank.forecast_at ? <span className={tank.days_to_reorder === 0 ? "font-bold" : undefined}>{formatDaysToReorder(tank.days_to_reorder)}</span> : <span className="text-muted">no forecast yet</span>,
-      meta: { headerClassName: "md:w-[14%]", cellClassName: "whitespace-nowrap" },
+    tankColumn.display({
+      id: "plan",
+      header: "Plan",
+      cell: (c) => <TankPlanVerdict plan={c.row.original.plan} zone={zone} />,
+      meta: { headerClassName: "md:w-[14%]" },
     }),
   ];
 }
@@ -97,7 +98,7 @@ function SiteCard({ site, now }: { site: SiteSummary; now: number }) {
         </span>
       </header>
       {tanks.length > 0 && (
-        <DataTable data={tanks} columns={tankColumns(now)} getRowId={(t) => t.id} label={`Tanks at ${site.name}`} bare tableClassName="md:table-fixed" empty="No tanks." />
+        <DataTable data={tanks} columns={tankColumns(now, site.time_zone)} getRowId={(t) => t.id} label={`Tanks at ${site.name}`} bare tableClassName="md:table-fixed" empty="No tanks." />
       )}
       {site.tank_count > site.tanks.length && (
         <p className="px-4 py-2 text-sm text-muted">
@@ -138,7 +139,7 @@ export function FleetOverview() {
     <div className="space-y-4">
       {error && <LoadError error={error} retry={() => mutate()} />}
       <p className="flex flex-wrap gap-x-6 gap-y-1 text-sm" data-testid="fleet-totals">
-        <span><span className="figures">{t.sites}</span> sites · <span className="figures">{t.tanks}</span> tanks · <span className="figures">{t.bays}</span> bays, <span className="figures">{t.bays_occupied}</span> occupied</span>
+        <span><span className="figures">{t.sites}</span> {plural(t.sites, "site")} · <span className="figures">{t.tanks}</span> {plural(t.tanks, "tank")} · <span className="figures">{t.bays}</span> {plural(t.bays, "bay")}, <span className="figures">{t.bays_occupied}</span> occupied</span>
         <span><AlarmCounts counts={t.alarms} /></span>
         <span className={t.devices_offline ? "font-bold text-high" : "text-muted"}>
           <span className="figures">{t.devices_offline}</span> of <span className="figures">{t.devices}</span> devices offline
