@@ -95,10 +95,9 @@ export function DipTable({
       : []),
     column.accessor((d) => new Date(d.at).getTime(), { id: "time", header: "Time", cell: (c) => <span className={struck(c.row.original)}><SiteTime at={c.row.original.at} zone={zone} /></span>, meta: { cellClassName: "figures" } }),
     column.accessor("level_m", { header: "Dipped level", cell: (c) => <span className={struck(c.row.original)}>{formatMetres(c.getValue())}</span>, meta: { cellClassName: "figures" } }),
-    column.accessor((d) => d.sensor?.level_m ?? null, {
+    column.accessor((d) => d.sensor?.level_m, {
       id: "sensor",
       header: "Sensor level then",
-      sortUndefined: "last",
       cell: (c) => (c.row.original.sensor ? formatMetres(c.row.original.sensor.level_m) : <span className="font-sans text-muted">no reading within an hour</span>),
       meta: { cellClassName: "figures" },
     }),

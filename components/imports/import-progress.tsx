@@ -7,9 +7,17 @@ import { formatBytes } from "@/lib/csv/parse";
 import type { ImportQuestion, UploadJson } from "@/lib/services/imports";
 import { IMPORT_KIND_LABELS } from "@/lib/validations/import";
 import { Loading, LoadError } from "@/components/ui/data-state";
-import { STACKED_TABLE } from "@/components/ui/form-fields";
+import { createColumnHelper } from "@tanstack/react-table";
+import { DataTable } from "@/components/ui/data-table";
 
 const RUNNING = new Set(["waiting", "processing"]);
+
+type LineError = NonNullable<UploadJson["errors"]>[number];
+const errorColumn = createColumnHelper<LineError>();
+const errorColumns = [
+  errorColumn.accessor("line", { header: "Line", meta: { cellClassName: "figures" } }),
+  errorColumn.accessor("message", { header: "What is wrong" }),
+];
 
 /** The upload's state in words with a glyph; colour only when something is wrong. */
 export function UploadStatusText({ upload }: { upload: Pick<UploadJson, "status" | "error_count"> }) {
@@ -126,27 +134,14 @@ export function ImportProgress({ uploadId, onImportGoodRows }: { uploadId: strin
       )}
       {!running && <ImportQuestions upload={data} onChanged={() => mutate()} />}
       {data.errors && data.errors.length > 0 && (
-        <div className="overflow-x-auto">
-          <table className={STACKED_TABLE}>
-            <caption className="px-3 py-2 text-left text-sm font-bold">
-              Errors by line{data.error_count > data.errors.length ? ` (the first ${data.errors.length} of ${data.error_count})` : ""}
-            </caption>
-            <thead>
-              <tr>
-                <th scope="col">Line</th>
-                <th scope="col">What is wrong</th>
-              </tr>
-            </thead>
-            <tbody>
-              {data.errors.map((e) => (
-                <tr key={`${e.line}-${e.message}`}>
-                  <td data-label="Line" className="figures">{e.line}</td>
-                  <td data-label="What is wrong">{e.message}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </div>
+        <DataTable
+          data={data.errors}
+          columns={errorColumns}
+          label={`Errors by line${data.error_count > data.errors.length ? ` (the first ${data.errors.length} of ${data.error_count})` : ""}`}
+          caption
+          bare
+          empty="No errors."
+        />
       )}
     </section>
   );
