@@ -170,7 +170,7 @@ describe("maintenance of a device or a site", () => {
     await runWorkerOnce();
     expect((await levelAlarm(f.tank.id, "h")).state).toBe("unacknowledged");
 
-    const until = () => new Date(Date.now() + 4_000).toISOString();
+    const until = () => new Date(Date.now() + 10_000).toISOString();
     await technician.post(`/api/devices/${f.device.id}/maintenance`).send({ mode: "shelve", reason: "replacing the sensor bracket", until: until() }).expect(403);
     const short = await operator.post(`/api/devices/${f.device.id}/maintenance`).send({ mode: "shelve", reason: "work", until: until() }).expect(422);
     expect(short.body.fields).toHaveProperty("reason");
@@ -184,7 +184,7 @@ describe("maintenance of a device or a site", () => {
     expect(shelved).toMatchObject({ state: "shelved", shelve_reason: "replacing the sensor bracket" });
     expect(await sql(`SELECT actor_label FROM audit_log WHERE action = 'device.maintenance' AND entity_id = $1`, [f.device.id])).toEqual([{ actor_label: "operator@halftrip.test" }]);
 
-    await sleep(4_500);
+    await sleep(10_500);
     await runWorkerOnce();
     expect((await levelAlarm(f.tank.id, "h")).state).toBe("unacknowledged");
   }, 120_000);
@@ -215,12 +215,12 @@ describe("maintenance of a device or a site", () => {
     const f = await fleetWithAlarms();
     await f.live(varied(2.2, 12));
     await runWorkerOnce();
-    const body = { mode: "out_of_service", reason: "tank cleaning by contractor", until: new Date(Date.now() + 4_000).toISOString() };
+    const body = { mode: "out_of_service", reason: "tank cleaning by contractor", until: new Date(Date.now() + 10_000).toISOString() };
     await operator.post(`/api/sites/${f.site.id}/maintenance`).send(body).expect(403);
     const started = await admin.post(`/api/sites/${f.site.id}/maintenance`).send(body).expect(201);
     expect(started.body).toMatchObject({ scope: "site", mode: "out_of_service" });
     expect((await levelAlarm(f.tank.id, "h")).state).toBe("out_of_service");
-    await sleep(4_500);
+    await sleep(10_500);
     await runWorkerOnce();
     const back = await levelAlarm(f.tank.id, "h");
     expect(back.state).toBe("unacknowledged");
