@@ -11,7 +11,9 @@ import type { AssetJson } from "@/lib/services/assets";
 import type { SiteJson } from "@/lib/services/sites";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { ASSET_KINDS } from "@/lib/validations/asset";
-import { formatLitres, formatMetres } from "@/components/fleet/fleet-figures";
+import { useFigures, useQuantityInput } from "@/components/ui/display-settings";
+import { QuantityField } from "@/components/ui/quantity-field";
+import type { QuantityInput } from "@/lib/units/quantity-input";
 import {
   errorReader,
   isUnder,
@@ -37,14 +39,14 @@ type Values = Record<
   string
 >;
 
-function initialValues(asset: AssetJson | undefined, siteId: string): Values {
+function initialValues(asset: AssetJson | undefined, siteId: string, qi: QuantityInput): Values {
   const g = (asset?.geometry ?? {}) as Partial<Record<string, unknown>> & { points?: StrappingPoint[] };
-  const t = (key: string) => textOf(g[key] as number | undefined);
+  const t = (key: string) => qi.text(g[key] as number | undefined, "length");
   return {
     site_id: asset?.site_id ?? siteId,
     kind: asset?.kind ?? "tank",
     name: asset?.name ?? "",
-    mount_height_m: textOf(asset?.mount_height_m),
+    mount_height_m: qi.text(asset?.mount_height_m, "length"),
     safe_fill_pct: textOf(asset?.safe_fill_pct),
     reorder_pct: textOf(asset?.reorder_pct),
     shape: (g.shape as string) ?? "vertical_cylinder",
@@ -57,8 +59,8 @@ function initialValues(asset: AssetJson | undefined, siteId: string): Values {
     heads: (g.heads as string) ?? "flat",
     head_depth_m: t("head_depth_m"),
     points: (g.points ?? []).map((p) => `${p.level_m},${p.volume_l}`).join("\n"),
-    floor_distance_m: textOf(asset?.floor_distance_m),
-    occupied_below_m: textOf(asset?.occupied_below_m),
+    floor_distance_m: qi.text(asset?.floor_distance_m, "length"),
+    occupied_below_m: qi.text(asset?.occupied_below_m, "length"),
     bay_level: asset?.bay_level ?? "",
     bay_row: textOf(asset?.bay_row),
     bay_col: textOf(asset?.bay_col),
@@ -82,8 +84,8 @@ function parseStrapping(text: string): { points: StrappingPoint[]; error?: strin
   return { points };
 }
 
-function geometryOf(v: Values): unknown {
-  const n = (key: keyof Values) => numberOrNull(v[key]);
+function geometryOf(v: Values, qi: QuantityInput): unknown {
+  const n = (key: keyof Values) => qi.read(v[key], "length");
   switch (v.shape) {
     case "vertical_cylinder":
       return { shape: v.shape, diameter_m: n("diameter_m"), height_m: n("height_m"), bottom: v.bottom, bottom_depth_m: v.bottom === "flat" ? 0 : (n("bottom_depth_m") ?? undefined) };
@@ -110,18 +112,19 @@ function capacityFormula(g: TankGeometry): string {
   }
 }
 
-function payloadOf(v: Values, creating: boolean): Record<string, unknown> {
+function payloadOf(v: Values, creating: boolean, qi: QuantityInput): Record<string, unknown> {
   const n = (key: keyof Values) => numberOrNull(v[key]);
+  const len = (key: keyof Values) => qi.read(v[key], "length");
   const fixed = creating ? { site_id: v.site_id, kind: v.kind } : {};
-  if (v.kind === "tank") return { ...fixed, name: v.name, mount_height_m: n("mount_height_m"), safe_fill_pct: n("safe_fill_pct"), reorder_pct: n("reorder_pct"), geometry: geometryOf(v) };
+  if (v.kind === "tank") return { ...fixed, name: v.name, mount_height_m: len("mount_height_m"), safe_fill_pct: n("safe_fill_pct"), reorder_pct: n("reorder_pct"), geometry: geometryOf(v, qi) };
   if (v.kind === "bay") {
-    return { ...fixed, name: v.name, floor_distance_m: n("floor_distance_m"), occupied_below_m: n("occupied_below_m"), bay_level: v.bay_level.trim() || null, bay_row: n("bay_row"), bay_col: n("bay_col") };
+    return { ...fixed, name: v.name, floor_distance_m: len("floor_distance_m"), occupied_below_m: len("occupied_below_m"), bay_level: v.bay_level.trim() || null, bay_row: n("bay_row"), bay_col: n("bay_col") };
   }
   return { ...fixed, name: v.name };
 }
 
-function validate(v: Values, creating: boolean): { data?: Record<string, unknown>; errors: FieldErrors } {
-  const payload = payloadOf(v, creating);
+function validate(v: Values, creating: boolean, qi: QuantityInput): { data?: Record<string, unknown>; errors: FieldErrors } {
+  const payload = payloadOf(v, creating, qi);
   const parsed = creating ? createAssetSchema.safeParse(payload) : updateAssetSchema.safeParse(payload);
   const errors: FieldErrors = parsed.success ? {} : fieldErrors(parsed.error);
   if (parsed.success && !creating) for (const issue of assetConsistencyIssues({ kind: v.kind, ...parsed.data })) errors[issue.path] ??= issue.message;
@@ -131,8 +134,9 @@ function validate(v: Values, creating: boolean): { data?: Record<string, unknown
   return Object.keys(errors).length || !parsed.success ? { errors } : { data: parsed.data, errors };
 }
 
-function LiveCapacity({ values }: { values: Values }) {
-  const parsed = geometrySchema.safeParse(geometryOf(values));
+function LiveCapacity({ values, qi }: { values: Values; qi: QuantityInput }) {
+  const fig = useFigures();
+  const parsed = geometrySchema.safeParse(geometryOf(values, qi));
   const safeFill = numberOrNull(values.safe_fill_pct);
   return (
     <div className="rounded border border-rule bg-paper p-3 sm:col-span-2" aria-live="polite" data-testid="live-capacity">
@@ -140,12 +144,12 @@ function LiveCapacity({ values }: { values: Values }) {
         <>
           <p>
             <span className="font-bold">Capacity </span>
-            <span className="figures text-lg">{formatLitres(tankCapacity(parsed.data))}</span>
+            <span className="figures text-lg">{fig.volume(tankCapacity(parsed.data))}</span>
             <span className="text-sm text-muted"> — computed: {capacityFormula(parsed.data)}</span>
           </p>
           <p className="text-sm">
-            Total height <span className="figures">{formatMetres(tankHeight(parsed.data))}</span>
-            {safeFill != null && Number.isFinite(safeFill) && <> · safe fill {safeFill} % is <span className="figures">{formatLitres((tankCapacity(parsed.data) * safeFill) / 100)}</span></>}
+            Total height <span className="figures">{fig.length(tankHeight(parsed.data))}</span>
+            {safeFill != null && Number.isFinite(safeFill) && <> · safe fill {safeFill} % is <span className="figures">{fig.volume((tankCapacity(parsed.data) * safeFill) / 100)}</span></>}
           </p>
         </>
       ) : (
@@ -160,7 +164,8 @@ export function AssetForm({ asset, siteId = "" }: { asset?: AssetJson; siteId?: 
   const router = useRouter();
   const { mutate } = useSWRConfig();
   const creating = !asset;
-  const [values, setValues] = useState<Values>(() => initialValues(asset, siteId));
+  const qi = useQuantityInput();
+  const [values, setValues] = useState<Values>(() => initialValues(asset, siteId, qi));
   const [errors, setErrors] = useState<FieldErrors>({});
   const [busy, setBusy] = useState(false);
   const sites = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
@@ -170,11 +175,14 @@ export function AssetForm({ asset, siteId = "" }: { asset?: AssetJson; siteId?: 
   const num = (key: keyof Values, label: string, unit: string, errorKey: string = key, hint?: string, step?: number) => (
     <NumberField id={id(key)} label={label} unit={unit} value={values[key]} onChange={set(key)} error={read(errorKey)} hint={hint} step={step} />
   );
-  const g = (key: keyof Values, label: string, hint?: string) => num(key, label, "m", `geometry.${key}`, hint);
+  const length = (key: keyof Values, label: string, errorKey: string = key, hint?: string) => (
+    <QuantityField id={id(key)} label={label} input={qi} quantity="length" value={values[key]} onChange={set(key)} error={read(errorKey)} hint={hint} />
+  );
+  const g = (key: keyof Values, label: string, hint?: string) => length(key, label, `geometry.${key}`, hint);
 
   async function onSubmit(event: React.FormEvent) {
     event.preventDefault();
-    const { data, errors: found } = validate(values, creating);
+    const { data, errors: found } = validate(values, creating, qi);
     if (!data) return setErrors(found);
     setErrors({});
     setBusy(true);
@@ -249,8 +257,8 @@ export function AssetForm({ asset, siteId = "" }: { asset?: AssetJson; siteId?: 
               className="sm:col-span-2"
             />
           )}
-          <LiveCapacity values={values} />
-          {num("mount_height_m", "Sensor mounting height", "m", "mount_height_m", "The sensor face above the tank bottom.")}
+          <LiveCapacity values={values} qi={qi} />
+          {length("mount_height_m", "Sensor mounting height", "mount_height_m", "The sensor face above the tank bottom.")}
           <div className="hidden sm:block" />
           {num("safe_fill_pct", "Safe fill", "%")}
           {num("reorder_pct", "Reorder level", "%")}
@@ -265,8 +273,8 @@ export function AssetForm({ asset, siteId = "" }: { asset?: AssetJson; siteId?: 
       {values.kind === "bay" && (
         <fieldset className="grid gap-4 sm:col-span-2 sm:grid-cols-2">
           <legend className="mb-2 text-lg font-bold">Bay</legend>
-          {num("floor_distance_m", "Floor distance", "m", "floor_distance_m", "From the sensor face to the empty floor.")}
-          {num("occupied_below_m", "Occupied below", "m", "occupied_below_m", "A distance nearer than this counts as a car.")}
+          {length("floor_distance_m", "Floor distance", "floor_distance_m", "From the sensor face to the empty floor.")}
+          {length("occupied_below_m", "Occupied below", "occupied_below_m", "A distance nearer than this counts as a car.")}
           <InputField id={id("bay_level")} label="Level name" value={values.bay_level} onChange={set("bay_level")} error={read("bay_level")} hint="Such as P1 or Roof." className="sm:col-span-2" />
           {num("bay_row", "Row", "", "bay_row", undefined, 1)}
           {num("bay_col", "Column", "", "bay_col", undefined, 1)}

@@ -1,6 +1,7 @@
 import type { AssetOverviewJson } from "@/lib/read-models/overview-asset";
 import { isAlarmKind, isLevelAlarmKind } from "@/lib/alarms/engine";
-import { formatDuration, formatMetres } from "@/components/fleet/fleet-figures";
+import { formatDuration } from "@/components/fleet/fleet-figures";
+import { useFigures } from "@/components/ui/display-settings";
 import { FlagTag } from "@/components/fleet/fleet-status";
 import { PriorityBadge } from "@/components/ui/priority-badge";
 import { alarmStateWord } from "@/lib/alarms/vocabulary";
@@ -14,6 +15,7 @@ import { SiteTime } from "@/components/ui/site-time";
 const isLevel = (kind: string) => isAlarmKind(kind) && isLevelAlarmKind(kind);
 
 export function AlarmHistory({ events, zone }: { events: AssetOverviewJson["alarm_history"]; zone: string }) {
+  const fig = useFigures();
   if (!events.length) return <p className="px-3 py-4 text-sm text-muted">No alarm has changed state on this asset yet.</p>;
   return (
     <table className={STACKED_TABLE}>
@@ -38,8 +40,8 @@ export function AlarmHistory({ events, zone }: { events: AssetOverviewJson["alar
               {e.comment && <span className="block text-xs text-muted">“{e.comment}”</span>}
             </td>
             <td data-label="Value" className="figures">
-              {e.value != null && isLevel(e.alarm_kind) ? formatMetres(e.value) : "—"}
-              {e.setpoint != null && isLevel(e.alarm_kind) && <span className="text-muted"> / {formatMetres(e.setpoint)}</span>}
+              {e.value != null && isLevel(e.alarm_kind) ? fig.length(e.value) : "—"}
+              {e.setpoint != null && isLevel(e.alarm_kind) && <span className="text-muted"> / {fig.length(e.setpoint)}</span>}
             </td>
             <td data-label="By">{e.actor_label ?? <span className="text-muted">{e.cause}</span>}</td>
           </tr>
@@ -81,6 +83,7 @@ export function FlagHistory({ flags, now, zone }: { flags: AssetOverviewJson["fl
 }
 
 export function DipList({ dips, zone }: { dips: AssetOverviewJson["dips"]; zone: string }) {
+  const fig = useFigures();
   if (!dips.length) return <p className="px-3 py-4 text-sm text-muted">No manual dip in this period.</p>;
   return (
     <table className={STACKED_TABLE}>
@@ -97,8 +100,8 @@ export function DipList({ dips, zone }: { dips: AssetOverviewJson["dips"]; zone:
         {dips.map((d) => (
           <tr key={d.id}>
             <td data-label="When" className="figures whitespace-nowrap"><SiteTime at={d.at} zone={zone} /></td>
-            <td data-label="Dipped level" className="figures">{formatMetres(d.level_m)}</td>
-            <td data-label="Sensor then" className="figures">{formatMetres(d.measured_level_m)}</td>
+            <td data-label="Dipped level" className="figures">{fig.length(d.level_m)}</td>
+            <td data-label="Sensor then" className="figures">{fig.length(d.measured_level_m)}</td>
             <td data-label="Sensor − dip" className="figures">{d.residual_m != null ? `${(d.residual_m * 1000).toFixed(1)}\u00a0mm` : "—"}</td>
             <td data-label="By">{d.by_name ?? "—"}{d.note && <span className="block text-xs text-muted">{d.note}</span>}</td>
           </tr>
@@ -109,6 +112,7 @@ export function DipList({ dips, zone }: { dips: AssetOverviewJson["dips"]; zone:
 }
 
 export function CalibrationList({ changes, zone }: { changes: AssetOverviewJson["calibrations"]; zone: string }) {
+  const fig = useFigures();
   if (!changes.length) return <p className="px-3 py-4 text-sm text-muted">No calibration change in this period.</p>;
   return (
     <table className={STACKED_TABLE}>
@@ -125,7 +129,7 @@ export function CalibrationList({ changes, zone }: { changes: AssetOverviewJson[
         {changes.map((c) => (
           <tr key={c.id}>
             <td data-label="When" className="figures whitespace-nowrap"><SiteTime at={c.at} zone={zone} /></td>
-            <td data-label="Offset" className="figures">{formatMetres(c.before_offset_m)} → {formatMetres(c.after_offset_m)}</td>
+            <td data-label="Offset" className="figures">{fig.length(c.before_offset_m)} → {fig.length(c.after_offset_m)}</td>
             <td data-label="Scale" className="figures">{c.before_scale.toFixed(5)} → {c.after_scale.toFixed(5)}</td>
             <td data-label="Residual after (RMS)" className="figures">{(c.rms_after_m * 1000).toFixed(1)}{"\u00a0"}mm</td>
             <td data-label="By">{c.by_label}{c.note && <span className="block text-xs text-muted">{c.note}</span>}</td>

@@ -1,7 +1,7 @@
 "use client";
 
 import type { DipJson } from "@/lib/services/dips";
-import { formatMetres } from "@/components/fleet/fleet-figures";
+import { useFigures } from "@/components/ui/display-settings";
 import { createColumnHelper } from "@tanstack/react-table";
 import { SiteTime, useTimeDisplay } from "@/components/ui/site-time";
 import { formatDateTime } from "@/lib/format/time";
@@ -22,6 +22,7 @@ const column = createColumnHelper<DipJson>();
 /** Dips with the sensor's level at their time; a checkbox per dip chooses it for a calibration. */
 export function DipTable({ dips, selected, onToggle, selectable, zone }: { dips: DipJson[]; selected: ReadonlySet<string>; onToggle: (id: string) => void; selectable: boolean; zone: string }) {
   const time = useTimeDisplay(zone);
+  const fig = useFigures();
   const columns = [
     ...(selectable
       ? [
@@ -35,19 +36,19 @@ export function DipTable({ dips, selected, onToggle, selectable, zone }: { dips:
                 checked={selected.has(d.id)}
                 disabled={d.sensor === null}
                 onChange={() => onToggle(d.id)}
-                aria-label={`Use the dip of ${formatDateTime(d.at, time)} (${d.level_m.toFixed(3)} m)`}
+                aria-label={`Use the dip of ${formatDateTime(d.at, time)} (${fig.length(d.level_m)})`}
               />
             ),
           }),
         ]
       : []),
     column.accessor((d) => new Date(d.at).getTime(), { id: "time", header: "Time", cell: (c) => <SiteTime at={c.row.original.at} zone={zone} />, meta: { cellClassName: "figures" } }),
-    column.accessor("level_m", { header: "Dipped level", cell: (c) => formatMetres(c.getValue()), meta: { cellClassName: "figures" } }),
+    column.accessor("level_m", { header: "Dipped level", cell: (c) => fig.length(c.getValue()), meta: { cellClassName: "figures" } }),
     column.accessor((d) => d.sensor?.level_m ?? null, {
       id: "sensor",
       header: "Sensor level then",
       sortUndefined: "last",
-      cell: (c) => (c.row.original.sensor ? formatMetres(c.row.original.sensor.level_m) : <span className="font-sans text-muted">no reading within an hour</span>),
+      cell: (c) => (c.row.original.sensor ? fig.length(c.row.original.sensor.level_m) : <span className="font-sans text-muted">no reading within an hour</span>),
       meta: { cellClassName: "figures" },
     }),
     column.accessor("difference_m", { header: "Sensor − dip", cell: (c) => formatSignedMm(c.getValue()), meta: { cellClassName: "figures" } }),

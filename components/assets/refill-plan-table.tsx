@@ -7,7 +7,8 @@ import { swrFetcher } from "@/lib/fetcher";
 import type { RefillPlanJson } from "@/lib/read-models/refill-plan";
 import { MAX_HORIZON_DAYS } from "@/lib/validations/export";
 import { createColumnHelper } from "@tanstack/react-table";
-import { formatAge, formatDaysToReorder, formatLitres, formatPercent } from "@/components/fleet/fleet-figures";
+import { formatAge, formatDaysToReorder } from "@/components/fleet/fleet-figures";
+import { Figure } from "@/components/ui/display-settings";
 import { SiteTime } from "@/components/ui/site-time";
 import { DataTable } from "@/components/ui/data-table";
 
@@ -35,15 +36,15 @@ const columns = [
   column.accessor((r) => new Date(r.due_at).getTime(), { id: "due", header: "Due", cell: (c) => <span className={c.row.original.reason === "below_reorder" ? "font-bold" : undefined}><DueText row={c.row.original} /></span> }),
   column.accessor("asset_name", { header: "Tank", cell: (c) => <Link href={`/assets/${c.row.original.asset_id}`} className="underline">{c.getValue()}</Link> }),
   column.accessor("site_name", { header: "Site" }),
-  column.accessor("fill_pct", { header: "Fill now", cell: (c) => formatPercent(c.getValue()), meta: { cellClassName: "figures" } }),
-  column.accessor("current_volume_l", { header: "Volume now", cell: (c) => formatLitres(c.getValue()), meta: { cellClassName: "figures" } }),
+  column.accessor("fill_pct", { header: "Fill now", cell: (c) => <Figure kind="percent" value={c.getValue()} />, meta: { cellClassName: "figures" } }),
+  column.accessor("current_volume_l", { header: "Volume now", cell: (c) => <Figure kind="volume" value={c.getValue()} />, meta: { cellClassName: "figures" } }),
   column.accessor("deliver_l", {
     header: "Deliver to safe fill",
     meta: { cellClassName: "figures" },
     cell: ({ row: { original: r } }) => (
       <>
-        {r.deliver_l === null ? <span className="font-sans text-muted">{r.safe_fill_pct === null ? "no safe fill set" : "no volume yet"}</span> : formatLitres(r.deliver_l)}
-        {r.safe_fill_pct !== null && <span className="font-sans text-xs text-muted"> to {formatPercent(r.safe_fill_pct)}</span>}
+        {r.deliver_l === null ? <span className="font-sans text-muted">{r.safe_fill_pct === null ? "no safe fill set" : "no volume yet"}</span> : <Figure kind="volume" value={r.deliver_l} />}
+        {r.safe_fill_pct !== null && <span className="font-sans text-xs text-muted"> to <Figure kind="percent" value={r.safe_fill_pct} /></span>}
       </>
     ),
   }),

@@ -8,11 +8,12 @@ import { isUuid } from "@/lib/validations/common";
 import type { AssetJson } from "@/lib/services/assets";
 import type { SiteJson } from "@/lib/services/sites";
 import { Loading, LoadError } from "@/components/ui/data-state";
-import { formatMetres } from "@/components/fleet/fleet-figures";
+import { useFigures } from "@/components/ui/display-settings";
 import { STACKED_TABLE } from "@/components/ui/form-fields";
 
 /** The tanks a technician can dip and calibrate, filtered by site (kept in the URL). */
 export function CalibrationTankList() {
+  const fig = useFigures();
   const router = useRouter();
   const pathname = usePathname();
   const params = useSearchParams();
@@ -56,8 +57,8 @@ export function CalibrationTankList() {
                     <Link href={`/calibration/${a.id}`} className="font-bold underline">{a.name}</Link>
                   </td>
                   <td data-label="Site">{siteName(a.site_id)}</td>
-                  <td data-label="Sensor height" className="figures">{formatMetres(a.mount_height_m)}</td>
-                  <td data-label="Tank height" className="figures">{formatMetres(a.tank_height_m)}</td>
+                  <td data-label="Sensor height" className="figures">{fig.length(a.mount_height_m)}</td>
+                  <td data-label="Tank height" className="figures">{fig.length(a.tank_height_m)}</td>
                 </tr>
               ))}
             </tbody>

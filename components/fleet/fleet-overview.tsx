@@ -5,7 +5,8 @@ import useSWR from "swr";
 import type { FleetOverviewJson } from "@/lib/read-models/overview";
 import { swrFetcher } from "@/lib/fetcher";
 import { Loading, LoadError } from "@/components/ui/data-state";
-import { formatDaysToReorder, formatLitres, formatMetres, formatPercent } from "@/components/fleet/fleet-figures";
+import { formatDaysToReorder } from "@/components/fleet/fleet-figures";
+import { useFigures } from "@/components/ui/display-settings";
 import { AlarmCounts, FlagTag, OverdueAge, PRIORITIES, TankCaution } from "@/components/fleet/fleet-status";
 import { SiteTime } from "@/components/ui/site-time";
 import { STACKED_TABLE } from "@/components/ui/form-fields";
@@ -36,6 +37,7 @@ function FillBar({ pct }: { pct: number | null }) {
 }
 
 function TankLine({ tank, now }: { tank: TankSummary; now: number }) {
+  const fig = useFigures();
   return (
     <tr>
       <td data-label="Tank">
@@ -43,11 +45,11 @@ function TankLine({ tank, now }: { tank: TankSummary; now: number }) {
         {tank.flags.length > 0 && <span className="ml-2 inline-flex gap-1">{[...new Set(tank.flags)].map((f) => <FlagTag key={f} flag={f} />)}</span>}
       </td>
       <td data-label="Fill" className="figures whitespace-nowrap">
-        <FillBar pct={tank.fill_pct} /> {formatPercent(tank.fill_pct)}
+        <FillBar pct={tank.fill_pct} /> {fig.percent(tank.fill_pct)}
       </td>
-      <td data-label="Volume" className="figures whitespace-nowrap">{formatLitres(tank.volume_l)}</td>
+      <td data-label="Volume" className="figures whitespace-nowrap">{fig.volume(tank.volume_l)}</td>
       <td data-label="Level" className="figures whitespace-nowrap">
-        {formatMetres(tank.level_m, tank.uncertainty_m)}
+        {fig.length(tank.level_m, tank.uncertainty_m)}
         <OverdueAge at={tank.at} expectedIntervalS={tank.expected_interval_s} now={now} />
       </td>
       <td data-label="Reorder" className={`whitespace-nowrap ${tank.days_to_reorder === 0 ? "font-bold" : ""}`}>{tank.forecast_at ? formatDaysToReorder(tank.days_to_reorder) : <span className="text-muted">no forecast yet</span>}</td>

@@ -7,7 +7,7 @@ import { swrFetcher } from "@/lib/fetcher";
 import { BayPlan } from "@/components/sites/bay-plan";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { FleetAlarmList } from "@/components/alarms/fleet-alarm-list";
-import { formatMetres } from "@/components/fleet/fleet-figures";
+import { useFigures } from "@/components/ui/display-settings";
 import { LIVE_REFRESH_MS } from "@/components/fleet/fleet-overview";
 import { FlagTag, OverdueAge, TankCaution } from "@/components/fleet/fleet-status";
 import { STACKED_TABLE } from "@/components/ui/form-fields";
@@ -18,6 +18,7 @@ import { TankCard } from "@/components/sites/site-live-tank";
 // bays, points), with each asset linking to its trend. Refreshed every 10 seconds.
 
 export function SiteLive({ siteId, canAcknowledge }: { siteId: string; canAcknowledge: boolean }) {
+  const fig = useFigures();
   const { data, error, isLoading, mutate } = useSWR<SiteOverviewJson>(`/api/sites/${siteId}/overview`, swrFetcher, { refreshInterval: LIVE_REFRESH_MS });
   if (isLoading) return <Loading label="Loading the site…" />;
   if (error && !data) return <LoadError error={error} retry={() => mutate()} />;
@@ -77,10 +78,10 @@ export function SiteLive({ siteId, canAcknowledge }: { siteId: string; canAcknow
                 <tr key={p.id}>
                   <td data-label="Point"><Link href={`/assets/${p.id}`} className="font-bold underline">{p.name}</Link></td>
                   <td data-label="Distance" className="figures">
-                    {formatMetres(p.latest?.distance_m, p.latest?.uncertainty_m)}
+                    {fig.length(p.latest?.distance_m, p.latest?.uncertainty_m)}
                     <OverdueAge at={p.latest?.at} expectedIntervalS={p.channel?.expected_interval_s} now={now} />
                   </td>
-                  <td data-label="Last 24 h" className="figures">{p.day.range ? `${formatMetres(p.day.range[0])} to ${formatMetres(p.day.range[1])}` : "—"}</td>
+                  <td data-label="Last 24 h" className="figures">{p.day.range ? `${fig.length(p.day.range[0])} to ${fig.length(p.day.range[1])}` : "—"}</td>
                   <td data-label="Sensor">{p.flags.length ? [...new Set(p.flags.map((f) => f.flag))].map((f) => <FlagTag key={f} flag={f} />) : <span className="text-muted">no fault</span>}</td>
                 </tr>
               ))}
