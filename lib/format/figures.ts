@@ -31,10 +31,13 @@ export interface Figures {
   levelUnit: LengthUnit;
   levelSymbol: string;
   levelFromSi(m: number): number;
+  /** The scale an air temperature is shown in, its symbol, and a temperature in it. */
+  temperatureSymbol: string;
+  temperatureFromSi(celsius: number): number;
 }
 
 export function figuresFor(o: FigureOptions): Figures {
-  const levelUnit = DISPLAY_UNITS[o.system].level;
+  const { level: levelUnit, temperature: temperatureUnit } = DISPLAY_UNITS[o.system];
   const plain = (unit: string, decimals: number) => (x: number | null | undefined) => (x == null || !Number.isFinite(x) ? "—" : `${formatNumber(x, decimals, o.locale)}${NBSP}${unit}`);
   return {
     options: o,
@@ -53,5 +56,7 @@ export function figuresFor(o: FigureOptions): Figures {
     levelUnit,
     levelSymbol: UNIT_SYMBOLS[levelUnit],
     levelFromSi: (m) => fromSi(m, levelUnit),
+    temperatureSymbol: UNIT_SYMBOLS[temperatureUnit],
+    temperatureFromSi: (c) => fromSi(c, temperatureUnit),
   };
 }
