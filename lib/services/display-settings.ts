@@ -1,6 +1,7 @@
 // Display settings: the one place that resolves what a person reads figures and times in (pages,
 // e-mails, exports), and the audited changes to the organisation's settings and a user's own.
 
+import type { Transaction } from "sequelize";
 import { getSequelize } from "../db/sequelize";
 import { Organisation, User } from "../db/models";
 import { sqlRows } from "../db/sql";
@@ -50,9 +51,9 @@ export async function requestDisplaySettings(user: { organisationId: string; id:
 }
 
 /** Effective settings of several users at once (e-mail recipients), by user id. */
-export async function effectiveDisplaySettingsOfUsers(userIds: readonly string[]): Promise<Map<string, DisplaySettings>> {
+export async function effectiveDisplaySettingsOfUsers(userIds: readonly string[], transaction?: Transaction): Promise<Map<string, DisplaySettings>> {
   if (userIds.length === 0) return new Map();
-  const rows = await sqlRows<SettingsRow>(`${SETTINGS_OF_USERS} WHERE u.id = ANY($1::uuid[])`, [[...new Set(userIds)]]);
+  const rows = await sqlRows<SettingsRow>(`${SETTINGS_OF_USERS} WHERE u.id = ANY($1::uuid[])`, [[...new Set(userIds)]], { transaction });
   return new Map(rows.map((r) => [r.user_id, viewOf(r).effective]));
 }
 
