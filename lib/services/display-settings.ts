@@ -6,6 +6,8 @@ import { getSequelize } from "../db/sequelize";
 import { Organisation, User } from "../db/models";
 import { sqlRows } from "../db/sql";
 import { notFound } from "../errors";
+import { exportUnitsFor, type ExportUnits } from "../format/export-units";
+import type { UnitSystem } from "../units/units";
 import { resolveDisplaySettings, type DisplayOverrides, type DisplaySettings } from "../format/display";
 import type { DisplayPreferencesInput, OrganisationDisplaySettingsInput } from "../validations/display-settings";
 import { writeAudit, type Actor } from "./audit";
@@ -48,6 +50,11 @@ export async function displaySettingsOf(organisationId: string, userId: string):
 /** The settings a signed-in person reads this request's pages, exports and answers in. */
 export async function requestDisplaySettings(user: { organisationId: string; id: string }): Promise<DisplaySettings> {
   return (await displaySettingsOf(user.organisationId, user.id)).effective;
+}
+
+/** The unit system an export is written in: the one asked for, else the person's own. */
+export async function exportUnitsOf(user: { organisationId: string; id: string }, asked: UnitSystem | undefined): Promise<ExportUnits> {
+  return exportUnitsFor(asked ?? (await requestDisplaySettings(user)).unit_system);
 }
 
 /** Effective settings of several users at once (e-mail recipients), by user id. */
