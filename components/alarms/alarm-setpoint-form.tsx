@@ -10,6 +10,9 @@ import type { SetpointsJson } from "@/lib/services/alarm-setpoints";
 import { putSetpointsSchema } from "@/lib/validations/setpoint";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { errorReader, errorsFromApi, FormAlert, NumberField, SelectField, numberOrNull, textOf, type FieldErrors } from "@/components/ui/form-fields";
+import { useFigures, useQuantityInput } from "@/components/ui/display-settings";
+import { QuantityField } from "@/components/ui/quantity-field";
+import type { QuantityInput } from "@/lib/units/quantity-input";
 
 const LABELS: Record<SetpointKey, string> = { hh: "HH", h: "H", l: "L", ll: "LL" };
 // Highest first, as the sounding strip shows them.
@@ -39,7 +42,9 @@ function modeOf(s: { enabled: boolean } | null): Mode {
   return s === null ? "off" : s.enabled ? "on" : "silent";
 }
 
-function initial(d: SetpointsJson, unit: "m" | "pct"): Values {
+// Levels, deadbands and the leak limit are typed in the person's length unit (m or ft; "98 in" is read
+// too) and sent in metres; a fill stays a percentage.
+function initial(d: SetpointsJson, unit: "m" | "pct", qi: QuantityInput): Values {
   const rows = Object.fromEntries(
     SETPOINT_KEYS.map((key) => {
       const s = d.setpoints[key];
@@ -48,8 +53,8 @@ function initial(d: SetpointsJson, unit: "m" | "pct"): Values {
         key,
         {
           mode: modeOf(s),
-          value: value === null ? "" : String(Number(value.toFixed(unit === "pct" ? 1 : 3))),
-          deadband_m: textOf(s?.deadband_m ?? Number(d.defaults.deadband_m.toFixed(3))),
+          value: value === null ? "" : unit === "pct" ? String(Number(value.toFixed(1))) : qi.text(value, "length"),
+          deadband_m: qi.text(s?.deadband_m ?? d.defaults.deadband_m, "length"),
           on_delay_s: textOf(s?.on_delay_s ?? d.defaults.on_delay_s),
           priority: s?.priority ?? d.defaults.priorities[key],
           latching: s?.latching ?? false,
@@ -61,21 +66,21 @@ function initial(d: SetpointsJson, unit: "m" | "pct"): Values {
   return {
     unit,
     rows,
-    roc: { mode: modeOf(r), limit: textOf(r?.limit_m_per_h), priority: r?.priority ?? d.defaults.priorities.rate_of_change },
+    roc: { mode: modeOf(r), limit: qi.text(r?.limit_m_per_h, "length"), priority: r?.priority ?? d.defaults.priorities.rate_of_change },
   };
 }
 
-function payloadOf(v: Values) {
+function payloadOf(v: Values, qi: QuantityInput) {
   const setpoints = Object.fromEntries(
     SETPOINT_KEYS.filter((k) => v.rows[k].mode !== "off").map((k) => {
       const r = v.rows[k];
-      return [k, { value: numberOrNull(r.value), deadband_m: numberOrNull(r.deadband_m) ?? undefined, on_delay_s: numberOrNull(r.on_delay_s) ?? undefined, priority: r.priority, enabled: r.mode === "on", latching: r.latching }];
+      return [k, { value: v.unit === "m" ? qi.read(r.value, "length") : numberOrNull(r.value), deadband_m: qi.read(r.deadband_m, "length") ?? undefined, on_delay_s: numberOrNull(r.on_delay_s) ?? undefined, priority: r.priority, enabled: r.mode === "on", latching: r.latching }];
     }),
   );
   return {
     unit: v.unit,
     setpoints,
-    rate_of_change: v.roc.mode !== "off" ? { limit_m_per_h: numberOrNull(v.roc.limit), priority: v.roc.priority, enabled: v.roc.mode === "on" } : null,
+    rate_of_change: v.roc.mode !== "off" ? { limit_m_per_h: qi.read(v.roc.limit, "length"), priority: v.roc.priority, enabled: v.roc.mode === "on" } : null,
   };
 }
 
@@ -107,17 +112,18 @@ export function AlarmSetpointForm({ assetId, editable }: { assetId: string; edit
 }
 
 function SetpointFields({ data, editable, saved, setSaved, onSaved }: { data: SetpointsJson; editable: boolean; saved: boolean; setSaved: (v: boolean) => void; onSaved: (d: SetpointsJson) => void }) {
-  const [values, setValues] = useState<Values>(() => initial(data, "m"));
+  const qi = useQuantityInput();
+  const fig = useFigures();
+  const [values, setValues] = useState<Values>(() => initial(data, "m", qi));
   const [errors, setErrors] = useState<FieldErrors>({});
   const [busy, setBusy] = useState(false);
   const { read, rest } = errorReader(errors);
   const setRow = (key: SetpointKey, patch: Partial<Row>) => setValues((v) => ({ ...v, rows: { ...v.rows, [key]: { ...v.rows[key], ...patch } } }));
-  const unitWord = values.unit === "m" ? "m" : "% fill";
 
   async function onSubmit(event: React.FormEvent) {
     event.preventDefault();
     setSaved(false);
-    const parsed = putSetpointsSchema.safeParse(payloadOf(values));
+    const parsed = putSetpointsSchema.safeParse(payloadOf(values, qi));
     if (!parsed.success) return setErrors(fieldErrors(parsed.error));
     setErrors({});
     setBusy(true);
@@ -134,15 +140,15 @@ function SetpointFields({ data, editable, saved, setSaved, onSaved }: { data: Se
   return (
     <form onSubmit={onSubmit} noValidate className="card space-y-4 p-4">
       <p className="text-sm text-muted">
-        Tank height <span className="figures">{data.tank_height_m.toFixed(3)} m</span>, capacity <span className="figures">{Math.round(data.capacity_l).toLocaleString("en-GB").replace(/,/g, " ")} L</span>.
+        Tank height <span className="figures">{fig.length(data.tank_height_m)}</span>, capacity <span className="figures">{fig.volume(data.capacity_l)}</span>.
         Levels are measured from the tank bottom; the order must be LL &lt; L &lt; H &lt; HH.
       </p>
       <fieldset className="flex gap-4 text-sm" disabled={!editable}>
         <legend className="label">Enter setpoints as</legend>
         {(["m", "pct"] as const).map((u) => (
           <label key={u} className="flex items-center gap-2">
-            <input type="radio" name="setpoint-unit" value={u} checked={values.unit === u} onChange={() => setValues(initial(data, u))} />
-            {u === "m" ? "level (m)" : "fill (% of capacity)"}
+            <input type="radio" name="setpoint-unit" value={u} checked={values.unit === u} onChange={() => setValues(initial(data, u, qi))} />
+            {u === "m" ? `level (${qi.symbolOf("length")})` : "fill (% of capacity)"}
           </label>
         ))}
       </fieldset>
@@ -156,8 +162,12 @@ function SetpointFields({ data, editable, saved, setSaved, onSaved }: { data: Se
             <div className="hidden sm:col-span-4 sm:block" />
             {r.mode !== "off" && (
               <>
-                <NumberField id={id("value")} label={LABELS[key]} unit={unitWord} value={r.value} onChange={(e) => setRow(key, { value: e.target.value })} error={read(`setpoints.${key}.value`)} />
-                <NumberField id={id("deadband")} label="Deadband" unit="m" value={r.deadband_m} onChange={(e) => setRow(key, { deadband_m: e.target.value })} error={read(`setpoints.${key}.deadband_m`)} />
+                {values.unit === "m" ? (
+                  <QuantityField id={id("value")} label={LABELS[key]} input={qi} quantity="length" value={r.value} onChange={(e) => setRow(key, { value: e.target.value })} error={read(`setpoints.${key}.value`)} />
+                ) : (
+                  <NumberField id={id("value")} label={LABELS[key]} unit="% fill" value={r.value} onChange={(e) => setRow(key, { value: e.target.value })} error={read(`setpoints.${key}.value`)} />
+                )}
+                <QuantityField id={id("deadband")} label="Deadband" input={qi} quantity="length" value={r.deadband_m} onChange={(e) => setRow(key, { deadband_m: e.target.value })} error={read(`setpoints.${key}.deadband_m`)} />
                 <NumberField id={id("delay")} label="On-delay" unit="s" step={1} value={r.on_delay_s} onChange={(e) => setRow(key, { on_delay_s: e.target.value })} error={read(`setpoints.${key}.on_delay_s`)} />
                 <SelectField id={id("priority")} label="Priority" value={r.priority} onChange={(e) => setRow(key, { priority: e.target.value })} error={read(`setpoints.${key}.priority`)}>
                   {ALARM_PRIORITIES.map((p) => <option key={p} value={p}>{p}</option>)}
@@ -176,7 +186,7 @@ function SetpointFields({ data, editable, saved, setSaved, onSaved }: { data: Se
         <div className="hidden sm:col-span-4 sm:block" />
         {values.roc.mode !== "off" && (
           <>
-            <NumberField id="setpoint-roc-limit" label="Limit" unit="m/h" value={values.roc.limit} onChange={(e) => setValues((v) => ({ ...v, roc: { ...v.roc, limit: e.target.value } }))} error={read("rate_of_change.limit_m_per_h")} hint="Judged on the trend of the last hour (at least 30 min of readings)." className="sm:col-span-2" />
+            <NumberField id="setpoint-roc-limit" label="Limit" unit={`${qi.symbolOf("length")}/h`} value={values.roc.limit} onChange={(e) => setValues((v) => ({ ...v, roc: { ...v.roc, limit: e.target.value } }))} error={read("rate_of_change.limit_m_per_h")} hint="Judged on the trend of the last hour (at least 30 min of readings)." className="sm:col-span-2" />
             <SelectField id="setpoint-roc-priority" label="Priority" value={values.roc.priority} onChange={(e) => setValues((v) => ({ ...v, roc: { ...v.roc, priority: e.target.value } }))}>
               {ALARM_PRIORITIES.map((p) => <option key={p} value={p}>{p}</option>)}
             </SelectField>

@@ -10,8 +10,9 @@ import { NumberField } from "@/components/ui/form-fields";
 
 type NumberFieldProps = React.ComponentProps<typeof NumberField>;
 
-export function QuantityField({ input, quantity, fine, error, value, ...props }: Omit<NumberFieldProps, "unit"> & { input: QuantityInput; quantity: Quantity; fine?: boolean; value: string }) {
-  // A value that is not a quantity says why in the person's terms rather than the schema's "not a number".
-  const problem = error ? input.problem(value, quantity, fine) : null;
+export function QuantityField({ input, quantity, fine, error, value, ...props }: Omit<NumberFieldProps, "unit"> & { input: QuantityInput; quantity: Quantity; fine?: boolean; value?: string }) {
+  // A value that is not a quantity says why in the person's terms rather than the schema's "not a number"
+  // (a react-hook-form box, uncontrolled, gets that message from its form's schema instead).
+  const problem = error && value !== undefined ? input.problem(value, quantity, fine) : null;
   return <NumberField unit={input.symbolOf(quantity, fine)} value={value} error={problem ?? error} {...props} />;
 }
