@@ -3,7 +3,7 @@
 // stored: 3 m shows as "9.8425 ft", which would otherwise save as 2.99999 m.
 
 import { formatNumber } from "../format/number";
-import { figureOptionsOf, type DisplaySettings } from "../format/display";
+import { figureOptionsOf, numberLocaleOf, type DisplaySettings } from "../format/display";
 import { parseQuantity } from "./parse";
 import { DISPLAY_UNITS, fromSi, UNIT_SYMBOLS, type Quantity, type Unit } from "./units";
 
@@ -29,7 +29,12 @@ export function quantityInputFor(settings: DisplaySettings): QuantityInput {
   // Texts this box wrote, with the exact value each stands for.
   const shown = new Map<string, number>();
   const key = (text: string, q: Quantity, fine: boolean) => `${q}|${fine}|${text.trim()}`;
-  const parse = (text: string, q: Quantity, fine: boolean) => parseQuantity(text, { quantity: q, locale, unit: unitOf(q, fine) });
+  // A lone "," or "." is the decimal sign whatever the setting (as components/ui/decimal.ts reads plain
+  // numbers): "2,1" typed on a borrowed keyboard is 2.1, never 21; with both signs the setting decides.
+  const parse = (text: string, q: Quantity, fine: boolean) => {
+    const lone = /^[^.,]*[.,][^.,]*$/.test(text) ? (text.includes(",") ? "," : ".") : null;
+    return parseQuantity(text, { quantity: q, locale: lone ? numberLocaleOf(lone) : locale, unit: unitOf(q, fine) });
+  };
   return {
     unitOf,
     symbolOf: (q, fine) => UNIT_SYMBOLS[unitOf(q, fine)],

@@ -124,4 +124,13 @@ describe("number boxes in the person's units", () => {
     expect(qi.read("2,45", "length")).toBe(2.45);
     expect(qi.read("1,5 m", "length")).toBe(1.5);
   });
+  it("reads a lone separator as the decimal sign whatever the setting (as components/ui/decimal.ts does)", () => {
+    const point = quantityInputFor(SI);
+    expect(point.read("2,1", "length")).toBe(2.1);
+    expect(point.read("1,234", "length")).toBe(1.234);
+    expect(point.read("1 500.5", "volume")).toBe(1500.5);
+    const comma = quantityInputFor({ ...SI, decimal_separator: "," });
+    expect(comma.read("2.1", "length")).toBe(2.1);
+    expect(comma.read("1.500,5", "volume")).toBe(1500.5);
+  });
 });
