@@ -34,7 +34,9 @@ export interface ExportUnits {
 }
 
 export function exportUnitsFor(system: UnitSystem): ExportUnits {
-  const u = DISPLAY_UNITS[system];
+  const d = DISPLAY_UNITS[system];
+  // SI files keep their uncertainty in metres (uncertainty_m), as they always had; US files in inches.
+  const u = { ...d, fineLength: system === "si" ? d.level : d.fineLength };
   const units: Record<ColumnQuantity, Unit> = { level: u.level, fineLength: u.fineLength, volume: u.volume, temperature: u.temperature };
   const orNull = (f: (x: number) => number) => (x: number | null) => (x === null ? null : f(x));
   return {

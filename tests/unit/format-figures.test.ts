@@ -3,6 +3,7 @@ import { unit as mathUnit } from "mathjs";
 import { figuresFor } from "@/lib/format/figures";
 import { figureOptionsOf, hourCycleOf, numberLocaleOf, resolveDisplaySettings, type DisplaySettings } from "@/lib/format/display";
 import { quantityInputFor } from "@/lib/units/quantity-input";
+import { exportUnitsFor } from "@/lib/format/export-units";
 
 const NBSP = "\u00a0";
 const NARROW = "\u202f";
@@ -132,5 +133,19 @@ describe("number boxes in the person's units", () => {
     const comma = quantityInputFor({ ...SI, decimal_separator: "," });
     expect(comma.read("2.1", "length")).toBe(2.1);
     expect(comma.read("1.500,5", "volume")).toBe(1500.5);
+  });
+});
+
+describe("export columns", () => {
+  it("name their unit: SI as before, US customary in ft, in, gal and °F", () => {
+    const si = exportUnitsFor("si");
+    const us = exportUnitsFor("us");
+    expect(["level_m", "uncertainty_m", "volume_l", "air_temp_c", "speed_of_sound_ms", "fill_pct"].map(si.column)).toEqual(["level_m", "uncertainty_m", "volume_l", "air_temp_c", "speed_of_sound_ms", "fill_pct"]);
+    expect(["level_m", "uncertainty_m", "volume_l", "air_temp_c", "speed_of_sound_ms", "fill_pct"].map(us.column)).toEqual(["level_ft", "uncertainty_in", "volume_gal", "air_temp_f", "speed_of_sound_ms", "fill_pct"]);
+    // 1 in = 25.4 mm, 1 US gal = 231 in³ (NIST SP 811 Appendix B, Handbook 44 Appendix C); mathjs agrees.
+    expect(us.fine(0.0254)).toBeCloseTo(1, 12);
+    expect(us.litres(1000)).toBeCloseTo(mathUnit(1000, "L").toNumber("gallon"), 9);
+    expect(us.celsius(100)).toBeCloseTo(212, 12);
+    expect(si.length(null)).toBeNull();
   });
 });
