@@ -22,6 +22,7 @@ import { effectiveDisplaySettingsOfUsers } from "./display-settings";
 import { appUrl, sendMail } from "../mail/send-mail";
 import { type AlarmDbRow, insertAlarmEvents, saveAlarm, toRecord } from "./alarm-store";
 import { sqlRows } from "../db/sql";
+import { RAISED_IN_MAINTENANCE } from "./maintenance-windows";
 import { addJob, JOBS } from "./job-queue";
 import { formatDateTime } from "../format/time";
 
@@ -71,9 +72,10 @@ export async function queueDueNotices(transaction: Transaction, now: Date, { wai
   );
   if (!lock.locked) return 0;
   const candidates = await sqlRows<CandidateRow>(
-    `SELECT id, site_id, episode, state, activated_at, cleared_at, evaluated_until FROM alarms
-     WHERE state IN ('unacknowledged', 'returned_unacknowledged') AND episode > 0
-       AND activated_at >= CAST(:now AS timestamptz) - make_interval(hours => :maxAge)`,
+    `SELECT al.id, al.site_id, al.episode, al.state, al.activated_at, al.cleared_at, al.evaluated_until FROM alarms al
+     WHERE al.state IN ('unacknowledged', 'returned_unacknowledged') AND al.episode > 0
+       AND al.activated_at >= CAST(:now AS timestamptz) - make_interval(hours => :maxAge)
+       AND NOT ${RAISED_IN_MAINTENANCE}`,
     { now, maxAge: NOTIFY_MAX_AGE_HOURS },
     { transaction },
   );

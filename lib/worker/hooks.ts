@@ -11,7 +11,7 @@ import { alarmStageInput } from "./compute/alarm-stage";
 import { evaluateHealthAlarmsForChannels, evaluateLevelAlarms, expireShelves, sweepHealthAlarms } from "./alarm-evaluation";
 import { applyConsequences, sitesOfChannels } from "./consequences";
 import { queueDueNotices } from "../services/notifications";
-import { endMaintenanceWindows } from "../services/maintenance-windows";
+import { coverAlarmsRaisedInMaintenance, endMaintenanceWindows } from "../services/maintenance-windows";
 
 export const alarmBatchHook: BatchHook = {
   name: "alarms",
@@ -27,13 +27,14 @@ export const alarmBatchHook: BatchHook = {
   },
 };
 
-/** Between-batch alarm work: silent devices, health sweep, shelves and maintenance windows running out, and the notices now due (escalations). */
+/** Between-batch alarm work: silent devices, health sweep, shelves and maintenance windows running out, alarms raised during maintenance joining their window, and the notices now due (escalations). */
 export async function checkAlarms(now = new Date()): Promise<void> {
   await getSequelize().transaction(async (transaction) => {
     await applyConsequences(null, now, transaction);
     await sweepHealthAlarms(now, transaction);
     await expireShelves(now, transaction);
     await endMaintenanceWindows(now, transaction);
+    await coverAlarmsRaisedInMaintenance(now, transaction);
     await queueDueNotices(transaction, now, { wait: true });
   });
 }

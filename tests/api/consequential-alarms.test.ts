@@ -188,6 +188,27 @@ describe("maintenance of a device or a site", () => {
     expect((await levelAlarm(f.tank.id, "h")).state).toBe("unacknowledged");
   });
 
+  it("covers an alarm raised during the window: a device silenced by the work is shelved with it, not e-mailed", async () => {
+    // Offline after 3 expected intervals (PRODUCT.md): 3 × 2 s.
+    const f = await fleetWithAlarms({ expectedIntervalS: 2 });
+    await f.post([{ at: Date.now(), level: 1.2 }]);
+    await runWorkerOnce();
+    expect((await alarmsOf(`site_id=${f.site.id}&kind=device_offline&include=suppressed`)).items).toHaveLength(0);
+    const body = { mode: "shelve", reason: "unplugged to replace the sensor cable", until: new Date(Date.now() + 60_000).toISOString() };
+    await operator.post(`/api/devices/${f.device.id}/maintenance`).send(body).expect(201);
+
+    await sleep(7_000);
+    await runWorkerOnce();
+    const raised = (await alarmsOf(`site_id=${f.site.id}&kind=device_offline&include=suppressed`)).items;
+    expect(raised).toHaveLength(1);
+    const detail = (await operator.get(`/api/alarms/${raised[0].id}`).expect(200)).body;
+    expect(detail).toMatchObject({ state: "shelved", shelve_reason: "unplugged to replace the sensor cable", condition_active: true });
+    expect(detail.events.map((e: { kind: string }) => e.kind)).toEqual(expect.arrayContaining(["activated", "shelved"]));
+    expect(await sql(`SELECT id FROM alarm_notifications WHERE alarm_id = $1`, [raised[0].id])).toEqual([]);
+    const [window] = await sql<{ members: string[] }>(`SELECT members FROM maintenance_windows WHERE device_id = $1`, [f.device.id]);
+    expect(window.members).toContain(raised[0].id);
+  });
+
   it("takes a whole site out of service (admins only) and returns its alarms at the window's end", async () => {
     const f = await fleetWithAlarms();
     await f.live(varied(2.2, 12));
