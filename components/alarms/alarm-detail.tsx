@@ -11,6 +11,7 @@ import type { AlarmJson } from "@/lib/services/alarms";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { STACKED_TABLE } from "@/components/ui/form-fields";
 import { AlarmStateLabel, alarmFigure, alarmWhere } from "@/components/alarms/alarm-badges";
+import { useFigures } from "@/components/ui/display-settings";
 import { PriorityBadge } from "@/components/ui/priority-badge";
 import { ALARM_STATE_WORDS } from "@/lib/alarms/vocabulary";
 import { SiteTime } from "@/components/ui/site-time";
@@ -48,6 +49,7 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
   const [dialog, setDialog] = useState<AlarmDialogMode | null>(null);
   const [problem, setProblem] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
+  const fig = useFigures();
   if (isLoading) return <Loading />;
   if (error) return <LoadError error={error} retry={() => mutate()} />;
   if (!data) return null;
@@ -73,7 +75,7 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
       <section className="card grid gap-4 p-4 sm:grid-cols-4" aria-label="Now">
         <div><p className="label">Priority</p><PriorityBadge priority={data.priority as AlarmPriority} calm={state === "normal"} /></div>
         <div><p className="label">State</p><AlarmStateLabel state={state} awaitingReset={data.awaiting_reset} />{data.shelved_until && <p className="text-sm text-muted">until <SiteTime at={data.shelved_until} zone={zone} /> — {data.shelve_reason}</p>}</div>
-        <div><p className="label">Value / setpoint</p><p className="figures">{alarmFigure(data.value, data.unit, data.kind)}{data.setpoint !== null && <span className="text-muted"> / {alarmFigure(data.setpoint, data.unit, data.kind)}</span>}</p></div>
+        <div><p className="label">Value / setpoint</p><p className="figures">{alarmFigure(fig, data.value, data.unit, data.kind)}{data.setpoint !== null && <span className="text-muted"> / {alarmFigure(fig, data.setpoint, data.unit, data.kind)}</span>}</p></div>
         <div><p className="label">Condition</p><p>{data.condition_active ? "Active" : "Clear"}</p></div>
         <div><p className="label">Began</p><p className="figures"><SiteTime at={data.activated_at} zone={zone} /></p></div>
         <div><p className="label">Cleared</p><p className="figures"><SiteTime at={data.cleared_at} zone={zone} /></p></div>
@@ -108,8 +110,8 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
                 <td data-label="Event">{e.kind.replaceAll("_", " ")}</td>
                 <td data-label="State" className="whitespace-nowrap">{e.from_state && e.to_state ? `${ALARM_STATE_WORDS[e.from_state]} → ${ALARM_STATE_WORDS[e.to_state]}` : "—"}</td>
                 <td data-label="Cause">{e.cause}</td>
-                <td data-label="Value" className="figures whitespace-nowrap">{alarmFigure(e.value, data.unit, data.kind)}</td>
-                <td data-label="Setpoint" className="figures whitespace-nowrap">{alarmFigure(e.setpoint, data.unit, data.kind)}</td>
+                <td data-label="Value" className="figures whitespace-nowrap">{alarmFigure(fig, e.value, data.unit, data.kind)}</td>
+                <td data-label="Setpoint" className="figures whitespace-nowrap">{alarmFigure(fig, e.setpoint, data.unit, data.kind)}</td>
                 <td data-label="Who">{e.actor_label ?? "—"}</td>
                 <td data-label="Comment">{e.comment ?? ""}</td>
               </tr>
