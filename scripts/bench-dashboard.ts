@@ -157,8 +157,10 @@ const STATE_SQL = `
     FROM bench_channels bc WHERE bc.j % 10 BETWEEN 5 AND 7;
   INSERT INTO health_flags (channel_id, flag, since, magnitude)
     SELECT id, (ARRAY['drift', 'stuck', 'noisy', 'no_echo'])[1 + j % 4], now() - (j % 48) * interval '1 hour', 0.01 FROM bench_channels WHERE j % 50 = 3;
-  INSERT INTO tank_forecasts (asset_id, computed_at, window_start, window_end, samples, current_volume_l, reorder_volume_l, slope_l_per_day, days_to_reorder, days_to_empty, reorder_at, empty_at)
-    SELECT asset_id, now(), now() - interval '7 days', now(), 1000, 4000, 1963, -600, 3.4, 6.7, now() + interval '3.4 days', now() + interval '6.7 days'
+  INSERT INTO tank_forecasts (asset_id, computed_at, window_start, window_end, samples, current_volume_l, slope_l_per_day, purpose, status, action, ready,
+                              span_hours, points, r_squared, due_at, limit_at, volume_l, rate_l_per_day)
+    SELECT asset_id, now(), now() - interval '7 days', now(), 168, 4000, -600, 'supply', 'due', 'deliver', true, 160, 160, 0.97,
+           now() + interval '3.4 days', now() + interval '6.7 days', 3500, 600
     FROM bench_channels WHERE j % 10 < 5;
   INSERT INTO alarm_setpoints (asset_id, key, value_m, entered_value, deadband_m, on_delay_s, priority)
     SELECT bc.asset_id, sp.key, sp.value_m, sp.value_m, 0.125, 60, sp.priority

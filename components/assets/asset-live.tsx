@@ -5,17 +5,18 @@ import { useSearchParams } from "next/navigation";
 import useSWR from "swr";
 import type { AssetOverviewJson } from "@/lib/read-models/overview-asset";
 import { fetchJson, swrFetcher } from "@/lib/fetcher";
+import { PLAN_LABELS, TankPlanVerdict } from "@/components/assets/tank-plan";
 import { buildTrend, forecastLine, sourceForPeriod, type ChannelCalibration, type SeriesPoint } from "@/components/assets/asset-live-series";
 import { AlarmHistory, CalibrationList, DipList, FlagHistory } from "@/components/assets/asset-live-history";
 import { periodFromParams, RangePicker, windowOf, type Period } from "@/components/assets/asset-live-range";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { FleetAlarmList } from "@/components/alarms/fleet-alarm-list";
-import { formatDaysToReorder, formatDuration } from "@/components/fleet/fleet-figures";
+import { formatDuration } from "@/components/fleet/fleet-figures";
 import { useFigures } from "@/components/ui/display-settings";
 import { LIVE_REFRESH_MS } from "@/components/fleet/fleet-overview";
 import { FlagTag, OverdueAge, TankCaution, type Priority } from "@/components/fleet/fleet-status";
 import { LevelTrend } from "@/components/assets/level-trend";
-import { SiteTime, useTimeDisplay } from "@/components/ui/site-time";
+import { useTimeDisplay } from "@/components/ui/site-time";
 import { formatDateTime } from "@/lib/format/time";
 import { SoundingStrip } from "@/components/assets/sounding-strip";
 
@@ -93,10 +94,8 @@ function NowPanel({ o, now }: { o: Overview; now: number }) {
           <dd className="figures">
             {latest?.volume_l != null && o.asset.capacity_l != null && o.asset.safe_fill_pct != null ? fig.volume(Math.max(0, (o.asset.capacity_l * o.asset.safe_fill_pct) / 100 - latest.volume_l)) : "—"}
           </dd>
-          <dt className="text-muted">Reorder</dt>
-          <dd>{s?.forecast ? formatDaysToReorder(s.forecast.days_to_reorder) : "no forecast yet"}{s?.forecast?.reorder_at && <span className="text-muted"> · <SiteTime at={s.forecast.reorder_at} zone={o.asset.site_time_zone} show="date" /></span>}</dd>
-          <dt className="text-muted">Empty</dt>
-          <dd>{s?.forecast ? formatDaysToReorder(s.forecast.days_to_empty, "empty now") : "—"}</dd>
+          <dt className="text-muted">{s?.plan ? PLAN_LABELS[s.plan.purpose] : "Plan"}</dt>
+          <dd><TankPlanVerdict plan={s?.plan ?? null} zone={o.asset.site_time_zone} detail /></dd>
         </dl>
       </div>
     );
@@ -142,8 +141,8 @@ function Trend({ o, period }: { o: Overview; period: Period }) {
   const trend = buildTrend(series.data.points, { quantity: isTank ? "level" : "distance", mountHeightM: o.asset.mount_height_m, calibration });
   const latest = o.state?.latest;
   const forecast =
-    isTank && o.asset.geometry && latest?.volume_l != null && o.state?.forecast?.reorder_at && o.asset.capacity_l != null && o.asset.reorder_pct != null
-      ? forecastLine({ geometry: o.asset.geometry, volumeNowL: latest.volume_l, reorderVolumeL: (o.asset.capacity_l * o.asset.reorder_pct) / 100, nowMs: Date.parse(latest.at), reorderAtMs: Date.parse(o.state.forecast.reorder_at) })
+    isTank && o.asset.geometry && latest?.volume_l != null && o.state?.plan?.purpose === "supply" && o.state.plan.due_at && o.asset.capacity_l != null && o.asset.reorder_pct != null
+      ? forecastLine({ geometry: o.asset.geometry, volumeNowL: latest.volume_l, reorderVolumeL: (o.asset.capacity_l * o.asset.reorder_pct) / 100, nowMs: Date.parse(latest.at), reorderAtMs: Date.parse(o.state.plan.due_at) })
       : [];
   const marks = {
     setpoints: isTank ? o.setpoints.filter((s) => s.enabled).map((s) => ({ key: s.key, value_m: s.value_m })) : [],

@@ -9,7 +9,7 @@ import { MAX_HORIZON_DAYS } from "@/lib/validations/export";
 import { createColumnHelper } from "@tanstack/react-table";
 import { formatAge, formatDaysToReorder } from "@/components/fleet/fleet-figures";
 import { Figure } from "@/components/ui/display-settings";
-import { SiteTime } from "@/components/ui/site-time";
+import { PURPOSE_NAMES, TankPlanVerdict } from "@/components/assets/tank-plan";
 import { DataTable } from "@/components/ui/data-table";
 
 export const HORIZON_CHOICES = [3, 7, 14, 30, 60, MAX_HORIZON_DAYS] as const;
@@ -20,37 +20,63 @@ function horizonFrom(value: string | null): number {
   return (HORIZON_CHOICES as readonly number[]).includes(n) ? n : DEFAULT_HORIZON;
 }
 
-function DueText({ row }: { row: RefillPlanJson["items"][number] }) {
-  if (row.reason === "below_reorder") return "now: below the reorder level";
-  const when = row.days_to_reorder <= 0 ? "now, by the forecast" : formatDaysToReorder(row.days_to_reorder);
-  return (
-    <>
-      {when} (<SiteTime at={row.due_at} zone={row.site_time_zone} show="date" />)
-    </>
-  );
-}
-
 type PlanRow = RefillPlanJson["items"][number];
 const column = createColumnHelper<PlanRow>();
+const ACTION_WORDS = { deliver: "Deliver", pump_out: "Pump out", top_up: "Top up" } as const;
 const columns = [
-  column.accessor((r) => new Date(r.due_at).getTime(), { id: "due", header: "Due", cell: (c) => <span className={c.row.original.reason === "below_reorder" ? "font-bold" : undefined}><DueText row={c.row.original} /></span> }),
-  column.accessor("asset_name", { header: "Tank", cell: (c) => <Link href={`/assets/${c.row.original.asset_id}`} className="underline">{c.getValue()}</Link> }),
-  column.accessor("site_name", { header: "Site" }),
-  column.accessor("fill_pct", { header: "Fill now", cell: (c) => <Figure kind="percent" value={c.getValue()} />, meta: { cellClassName: "figures" } }),
-  column.accessor("current_volume_l", { header: "Volume now", cell: (c) => <Figure kind="volume" value={c.getValue()} />, meta: { cellClassName: "figures" } }),
-  column.accessor("deliver_l", {
-    header: "Deliver to safe fill",
-    meta: { cellClassName: "figures" },
-    cell: ({ row: { original: r } }) => (
+  column.display({ id: "due", header: "Due", cell: (c) => <TankPlanVerdict plan={c.row.original} zone={c.row.original.site_time_zone} /> }),
+  column.accessor("asset_name", {
+    header: "Tank",
+    cell: (c) => (
       <>
-        {r.deliver_l === null ? <span className="font-sans text-muted">{r.safe_fill_pct === null ? "no safe fill set" : "no volume yet"}</span> : <Figure kind="volume" value={r.deliver_l} />}
-        {r.safe_fill_pct !== null && <span className="font-sans text-xs text-muted"> to <Figure kind="percent" value={r.safe_fill_pct} /></span>}
+        <Link href={`/assets/${c.row.original.asset_id}`} className="underline">{c.getValue()}</Link>
+        <span className="block text-xs text-muted">{PURPOSE_NAMES[c.row.original.purpose]}</span>
       </>
     ),
   }),
-  column.accessor("days_to_empty", { header: "Empty in", cell: (c) => (c.getValue() == null ? "—" : `${c.getValue()!.toFixed(1)}\u00a0d`), meta: { cellClassName: "figures" } }),
+  column.accessor("site_name", { header: "Site" }),
+  column.accessor("fill_pct", { header: "Fill now", cell: (c) => <Figure kind="percent" value={c.getValue()} />, meta: { cellClassName: "figures" } }),
+  column.accessor("current_volume_l", { header: "Volume now", cell: (c) => <Figure kind="volume" value={c.getValue()} />, meta: { cellClassName: "figures" } }),
+  column.accessor("volume_l", {
+    header: "To move",
+    meta: { cellClassName: "figures" },
+    cell: ({ row: { original: r } }) =>
+      r.status === "needs_check" || r.action === null ? (
+        <span className="font-sans text-muted">not planned until checked</span>
+      ) : r.volume_l === null ? (
+        <span className="font-sans text-muted">{r.action === "deliver" ? "no safe fill set" : "—"}</span>
+      ) : (
+        <>
+          <span className="font-sans">{ACTION_WORDS[r.action]} </span>
+          <Figure kind="volume" value={r.volume_l} />
+          {r.action === "deliver" && r.safe_fill_pct !== null && <span className="font-sans text-xs text-muted"> to <Figure kind="percent" value={r.safe_fill_pct} /></span>}
+        </>
+      ),
+  }),
+  column.accessor("days_to_limit", {
+    header: "Empty / overflow",
+    meta: { cellClassName: "figures" },
+    cell: ({ row: { original: r } }) => (r.days_to_limit === null ? "—" : `${r.purpose === "sump" ? "overflows" : "empty"} ${formatDaysToReorder(r.days_to_limit)}`),
+  }),
   column.accessor("measured_at", { header: "Measured", cell: (c) => (c.getValue() ? formatAge(c.getValue()!) : "never") }),
 ];
+
+/** Tanks the plan cannot schedule yet, with why (a forecast needs a long, steady history). */
+function Unplanned({ rows }: { rows: RefillPlanJson["unplanned"] }) {
+  if (rows.length === 0) return null;
+  return (
+    <section aria-labelledby="refill-unplanned" className="card p-4">
+      <h2 id="refill-unplanned" className="mb-2 text-base font-bold">Not forecast yet</h2>
+      <ul className="space-y-1 text-sm">
+        {rows.map((r) => (
+          <li key={r.asset_id}>
+            <Link href={`/assets/${r.asset_id}`} className="underline">{r.asset_name}</Link> <span className="text-muted">({r.site_name}, {PURPOSE_NAMES[r.purpose].toLowerCase()})</span>: {r.reason}
+          </li>
+        ))}
+      </ul>
+    </section>
+  );
+}
 
 /**
  * The refill plan for a horizon kept in the URL: read-only for every role (a delivery partner plans
@@ -92,9 +118,16 @@ export function RefillPlanTable({ canExport }: { canExport: boolean }) {
         loading={isLoading}
         error={error}
         retry={() => mutate()}
-        empty={`No tank reaches its reorder level in the next ${horizon} days.`}
+        empty={`No tank needs a delivery, a pump-out or a top-up in the next ${horizon} days, and none needs a check.`}
       />
-      {data && <p className="text-xs text-muted">Volume to deliver = capacity × safe fill − volume now. Forecasts follow each tank&apos;s recent consumption, with refills left out.</p>}
+      {data && <Unplanned rows={data.unplanned} />}
+      {data && (
+        <p className="text-xs text-muted">
+          Supply tanks: deliver capacity × safe fill − volume now, by the reorder date. Sumps: pump out down to their pumped-down level before the pump-out level. Reserves
+          are kept full and listed when below their minimum; process tanks have alarms only. A forecast needs 48 h of steady level history since the last refill; a tank
+          with a sensor fault or no recent value needs a check before it is scheduled.
+        </p>
+      )}
     </div>
   );
 }

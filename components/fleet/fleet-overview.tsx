@@ -5,9 +5,10 @@ import useSWR from "swr";
 import type { FleetOverviewJson } from "@/lib/read-models/overview";
 import { swrFetcher } from "@/lib/fetcher";
 import { Loading, LoadError } from "@/components/ui/data-state";
-import { formatDaysToReorder } from "@/components/fleet/fleet-figures";
 import { useFigures } from "@/components/ui/display-settings";
+import { plural } from "@/lib/format/number";
 import { AlarmCounts, FlagTag, OverdueAge, PRIORITIES, TankCaution } from "@/components/fleet/fleet-status";
+import { TankPlanVerdict } from "@/components/assets/tank-plan";
 import { SiteTime } from "@/components/ui/site-time";
 import { STACKED_TABLE } from "@/components/ui/form-fields";
 
@@ -36,7 +37,7 @@ function FillBar({ pct }: { pct: number | null }) {
   );
 }
 
-function TankLine({ tank, now }: { tank: TankSummary; now: number }) {
+function TankLine({ tank, zone, now }: { tank: TankSummary; zone: string; now: number }) {
   const fig = useFigures();
   return (
     <tr>
@@ -52,7 +53,7 @@ function TankLine({ tank, now }: { tank: TankSummary; now: number }) {
         {fig.length(tank.level_m, tank.uncertainty_m)}
         <OverdueAge at={tank.at} expectedIntervalS={tank.expected_interval_s} now={now} />
       </td>
-      <td data-label="Reorder" className={`whitespace-nowrap ${tank.days_to_reorder === 0 ? "font-bold" : ""}`}>{tank.forecast_at ? formatDaysToReorder(tank.days_to_reorder) : <span className="text-muted">no forecast yet</span>}</td>
+      <td data-label="Plan"><TankPlanVerdict plan={tank.plan} zone={zone} /></td>
     </tr>
   );
 }
@@ -91,10 +92,10 @@ function SiteCard({ site, now }: { site: SiteSummary; now: number }) {
               <th scope="col">Fill</th>
               <th scope="col">Volume</th>
               <th scope="col">Level</th>
-              <th scope="col">Reorder</th>
+              <th scope="col">Plan</th>
             </tr>
           </thead>
-          <tbody>{tanks.map((t) => <TankLine key={t.id} tank={t} now={now} />)}</tbody>
+          <tbody>{tanks.map((t) => <TankLine key={t.id} tank={t} zone={site.time_zone} now={now} />)}</tbody>
         </table>
       )}
       {site.tank_count > site.tanks.length && (
@@ -136,7 +137,7 @@ export function FleetOverview() {
     <div className="space-y-4">
       {error && <LoadError error={error} retry={() => mutate()} />}
       <p className="flex flex-wrap gap-x-6 gap-y-1 text-sm" data-testid="fleet-totals">
-        <span><span className="figures">{t.sites}</span> sites · <span className="figures">{t.tanks}</span> tanks · <span className="figures">{t.bays}</span> bays, <span className="figures">{t.bays_occupied}</span> occupied</span>
+        <span><span className="figures">{t.sites}</span> {plural(t.sites, "site")} · <span className="figures">{t.tanks}</span> {plural(t.tanks, "tank")} · <span className="figures">{t.bays}</span> {plural(t.bays, "bay")}, <span className="figures">{t.bays_occupied}</span> occupied</span>
         <span><AlarmCounts counts={t.alarms} /></span>
         <span className={t.devices_offline ? "font-bold text-high" : "text-muted"}>
           <span className="figures">{t.devices_offline}</span> of <span className="figures">{t.devices}</span> devices offline

@@ -1,11 +1,11 @@
 import Link from "next/link";
 import type { AlarmJson } from "@/lib/services/alarms";
 import type { SiteAssetJson } from "@/lib/read-models/overview-site";
-import { formatDaysToReorder } from "@/components/fleet/fleet-figures";
 import { useFigures } from "@/components/ui/display-settings";
 import { FlagTag, OverdueAge, type Priority } from "@/components/fleet/fleet-status";
 import { PriorityBadge } from "@/components/ui/priority-badge";
 import { Sparkline } from "@/components/sites/site-live-sparkline";
+import { PLAN_LABELS, TankPlanVerdict } from "@/components/assets/tank-plan";
 import { SoundingStrip } from "@/components/assets/sounding-strip";
 
 // A tank on the site screen: its sounding strip beside the level, fill, volume and days to reorder,
@@ -13,7 +13,7 @@ import { SoundingStrip } from "@/components/assets/sounding-strip";
 
 const LEVEL_KINDS = new Set(["hh", "h", "l", "ll"]);
 
-export function TankCard({ tank, alarms, now }: { tank: SiteAssetJson; alarms: AlarmJson[]; now: number }) {
+export function TankCard({ tank, zone, alarms, now }: { tank: SiteAssetJson; zone: string; alarms: AlarmJson[]; now: number }) {
   const fig = useFigures();
   const mine = alarms.filter((a) => a.asset?.id === tank.id);
   const setpointAlarm = new Map(mine.filter((a) => LEVEL_KINDS.has(a.kind)).map((a) => [a.kind, a.priority as Priority]));
@@ -54,10 +54,10 @@ export function TankCard({ tank, alarms, now }: { tank: SiteAssetJson; alarms: A
             {fig.volume(latest?.volume_l)}
             {tank.capacity_l != null && <span className="text-muted"> of {fig.volume(tank.capacity_l)}</span>}
           </dd>
-          <dt className="text-muted">Reorder</dt>
-          <dd className={tank.forecast?.days_to_reorder === 0 ? "font-bold" : undefined}>
-            {tank.forecast ? formatDaysToReorder(tank.forecast.days_to_reorder) : "no forecast yet"}
-            {tank.reorder_pct != null && <span className="text-muted"> (at <span className="figures">{fig.percent(tank.reorder_pct)}</span>)</span>}
+          <dt className="text-muted">{tank.plan ? PLAN_LABELS[tank.plan.purpose] : "Plan"}</dt>
+          <dd>
+            <TankPlanVerdict plan={tank.plan} zone={zone} />
+            {tank.plan?.purpose === "supply" && tank.reorder_pct != null && <span className="text-muted"> (at <span className="figures">{fig.percent(tank.reorder_pct)}</span>)</span>}
           </dd>
         </dl>
       </div>

@@ -8,6 +8,7 @@ import { BayPlan } from "@/components/sites/bay-plan";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { FleetAlarmList } from "@/components/alarms/fleet-alarm-list";
 import { useFigures } from "@/components/ui/display-settings";
+import { plural } from "@/lib/format/number";
 import { LIVE_REFRESH_MS } from "@/components/fleet/fleet-overview";
 import { FlagTag, OverdueAge, TankCaution } from "@/components/fleet/fleet-status";
 import { STACKED_TABLE } from "@/components/ui/form-fields";
@@ -30,7 +31,7 @@ export function SiteLive({ siteId, canAcknowledge }: { siteId: string; canAcknow
       {error && <LoadError error={error} retry={() => mutate()} />}
       <p className="flex flex-wrap gap-x-6 gap-y-1 text-sm" data-testid="site-facts">
         <span>
-          <span className="figures">{data.tanks.length}</span> tanks · <span className="figures">{data.bays.length}</span> bays · <span className="figures">{data.points.length}</span> points
+          <span className="figures">{data.tanks.length}</span> {plural(data.tanks.length, "tank")} · <span className="figures">{data.bays.length}</span> {plural(data.bays.length, "bay")} · <span className="figures">{data.points.length}</span> {plural(data.points.length, "point")}
         </span>
         <span className={data.devices.offline ? "font-bold text-high" : "text-muted"}>
           <span className="figures">{data.devices.offline}</span> of <span className="figures">{data.devices.total}</span> devices offline
@@ -49,7 +50,7 @@ export function SiteLive({ siteId, canAcknowledge }: { siteId: string; canAcknow
           <h2 id="site-tanks" className="text-lg font-bold">Tanks</h2>
           <TankCaution />
           <div className="grid gap-4 md:grid-cols-2 xl:grid-cols-3">
-            {data.tanks.map((t) => <TankCard key={t.id} tank={t} alarms={data.alarms} now={now} />)}
+            {data.tanks.map((t) => <TankCard key={t.id} tank={t} zone={data.site.time_zone} alarms={data.alarms} now={now} />)}
           </div>
         </section>
       )}

@@ -179,7 +179,9 @@ export const DEMO_TANKS: DemoTank[] = [
         { level_m: 2.4, volume_l: 17700 },
       ],
     },
-    mount_height_m: 2.6, safe_fill_pct: 85, reorder_pct: 15, usage: usage(7, 12, 75, 180, 0.1),
+    // It fills with settled sludge about 7 % a day and is pumped out from 75 % down to 12 % by a small
+    // pump over a nine-hour shift: slowly enough that its level falls under the rate-of-change limit.
+    mount_height_m: 2.6, safe_fill_pct: 85, reorder_pct: 15, usage: { ...usage(7, 12, 75, 540, 0.1), fills: true },
     setpoints_pct: setpoints(4, 8, 80, 85), planted_activations: QUIET,
   },
   {

@@ -80,3 +80,8 @@ export function formatTemperature(celsius: number | null | undefined, o: Pick<Fi
   const unit = DISPLAY_UNITS[o.system].temperature;
   return withUnit(formatNumber(fromSi(celsius, unit), 1, o.locale), unit);
 }
+
+/** A count's noun in English: "tank" for 1, "tanks" otherwise. */
+export function plural(count: number, singular: string, pluralForm = `${singular}s`): string {
+  return count === 1 ? singular : pluralForm;
+}

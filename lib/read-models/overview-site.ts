@@ -65,7 +65,7 @@ export async function siteOverview(scope: Scope, siteId: string, now = new Date(
   // Every query is scoped to the organisation, so they all run at once; another's site is still a 404.
   const [site, assets, trends, alarms, devices, setpoints] = await Promise.all([
     findSite(scope, siteId),
-    listAssetStates(scope, { siteId }),
+    listAssetStates(scope, { siteId }, now),
     dayTrends(organisationId, siteId, since),
     listAttentionAlarms(scope, { siteId }),
     deviceCountsBySite(scope, now, siteId),

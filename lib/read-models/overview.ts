@@ -3,6 +3,8 @@ import { tankHeight, type TankGeometry } from "../geometry/tank-volume";
 import { detectOffline } from "../health/flags";
 import type { AssetKind } from "../db/models";
 import { activeAlarmsBySite, type PriorityCounts } from "./overview-alarms";
+import { FORECAST_JSON, tankPlanOf, type StoredForecastJson } from "./forecasts";
+import type { TankPurpose } from "../forecast/purpose";
 import { sqlRows } from "../db/sql";
 
 // The live state of assets as the overview, site and asset screens show it: each asset's latest valid
@@ -20,6 +22,7 @@ interface AssetStateRow {
   id: string;
   site_id: string;
   kind: AssetKind;
+  purpose: TankPurpose | null;
   name: string;
   capacity_l: number | null;
   safe_fill_pct: number | null;
@@ -45,10 +48,7 @@ interface AssetStateRow {
   occupied: boolean | null;
   session_started_at: Date | null;
   session_ended_at: Date | null;
-  days_to_reorder: number | null;
-  days_to_empty: number | null;
-  reorder_at: Date | null;
-  forecast_at: Date | null;
+  forecast: StoredForecastJson | null;
   flags: OpenFlag[] | null;
 }
 
@@ -108,12 +108,12 @@ function assetStateSql(scope: Scope, filter: { siteId?: string; assetId?: string
   const where = [filter.siteId ? "AND a.site_id = :siteId" : "", filter.assetId ? "AND a.id = :assetId" : ""].join(" ");
   return `
   WITH ${channelCte(scope, narrow)}, ${flagsCte(scope, narrow)}
-  SELECT a.id, a.site_id, a.kind, a.name, a.capacity_l, a.safe_fill_pct, a.reorder_pct, a.mount_height_m, a.geometry,
+  SELECT a.id, a.site_id, a.kind, a.purpose, a.name, a.capacity_l, a.safe_fill_pct, a.reorder_pct, a.mount_height_m, a.geometry,
          a.floor_distance_m, a.occupied_below_m, a.bay_row, a.bay_col, a.bay_level,
          ch.id AS channel_id, ch.device_id, ch.device_name, ch.expected_interval_s, ch.last_seen_at,
          ${LATEST_COLUMNS},
          os.started_at AS session_started_at, os.ended_at AS session_ended_at,
-         f.days_to_reorder, f.days_to_empty, f.reorder_at, f.computed_at AS forecast_at,
+         ${FORECAST_JSON} AS forecast,
          fl.flags
   FROM assets a
   LEFT JOIN ch ON ch.asset_id = a.id
@@ -143,11 +143,12 @@ function iso(d: Date | string | null): string | null {
   return d == null ? null : new Date(d).toISOString();
 }
 
-export function serialiseAssetState(r: AssetStateRow) {
+export function serialiseAssetState(r: AssetStateRow, now = new Date()) {
   return {
     id: r.id,
     site_id: r.site_id,
     kind: r.kind,
+    purpose: r.purpose,
     name: r.name,
     capacity_l: r.capacity_l,
     safe_fill_pct: r.safe_fill_pct,
@@ -164,19 +165,25 @@ export function serialiseAssetState(r: AssetStateRow) {
       ? { at: iso(r.value_at) as string, level_m: r.level_m, distance_m: r.distance_m, volume_l: r.volume_l, fill_pct: r.fill_pct, uncertainty_m: r.uncertainty_m, occupied: r.occupied }
       : null,
     occupancy: occupancyOf(r),
-    forecast:
-      r.kind === "tank" && r.forecast_at
-        ? { days_to_reorder: r.days_to_reorder, days_to_empty: r.days_to_empty, reorder_at: iso(r.reorder_at), computed_at: iso(r.forecast_at) as string }
-        : null,
+    /** A tank's plan verdict (lib/read-models/forecasts.ts), null for other assets. */
+    plan: tankPlanOf({
+      kind: r.kind,
+      purpose: r.purpose,
+      forecast: r.forecast,
+      latest: r.value_at ? { at: r.value_at, volume_l: r.volume_l } : null,
+      flags: r.flags ?? [],
+      expectedIntervalS: r.expected_interval_s,
+      now,
+    }),
     flags: r.flags ?? [],
   };
 }
 export type AssetStateJson = ReturnType<typeof serialiseAssetState>;
 
 /** Live state of the organisation's assets, optionally of one site or one asset, by name. */
-export async function listAssetStates(scope: Scope, filter: { siteId?: string; assetId?: string } = {}): Promise<AssetStateJson[]> {
+export async function listAssetStates(scope: Scope, filter: { siteId?: string; assetId?: string } = {}, now = new Date()): Promise<AssetStateJson[]> {
   const rows = await sqlRows<AssetStateRow>(assetStateSql(scope, filter), { organisationId: scope.organisationId, ...filter });
-  return rows.map(serialiseAssetState);
+  return rows.map((r) => serialiseAssetState(r, now));
 }
 
 interface DeviceSeenRow {
@@ -210,6 +217,7 @@ interface FleetTankRow {
   id: string;
   site_id: string;
   name: string;
+  purpose: TankPurpose | null;
   capacity_l: number | null;
   reorder_pct: number | null;
   expected_interval_s: number | null;
@@ -218,9 +226,9 @@ interface FleetTankRow {
   uncertainty_m: number | null;
   fill_pct: number | null;
   volume_l: number | null;
-  days_to_reorder: number | null;
-  forecast_at: Date | null;
+  forecast: StoredForecastJson | null;
   flags: string[] | null;
+  flagged_since: Date | null;
   site_tanks: string;
 }
 
@@ -228,13 +236,13 @@ interface FleetTankRow {
 const fleetTanksSql = (scope: Scope) => `
   WITH ${channelCte(scope)},
   tf AS (
-    SELECT hc.asset_id, array_agg(DISTINCT h.flag ORDER BY h.flag) AS flags
+    SELECT hc.asset_id, array_agg(DISTINCT h.flag ORDER BY h.flag) AS flags, min(h.since) AS flagged_since
     FROM health_flags h JOIN channels hc ON hc.id = h.channel_id JOIN devices hd ON hd.id = hc.device_id
     WHERE h.cleared_at IS NULL AND hd.organisation_id = :organisationId AND ${siteScope(scope, "hd.site_id")} AND hc.asset_id IS NOT NULL
     GROUP BY hc.asset_id
   ),
   t AS (
-    SELECT a.id, a.site_id, a.name, a.capacity_l, a.reorder_pct, ch.expected_interval_s, ${LATEST_COLUMNS}, f.days_to_reorder, f.computed_at AS forecast_at, tf.flags
+    SELECT a.id, a.site_id, a.name, a.purpose, a.capacity_l, a.reorder_pct, ch.expected_interval_s, ${LATEST_COLUMNS}, ${FORECAST_JSON} AS forecast, tf.flags, tf.flagged_since
     FROM assets a
     LEFT JOIN ch ON ch.asset_id = a.id
     ${latestJoins()}
@@ -322,8 +330,15 @@ export async function fleetOverview(scope: Scope, now = new Date()) {
         volume_l: t.volume_l,
         at: iso(t.value_at),
         expected_interval_s: t.expected_interval_s,
-        days_to_reorder: t.days_to_reorder,
-        forecast_at: iso(t.forecast_at),
+        plan: tankPlanOf({
+          kind: "tank",
+          purpose: t.purpose,
+          forecast: t.forecast,
+          latest: t.value_at ? { at: t.value_at, volume_l: t.volume_l } : null,
+          flags: (t.flags ?? []).map((flag) => ({ flag, since: t.flagged_since })),
+          expectedIntervalS: t.expected_interval_s,
+          now,
+        }),
         flags: t.flags ?? [],
       })),
       bays: { ...bay, unknown: bay.total - bay.occupied - bay.free - bay.faulty },

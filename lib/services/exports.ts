@@ -274,21 +274,27 @@ export const REFILL_PLAN_COLUMNS = [
   "site_time_zone",
   "site",
   "tank",
-  "reason",
-  "days_to_reorder",
-  "days_to_empty",
+  "purpose",
+  "status",
+  "action",
+  "days_to_due",
+  "days_to_limit",
+  "volume_l",
+  "needs_check",
   "current_volume_l",
   "fill_pct",
   "capacity_l",
   "safe_fill_pct",
-  "deliver_l",
   "measured_at",
   "asset_id",
 ] as const;
 
 const round = (x: number | null, digits: number) => (x === null ? null : Math.round(x * 10 ** digits) / 10 ** digits);
 
-/** The refill plan is short (one row a tank): one batch. */
+/**
+ * The refill plan is short (one row a tank): one batch. A tank that needs a check has no due date and
+ * says why; tanks without a ready forecast are not in the export (the screen lists them apart).
+ */
 export function refillPlanColumns(units: ExportUnits): string[] {
   return REFILL_PLAN_COLUMNS.map(units.column);
 }
@@ -297,19 +303,23 @@ export async function* refillPlanBatches(scope: Scope, options: { horizonDays: n
   const volume = (l: number | null) => round(options.units.litres(l), 1);
   const plan = await refillPlan(scope, options);
   yield plan.items.map((r) => [
-    formatIsoWithOffset(r.due_at, r.site_time_zone),
+    r.due_at === null ? null : formatIsoWithOffset(r.due_at, r.site_time_zone),
     r.site_time_zone,
     r.site_name,
     r.asset_name,
-    r.reason,
-    round(r.days_to_reorder, 2),
-    round(r.days_to_empty, 2),
+    r.purpose,
+    r.status,
+    r.action,
+    round(r.days_to_due, 2),
+    round(r.days_to_limit, 2),
+    volume(r.volume_l),
+    r.checks.map((c) => c.text).join("; ") || null,
     volume(r.current_volume_l),
     round(r.fill_pct, 1),
     volume(r.capacity_l),
     r.safe_fill_pct,
-    volume(r.deliver_l),
     r.measured_at === null ? null : formatIsoWithOffset(r.measured_at, r.site_time_zone),
     r.asset_id,
   ]);
 }
+

@@ -4,7 +4,8 @@
 import { getSequelize } from "../db/sequelize";
 import { detectDrift } from "../signal/cusum";
 import { tankCapacity, type TankGeometry } from "../geometry/tank-volume";
-import { forecastTank } from "./compute/forecast";
+import { forecastTank, type TankForecast } from "./compute/forecast";
+import { tankPurposeOf, type TankPurpose } from "../forecast/purpose";
 import { PIPELINE_SETTINGS } from "./compute/settings";
 import { sqlRows, sqlRun } from "../db/sql";
 
@@ -138,20 +139,37 @@ export async function evaluateManualDips(): Promise<number> {
   });
 }
 
-// A forecast older than this is refreshed when the tank has new data.
+// A forecast older than this is refreshed when the tank has new data (at once when the tank was edited:
+// its purpose or levels may have changed).
 const FORECAST_MAX_AGE_S = 15 * 60;
 const FORECAST_TANKS_PER_CYCLE = 500;
 
-/** Recomputes stale tank forecasts from hourly rollups and stores them in tank_forecasts. */
+interface ForecastTankRow {
+  asset_id: string;
+  purpose: TankPurpose | null;
+  capacity_l: number | null;
+  geometry: TankGeometry | null;
+  reorder_pct: number | null;
+  safe_fill_pct: number | null;
+  last_at: Date;
+  last_volume_l: number | null;
+}
+
+/**
+ * Projects the tanks whose forecast is missing or stale, by purpose (projectTank via forecastTank), from
+ * hourly rollups, and stores the projections in tank_forecasts: three statements for up to 500 tanks.
+ */
 export async function refreshForecasts(): Promise<number> {
   const windowS = PIPELINE_SETTINGS.forecastWindowDays * 86400;
-  const tanks = await sqlRows<{ asset_id: string; capacity_l: number | null; geometry: TankGeometry | null; reorder_pct: number | null; last_at: Date; last_volume_l: number | null }>(
-    `SELECT a.id AS asset_id, a.capacity_l, a.geometry, a.reorder_pct, latest.bucket_start AS last_at, latest.volume_l AS last_volume_l
+  const tanks = await sqlRows<ForecastTankRow>(
+    `SELECT a.id AS asset_id, a.purpose, a.capacity_l, a.geometry, a.reorder_pct, a.safe_fill_pct, latest.bucket_start AS last_at, latest.volume_l AS last_volume_l
      FROM assets a
      JOIN LATERAL (SELECT bucket_start, volume_sum / nullif(n, 0) AS volume_l FROM measurement_rollups r
                    WHERE r.asset_id = a.id AND r.bucket_s = 300 AND r.n > 0 ORDER BY bucket_start DESC LIMIT 1) latest ON true
      LEFT JOIN tank_forecasts f ON f.asset_id = a.id
-     WHERE a.kind = 'tank' AND (f.asset_id IS NULL OR (f.computed_at < now() - make_interval(secs => $1) AND latest.bucket_start > f.window_end))
+     WHERE a.kind = 'tank'
+       AND (f.asset_id IS NULL OR a.updated_at > f.computed_at
+            OR (f.computed_at < now() - make_interval(secs => $1) AND latest.bucket_start > f.window_end))
      ORDER BY f.computed_at NULLS FIRST LIMIT $2`,
     [FORECAST_MAX_AGE_S, FORECAST_TANKS_PER_CYCLE],
   );
@@ -172,37 +190,45 @@ export async function refreshForecasts(): Promise<number> {
   }
   const rows = tanks.map((t) => {
     const points = byAsset.get(t.asset_id) ?? [];
-    // The 5-minute bucket's mean stands for "now"; the hourly series carries the trend.
-    const current = t.last_volume_l === null ? undefined : { at: new Date(t.last_at.getTime() + 150_000), volumeL: t.last_volume_l };
-    const capacityL = t.capacity_l ?? (t.geometry ? tankCapacity(t.geometry) : 0);
-    const f = forecastTank({ series: points, capacityL, reorderPct: t.reorder_pct, current });
+    // The 5-minute bucket's mean stands for "now" (at the bucket's middle); the hourly series carries the trend.
+    const current = t.last_volume_l === null ? null : { at: new Date(t.last_at.getTime() + 150_000), volumeL: t.last_volume_l };
+    const capacityL = t.capacity_l ?? (t.geometry ? tankCapacity(t.geometry) : null);
+    const purpose = tankPurposeOf("tank", t.purpose) as TankPurpose;
+    const f = forecastTank({ purpose, series: points, capacityL, reorderPct: t.reorder_pct, safeFillPct: t.safe_fill_pct, current });
     const windowStart = points.length ? points[0].at : t.last_at;
-    return { assetId: t.asset_id, windowStart, windowEnd: t.last_at, f };
+    return { assetId: t.asset_id, windowStart, windowEnd: t.last_at, current, f };
   });
-  await sqlRun(
-    `INSERT INTO tank_forecasts (asset_id, computed_at, window_start, window_end, samples, current_volume_l, reorder_volume_l, slope_l_per_day,
-                                 days_to_reorder, days_to_empty, reorder_at, empty_at, refills)
-     SELECT v.asset_id, now(), v.ws, v.we, v.samples, v.cur, v.reo, v.slope, v.dtr, v.dte, v.rat, v.eat, v.refills
-     FROM unnest($1::uuid[], $2::timestamptz[], $3::timestamptz[], $4::int[], $5::float8[], $6::float8[], $7::float8[], $8::float8[], $9::float8[],
-                 $10::timestamptz[], $11::timestamptz[], $12::jsonb[]) AS v(asset_id, ws, we, samples, cur, reo, slope, dtr, dte, rat, eat, refills)
-     ON CONFLICT (asset_id) DO UPDATE SET computed_at = excluded.computed_at, window_start = excluded.window_start, window_end = excluded.window_end,
-       samples = excluded.samples, current_volume_l = excluded.current_volume_l, reorder_volume_l = excluded.reorder_volume_l,
-       slope_l_per_day = excluded.slope_l_per_day, days_to_reorder = excluded.days_to_reorder, days_to_empty = excluded.days_to_empty,
-       reorder_at = excluded.reorder_at, empty_at = excluded.empty_at, refills = excluded.refills`,
-    [
-      rows.map((r) => r.assetId),
-      rows.map((r) => r.windowStart),
-      rows.map((r) => r.windowEnd),
-      rows.map((r) => r.f.samples),
-      rows.map((r) => r.f.currentVolumeL),
-      rows.map((r) => r.f.reorderVolumeL),
-      rows.map((r) => r.f.slopeLPerDay),
-      rows.map((r) => r.f.daysToReorder),
-      rows.map((r) => r.f.daysToEmpty),
-      rows.map((r) => r.f.reorderAt),
-      rows.map((r) => r.f.emptyAt),
-      rows.map((r) => JSON.stringify(r.f.refills)),
-    ],
-  );
+  await writeForecasts(rows);
   return rows.length;
+}
+
+async function writeForecasts(rows: { assetId: string; windowStart: Date; windowEnd: Date; current: { volumeL: number } | null; f: TankForecast }[]): Promise<void> {
+  const columns: [string, string, (r: (typeof rows)[number]) => unknown][] = [
+    ["asset_id", "uuid", (r) => r.assetId],
+    ["window_start", "timestamptz", (r) => r.windowStart],
+    ["window_end", "timestamptz", (r) => r.windowEnd],
+    ["samples", "int", (r) => r.f.samples],
+    ["current_volume_l", "float8", (r) => r.current?.volumeL ?? null],
+    ["slope_l_per_day", "float8", (r) => (r.f.rateLPerDay === null ? null : r.f.purpose === "sump" ? r.f.rateLPerDay : -r.f.rateLPerDay)],
+    ["refills", "jsonb", (r) => JSON.stringify(r.f.refills)],
+    ["purpose", "tank_purpose", (r) => r.f.purpose],
+    ["status", "text", (r) => r.f.status],
+    ["action", "text", (r) => r.f.action],
+    ["reason", "text", (r) => r.f.reason],
+    ["ready", "boolean", (r) => r.f.readiness?.ready ?? null],
+    ["span_hours", "float8", (r) => r.f.readiness?.spanHours ?? null],
+    ["points", "int", (r) => r.f.readiness?.points ?? null],
+    ["r_squared", "float8", (r) => r.f.readiness?.rSquared ?? null],
+    ["due_at", "timestamptz", (r) => r.f.dueAt],
+    ["limit_at", "timestamptz", (r) => r.f.limitAt],
+    ["volume_l", "float8", (r) => r.f.volumeL],
+    ["rate_l_per_day", "float8", (r) => r.f.rateLPerDay],
+  ];
+  const names = columns.map(([name]) => name);
+  await sqlRun(
+    `INSERT INTO tank_forecasts (computed_at, ${names.join(", ")})
+     SELECT now(), v.* FROM unnest(${columns.map(([, type], i) => `$${i + 1}::${type}[]`).join(", ")}) AS v(${names.join(", ")})
+     ON CONFLICT (asset_id) DO UPDATE SET computed_at = excluded.computed_at, ${names.slice(1).map((n) => `${n} = excluded.${n}`).join(", ")}`,
+    columns.map(([, , pick]) => rows.map(pick)),
+  );
 }

@@ -41,3 +41,19 @@ export function fallingLevel(mountHeightM: number, hoursAgo: number, fromLevelM:
     return { at: new Date(now - (hoursAgo * 3_600_000 * (steps - i)) / steps - 60_000), distanceM: mountHeightM - level };
   });
 }
+
+/**
+ * Readings at fixed instants every `everyMin` minutes over the `hours` before `end` (the last one at
+ * `end`), the level moving linearly from `fromLevelM` to `toLevelM`. A live transducer's last digit
+ * always moves, so every other reading, counted back from the last (which is exact), is `jitterM`
+ * higher (0.5 mm by default): a level that does not change is still not a stuck sensor.
+ */
+export function levelHistory(mountHeightM: number, end: Date, hours: number, fromLevelM: number, toLevelM: number, opts: { everyMin?: number; jitterM?: number } = {}): SentReading[] {
+  const everyMin = opts.everyMin ?? 60;
+  const jitter = opts.jitterM ?? 0.0005;
+  const steps = Math.round((hours * 60) / everyMin);
+  return Array.from({ length: steps + 1 }, (_, i) => {
+    const level = fromLevelM + ((toLevelM - fromLevelM) * i) / steps + ((steps - i) % 2 ? jitter : 0);
+    return { at: new Date(end.getTime() - (steps - i) * everyMin * 60_000), distanceM: mountHeightM - level };
+  });
+}

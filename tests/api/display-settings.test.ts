@@ -120,7 +120,7 @@ describe("a US-customary organisation", () => {
 
   it("exports the refill plan's volumes in US gallons and alarm values in feet", async () => {
     const plan = csvByName((await text(admin.get(`/api/exports/refill-plan?horizon_days=90`))).body as string);
-    expect(plan.header).toEqual(expect.arrayContaining(["current_volume_gal", "capacity_gal", "deliver_gal"]));
+    expect(plan.header).toEqual(expect.arrayContaining(["volume_gal", "current_volume_gal", "capacity_gal"]));
     expect(plan.header).not.toContain("capacity_l");
     const alarms = csvByName((await text(admin.get(`/api/exports/alarms?from=${new Date(Date.now() - 3_600_000).toISOString()}&to=${new Date().toISOString()}`))).body as string);
     const activation = alarms.rows.find((r) => r.event === "activated" && r.alarm_kind === "h");

@@ -3,7 +3,7 @@ import type { Agent } from "./session";
 // Provisioning through the management API, as an admin would.
 export async function createTankWithDevice(
   admin: Agent,
-  opts: { profile?: string; device?: Record<string, unknown>; channels?: number[]; maxRequestsPerMin?: number } = {},
+  opts: { profile?: string; asset?: Record<string, unknown>; device?: Record<string, unknown>; channels?: number[]; maxRequestsPerMin?: number } = {},
 ) {
   const tag = `${Date.now()}-${Math.random().toString(36).slice(2, 7)}`;
   const site = await admin.post("/api/sites").send({ name: `Test site ${tag}`, time_zone: "Europe/Dublin" });
@@ -16,6 +16,7 @@ export async function createTankWithDevice(
     safe_fill_pct: 90,
     reorder_pct: 25,
     geometry: { shape: "rectangular", length_m: 2, width_m: 1.5, height_m: 2.8 },
+    ...(opts.asset ?? {}),
   });
   if (tank.status !== 201) throw new Error(`asset: ${tank.status} ${JSON.stringify(tank.body)}`);
   const channels = (opts.channels ?? [0]).map((index) => ({ index, asset_id: index === 0 ? tank.body.id : null }));

@@ -151,7 +151,7 @@ describe("the scenario over time", () => {
     expect(timeZoneOffsetMs(Date.parse("2026-03-29T01:00:00Z"), "Europe/London")).toBe(HOUR);
   });
 
-  it("draws tanks down by use and refills them now and then, without jumps", () => {
+  it("draws tanks down by use and refills them now and then (a sump: fills and is pumped out), without jumps", () => {
     for (const d of DEVICES) {
       for (const c of d.channels.filter((ch): ch is SimTankChannel => ch.kind === "tank")) {
         const fills: number[] = [];
@@ -161,8 +161,9 @@ describe("the scenario over time", () => {
         expect(Math.max(...fills)).toBeLessThanOrEqual(hi + 1e-9);
         const steps = fills.slice(1).map((f, i) => f - fills[i]);
         expect(Math.max(...steps.map(Math.abs))).toBeLessThanOrEqual(((hi - lo) * 5) / refill_minutes + 0.5);
-        // Falling most of the time: refills are short.
-        expect(steps.filter((s) => s < 0).length / steps.length).toBeGreaterThan(0.8);
+        // Falling most of the time (a sump: rising), refills (pump-outs) are short.
+        const towardsRefill = c.usage.fills ? steps.filter((s) => s > 0) : steps.filter((s) => s < 0);
+        expect(towardsRefill.length / steps.length, c.asset_name).toBeGreaterThan(0.8);
       }
     }
     const clearwater = device("BWC-NW-01").channels[0] as SimTankChannel;
@@ -174,6 +175,19 @@ describe("the scenario over time", () => {
     // 55 % a day over a 50 % range: a refill about every 22 h.
     expect(refills).toBeGreaterThanOrEqual(13);
     expect(refills).toBeLessThanOrEqual(17);
+  });
+
+  it("fills the sludge sump and pumps it out, as sumps are: it is not drawn down by use", () => {
+    const found = DEVICES.flatMap((d) => d.channels.map((c) => ({ d, c }))).find(({ c }) => c.asset_name === "Sludge Holding Sump");
+    const sump = found!.c as SimTankChannel;
+    expect(sump.usage.fills).toBe(true);
+    const fills: number[] = [];
+    for (let t = CLOCK.originMs; t < FIRST_RUN; t += 5 * MIN) fills.push(tankFillPct(sump.usage, t, found!.d.site.time_zone));
+    const falling = fills.slice(1).map((f, i) => f < fills[i]);
+    const pumpOuts = falling.filter((r, i) => r && i > 0 && !falling[i - 1]).length;
+    // Computed: 7 % a day over the 12 … 75 % range is a pump-out every 9 days.
+    const days = (FIRST_RUN - CLOCK.originMs) / (24 * HOUR);
+    expect(Math.abs(pumpOuts - (days * 7) / 63)).toBeLessThanOrEqual(1);
   });
 
   it("parks cars in the bays by day, their roofs nearer than the occupied-below distance, and empties them at night", () => {

@@ -26,6 +26,11 @@ export interface TankUsage {
   /** Where in its draw-down the tank starts, 0 (just refilled) … 1 (about to be refilled). */
   phase: number;
   /**
+   * A sump: it fills at use_pct_per_day from refill_below to refill_to and is pumped out back down
+   * over refill_minutes (it is not emptied by use).
+   */
+  fills?: boolean;
+  /**
    * A planted problem: the deliveries fell behind, so at the simulator's first run the tank stands at
    * this fill (below its refill point), still drawn down by use until the delivery arrives.
    */

@@ -32,9 +32,15 @@ function drawnDownFillPct(usage: TankUsage, tMs: number, timeZone: string): numb
 
 /**
  * Fill, % of capacity by volume, at any time: drawn down by use and refilled once it reaches
- * refill_below, the refill ramping up over refill_minutes (a delivery or a pump run).
+ * refill_below, the refill ramping up over refill_minutes (a delivery or a pump run). A sump is the
+ * mirror image: it fills from refill_below to refill_to and is pumped out over refill_minutes.
  */
 export function tankFillPct(usage: TankUsage, tMs: number, timeZone: string): number {
+  const fill = drawnDownWithRefills(usage, tMs, timeZone);
+  return usage.fills ? usage.refill_below_pct + usage.refill_to_pct - fill : fill;
+}
+
+function drawnDownWithRefills(usage: TankUsage, tMs: number, timeZone: string): number {
   const rampMs = usage.refill_minutes * MINUTE_MS;
   const now = drawnDownFillPct(usage, tMs, timeZone);
   const cycle = Math.floor(cyclePosition(usage, tMs, timeZone));

@@ -15,7 +15,7 @@ export default async function RefillPlanPage() {
       <PageHeader
         title="Refill plan"
         path={[{ href: "/", label: "Overview" }]}
-        facts="Tanks that reach their reorder level within the horizon, soonest first, with the volume to bring them to safe fill."
+        facts="What each tank needs within the horizon by its purpose: deliveries, pump-outs and top-ups, soonest first, and the tanks that need a check before anything is scheduled."
       />
       <Suspense fallback={<Loading />}>
         <RefillPlanTable canExport={can(user.role, "export:read")} />

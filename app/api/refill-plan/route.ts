@@ -7,7 +7,7 @@ import { refillPlanQuery } from "@/lib/validations/export";
 
 const query = refillPlanQuery.extend({ site_id: uuidSchema.optional() });
 
-/** Tanks that reach their reorder level within the horizon, soonest first, with the volume to deliver. */
+/** Deliveries, pump-outs and top-ups due within the horizon, tanks that need a check, and tanks not forecast yet. */
 export const GET = route(async (req) => {
   const user = await requirePermission("dashboard:read");
   const q = parseQuery(req.url, query);

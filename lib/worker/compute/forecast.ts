@@ -1,61 +1,36 @@
-// Forecast stage for one tank: its recent hourly volumes → consumption trend (Theil–Sen, refills
-// left out, via lib/forecast/consumption) → when it reaches the reorder level and empty.
+// Forecast stage for one tank: its recent hourly volumes and its purpose → what its plan needs
+// (lib/forecast/purpose.ts projectTank: readiness first, then the consumption trend with refills or
+// pump-outs left out), dated from the latest measured volume. What depends on the moment of reading
+// (open flags, a value gone stale, a date now passed) is left to the read models (planRow).
 
-import { forecastConsumption, type VolumeSample } from "../../forecast/consumption";
+import { detectRefills, type VolumeSample } from "../../forecast/consumption";
+import { projectTank, type TankProjection, type TankPurpose } from "../../forecast/purpose";
 import { PIPELINE_SETTINGS } from "./settings";
 
 export interface TankForecastInput {
+  purpose: TankPurpose;
   /** Hourly mean volumes over the window, any order. */
   series: readonly VolumeSample[];
-  capacityL: number;
-  /** Reorder level as % of capacity; null when the tank has none. */
+  capacityL: number | null;
   reorderPct: number | null;
-  /** The latest measured volume and its time; default: the series' last point. */
-  current?: VolumeSample;
+  safeFillPct: number | null;
+  /** The latest measured volume and its time; null before the first. */
+  current: VolumeSample | null;
 }
 
-export interface TankForecast {
+export interface TankForecast extends TankProjection {
   samples: number;
-  currentVolumeL: number | null;
-  reorderVolumeL: number | null;
-  slopeLPerDay: number | null;
-  daysToReorder: number | null;
-  daysToEmpty: number | null;
-  reorderAt: Date | null;
-  emptyAt: Date | null;
+  /** When the refills (a sump: the pump-outs) in the window began. */
   refills: Date[];
 }
 
-export function forecastTank({ series, capacityL, reorderPct, current }: TankForecastInput): TankForecast {
-  const reorderVolumeL = reorderPct === null ? null : (reorderPct / 100) * capacityL;
-  const none: TankForecast = {
-    samples: series.length,
-    currentVolumeL: current?.volumeL ?? null,
-    reorderVolumeL,
-    slopeLPerDay: null,
-    daysToReorder: null,
-    daysToEmpty: null,
-    reorderAt: null,
-    emptyAt: null,
-    refills: [],
-  };
-  if (series.length < PIPELINE_SETTINGS.forecastMinSamples || !(capacityL > 0)) return none;
-  const f = forecastConsumption(series, {
-    refillThresholdL: PIPELINE_SETTINGS.forecastRefillShare * capacityL,
-    reorderVolumeL: reorderVolumeL ?? 0,
-    currentVolumeL: current?.volumeL,
-    now: current?.at,
-  });
-  const latest = [...series].sort((a, b) => b.at.getTime() - a.at.getTime())[0];
-  return {
-    samples: series.length,
-    currentVolumeL: current?.volumeL ?? latest.volumeL,
-    reorderVolumeL,
-    slopeLPerDay: f.slopeLPerDay,
-    daysToReorder: reorderVolumeL === null ? null : f.daysToReorder,
-    daysToEmpty: f.daysToEmpty,
-    reorderAt: reorderVolumeL === null ? null : f.reorderAt,
-    emptyAt: f.emptyAt,
-    refills: f.refills,
-  };
+export function forecastTank(input: TankForecastInput): TankForecast {
+  const { series, capacityL, purpose } = input;
+  const share = PIPELINE_SETTINGS.forecastRefillShare;
+  // A sump's pump-out is a rise of the room left in it.
+  const refills =
+    capacityL !== null && capacityL > 0
+      ? detectRefills(purpose === "sump" ? series.map((s) => ({ at: s.at, volumeL: capacityL - s.volumeL })) : series, { refillThresholdL: share * capacityL }).map((r) => r.at)
+      : [];
+  return { samples: series.length, refills, ...projectTank({ ...input, refillShare: share }) };
 }

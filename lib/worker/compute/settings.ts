@@ -49,10 +49,12 @@ export const PIPELINE_SETTINGS = {
   crosstalkGapMs: 60,
   /** Recent apparent-speed-of-sound ratios kept for the health view. */
   apparentSpeedWindow: 15,
-  /** Forecast: hourly rollups over this many days; a rise above this share of capacity is a refill. */
+  /**
+   * Forecast: hourly rollups over this many days; a rise above this share of capacity is a refill (a
+   * sump's fall, a pump-out). How much history is enough is lib/forecast/readiness.ts's to say.
+   */
   forecastWindowDays: 7,
   forecastRefillShare: 0.05,
-  forecastMinSamples: 6,
 } as const;
 
 export type PipelineSettings = typeof PIPELINE_SETTINGS;
