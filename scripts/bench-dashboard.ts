@@ -1,17 +1,20 @@
 // Dashboard benchmark (`npm run bench:dashboard`): a fresh database with 2,000 channels × 30 days of
 // measurements (10 million rows, generated in SQL) and their 5-minute and hourly rollups, the
 // production server on it, and from a second process the fleet overview, a site, the alarms table
-// and a 30-day asset series under load. Prints p50/p95/p99 per route (targets, issue 16: p95 ≤ 50 ms at
+// and a 30-day asset series under load. Prints p50/p95/p99 and CPU per request per route (targets, issue 16: p95 ≤ 50 ms at
 // one client, ≤ 100 ms at four) and the wire size of the 30-day hourly series (target < 60 KB).
 //
 // Options: BENCH_CHANNELS (2000), BENCH_PER_CHANNEL (5000 measurements over 30 days), BENCH_SECONDS
 // (10 a route and concurrency), BENCH_CONNECTIONS (1,4), BENCH_SKIP_BUILD=1 (reuse the last build), --keep (leave the database),
-// BENCH_REUSE_DB=<name> (measure a database a --keep run left, without seeding or dropping it).
+// BENCH_REUSE_DB=<name> (measure a database a --keep run left, without seeding or dropping it), BENCH_PORT
+// (a free port by default). Beside latency each route prints the server side's CPU time per request (the
+// web server's processes and the database backends, from /proc), which a busy machine distorts far less.
 // The load side is this file again: `tsx scripts/bench-dashboard.ts --load <url> <cookie> <path> <s> <connections>`.
 import { execFileSync, spawn, type ChildProcess } from "node:child_process";
 import { randomBytes, randomUUID } from "node:crypto";
 import fs from "node:fs";
 import http from "node:http";
+import net from "node:net";
 import { createRequire } from "node:module";
 import os from "node:os";
 import path from "node:path";
@@ -33,7 +36,6 @@ const SITES = 20;
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 10);
 // One client at a time (what a person waits for) and four at once (a busy control room on two cores).
 const CONNECTIONS = (process.env.BENCH_CONNECTIONS ?? "1,4").split(",").map(Number);
-const PORT = Number(process.env.BENCH_PORT ?? 3310);
 const DIST_DIR = ".next-bench-dashboard";
 const TARGET_P95_MS: Record<number, number> = { 1: 50, 4: 100 };
 const TARGET_SERIES_BYTES = 60 * 1024;
@@ -152,6 +154,11 @@ const HOURLY_ROLLUPS_SQL = `
 const STATE_SQL = `
   INSERT INTO channel_state (channel_id, last_at, last_reading_id)
     SELECT channel_id, max(at), max(reading_id) FROM measurements GROUP BY channel_id;
+  INSERT INTO channel_latest (channel_id, reading_id, at, distance_m, level_m, volume_l, fill_pct, uncertainty_m, occupied)
+    SELECT c.id, m.reading_id, m.at, m.distance_m, m.level_m, m.volume_l, m.fill_pct, m.uncertainty_m, m.occupied
+    FROM channels c CROSS JOIN LATERAL (
+      SELECT * FROM measurements m WHERE m.channel_id = c.id AND m.status = 'ok' ORDER BY m.at DESC, m.reading_id DESC LIMIT 1
+    ) m;
   INSERT INTO occupancy_sessions (asset_id, channel_id, started_at, ended_at, duration_s)
     SELECT bc.asset_id, bc.id, now() - interval '3 hours', CASE WHEN bc.j % 3 = 0 THEN NULL ELSE now() - interval '40 minutes' END, 8400
     FROM bench_channels bc WHERE bc.j % 10 BETWEEN 5 AND 7;
@@ -194,6 +201,18 @@ async function seed(url: string) {
   });
   const counts = await withClient(url, async (c) => (await c.query(`SELECT (SELECT count(*) FROM measurements) AS m, (SELECT count(*) FROM measurement_rollups) AS r, (SELECT count(*) FROM alarms) AS a`)).rows[0]);
   log(`seeded ${Number(counts.m).toLocaleString("en-GB")} measurements, ${Number(counts.r).toLocaleString("en-GB")} rollup rows, ${counts.a} alarms in ${((Date.now() - started) / 1000).toFixed(0)} s`);
+}
+
+/** BENCH_PORT, or a port free now: with a fixed default, a second run on the machine measured the first one's server. */
+function serverPort(): Promise<number> {
+  if (process.env.BENCH_PORT) return Promise.resolve(Number(process.env.BENCH_PORT));
+  return new Promise((resolve, reject) => {
+    const probe = net.createServer().once("error", reject);
+    probe.listen(0, "127.0.0.1", () => {
+      const { port } = probe.address() as net.AddressInfo;
+      probe.close(() => resolve(port));
+    });
+  });
 }
 
 async function waitFor(url: string) {
@@ -273,6 +292,47 @@ function wireBytes(url: string, cookie: string, encoding: "identity" | "gzip"): 
   });
 }
 
+// CPU time the server side spent (the web server's processes and the database's backends of this
+// database), read from /proc: a cost per request that a busy machine slows down far less than latency.
+const MS_PER_TICK = 1000 / Number(execFileSync("getconf", ["CLK_TCK"], { encoding: "utf8" }).trim() || 100);
+
+function procStat(pid: number): string[] | null {
+  try {
+    const stat = fs.readFileSync(`/proc/${pid}/stat`, "utf8");
+    return stat.slice(stat.lastIndexOf(")") + 2).split(" ");
+  } catch {
+    return null;
+  }
+}
+
+interface CpuSnapshot {
+  web: Map<number, number>;
+  db: Map<number, number>;
+}
+
+async function cpuSnapshot(serverGroup: number, url: string, dbName: string): Promise<CpuSnapshot> {
+  const ticks = (f: string[]) => Number(f[11]) + Number(f[12]);
+  const web = new Map<number, number>();
+  for (const entry of fs.readdirSync("/proc")) {
+    const f = /^\d+$/.test(entry) ? procStat(Number(entry)) : null;
+    if (f && Number(f[2]) === serverGroup) web.set(Number(entry), ticks(f));
+  }
+  const pids = await withClient(url, async (c) => (await c.query(`SELECT pid FROM pg_stat_activity WHERE datname = $1 AND pid <> pg_backend_pid()`, [dbName])).rows as { pid: number }[]);
+  const db = new Map<number, number>();
+  for (const { pid } of pids) {
+    const f = procStat(pid);
+    if (f) db.set(pid, ticks(f));
+  }
+  return { web, db };
+}
+
+/** Milliseconds of CPU between two snapshots; a process that appeared in between counts whole. */
+function cpuMs(before: Map<number, number>, after: Map<number, number>): number {
+  let ticks = 0;
+  for (const [pid, t] of after) ticks += t - (before.get(pid) ?? 0);
+  return ticks * MS_PER_TICK;
+}
+
 function measure(base: string, cookie: string, route: string, connections: number): LoadResult {
   const out = execFileSync(path.join(root, "node_modules/.bin/tsx"), [__filename, "--load", base, cookie, route, String(SECONDS), String(connections)], { cwd: root, encoding: "utf8" });
   return JSON.parse(out.trim().split("\n").pop() as string) as LoadResult;
@@ -295,6 +355,7 @@ async function main() {
     await withClient(adminUrl, (c) => c.query(`CREATE DATABASE ${dbName}`));
   }
   let server: ChildProcess | undefined;
+  const PORT = await serverPort();
   try {
     const env: NodeJS.ProcessEnv = { ...process.env, DATABASE_URL: url, AUTH_SECRET: randomBytes(16).toString("hex"), NODE_ENV: "production", DB_POOL_MAX: "10", PORT: String(PORT), NEXT_DIST_DIR: DIST_DIR };
     if (!reuse) {
@@ -303,7 +364,8 @@ async function main() {
     }
     if (process.env.BENCH_SKIP_BUILD === "1" && fs.existsSync(path.join(root, DIST_DIR, "BUILD_ID"))) log(`reusing the build in ${DIST_DIR}`);
     else execFileSync(path.join(root, "node_modules/.bin/next"), ["build"], { cwd: root, env, stdio: "inherit" });
-    server = spawn(path.join(root, "node_modules/.bin/next"), ["start", "-p", String(PORT)], { cwd: root, env, stdio: "ignore", detached: true });
+    server = spawn(path.join(root, "node_modules/.bin/next"), ["start", "-H", "127.0.0.1", "-p", String(PORT)], { cwd: root, env, stdio: "ignore", detached: true });
+    server.once("exit", (code) => log(`the server exited (${code}) — is port ${PORT} taken?`));
     const base = `http://127.0.0.1:${PORT}`;
     await waitFor(`${base}/api/health`);
     const cookie = await signIn(base);
@@ -325,7 +387,16 @@ async function main() {
     const fullSeriesRoute = seriesRoute.replace(`&fields=${SERIES_FIELDS}`, "");
     // One request each first, so first-use compilation and cold caches are not measured.
     for (const [, route] of routes) await fetch(`${base}${route}`, { headers: { cookie } });
-    const results = CONNECTIONS.flatMap((connections) => routes.map(([name, route]) => ({ name, route, connections, ...measure(base, cookie, route, connections) })));
+    const results = [];
+    for (const connections of CONNECTIONS) {
+      for (const [name, route] of routes) {
+        const before = await cpuSnapshot(server.pid as number, url, dbName);
+        const load = measure(base, cookie, route, connections);
+        const after = await cpuSnapshot(server.pid as number, url, dbName);
+        const per = (ms: number) => ms / Math.max(1, load.requests);
+        results.push({ name, route, connections, ...load, webCpuMs: per(cpuMs(before.web, after.web)), dbCpuMs: per(cpuMs(before.db, after.db)) });
+      }
+    }
     log(`machine: ${os.cpus().length} × ${os.cpus()[0]?.model ?? "cpu"}, ${(os.totalmem() / 2 ** 30).toFixed(0)} GiB, Node ${process.version}, load average ${os.loadavg()[0].toFixed(1)}; ${SECONDS} s a route`);
     const wire = {
       compact: await wireBytes(`${base}${seriesRoute}`, cookie, "identity"),
@@ -338,10 +409,12 @@ async function main() {
     for (const r of results) {
       const target = TARGET_P95_MS[r.connections];
       const verdict = r.non2xx > 0 ? `${r.non2xx} non-2xx answers` : r.name.startsWith("baseline") || !target ? "for comparison" : r.p95 <= target ? `target ≤ ${target} ms met` : `target ≤ ${target} ms NOT met`;
-      log(`${r.name.padEnd(20)} ${r.connections} conn · p50 ${String(r.p50).padStart(6)} ms · p95 ${String(r.p95).padStart(6)} ms · p99 ${String(r.p99).padStart(6)} ms · ${r.rps.toFixed(1).padStart(6)} req/s · ${r.bytes} B · ${verdict}`);
+      const cpu = `CPU ${(r.webCpuMs + r.dbCpuMs).toFixed(1)} ms/req (web ${r.webCpuMs.toFixed(1)}, db ${r.dbCpuMs.toFixed(1)})`;
+      log(`${r.name.padEnd(20)} ${r.connections} conn · p50 ${String(r.p50).padStart(6)} ms · p95 ${String(r.p95).padStart(6)} ms · p99 ${String(r.p99).padStart(6)} ms · ${r.rps.toFixed(1).padStart(6)} req/s · ${r.bytes} B · ${cpu} · ${verdict}`);
     }
   } finally {
-    if (server?.pid) process.kill(-server.pid, "SIGTERM");
+    server?.removeAllListeners("exit");
+    if (server?.pid && server.exitCode === null) process.kill(-server.pid, "SIGTERM");
     await new Promise((r) => setTimeout(r, 1000));
     if (!keep) await withClient(adminUrl, (c) => c.query(`DROP DATABASE IF EXISTS ${dbName} WITH (FORCE)`));
     else log(`kept database ${dbName}`);

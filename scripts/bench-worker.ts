@@ -19,6 +19,7 @@ import path from "node:path";
 import { execFileSync } from "node:child_process";
 import { adminUrl, dbUrl, ensureBenchPostgres, withClient } from "./bench/pg";
 import { checkAnchor, runAnchor } from "./bench/worker-anchor";
+import { postmasterPid, serverCpuSeconds } from "./bench/pg-cpu";
 import { QUEUE_INSERTED, RETURNING_QUEUED_COLUMNS } from "../lib/worker/reading-queue";
 
 const readingsWanted = Number(process.env.BENCH_READINGS ?? 1_000_000);
@@ -149,10 +150,13 @@ interface WorkerRun {
   peakRssKb: number[];
   /** CPU seconds of each worker, as last polled (up to half a second before it exited). */
   cpuS: number[];
+  /** CPU seconds the PostgreSQL server (all its processes) used meanwhile. */
+  serverCpuS: number;
 }
 
 /** Starts `count` bundled workers with `--once` on one database and waits until all have exited. */
-async function runWorkers(count: number, workerBundle: string, env: NodeJS.ProcessEnv): Promise<WorkerRun> {
+async function runWorkers(count: number, workerBundle: string, env: NodeJS.ProcessEnv, postmaster: number): Promise<WorkerRun> {
+  const serverBefore = serverCpuSeconds(postmaster);
   const started = process.hrtime.bigint();
   const runs = Array.from({ length: count }, async (_, i) => {
     const peak: Peak = { rssKb: 0, cpuS: 0 };
@@ -169,7 +173,9 @@ async function runWorkers(count: number, workerBundle: string, env: NodeJS.Proce
     return { drainMs: Number(/drain (\d+)/.exec(output)?.[1] ?? 0), rssKb: peak.rssKb, cpuS: peak.cpuS };
   });
   const done = await Promise.all(runs);
-  return { seconds: Number(process.hrtime.bigint() - started) / 1e9, drainMs: done.map((d) => d.drainMs), peakRssKb: done.map((d) => d.rssKb), cpuS: done.map((d) => d.cpuS) };
+  const seconds = Number(process.hrtime.bigint() - started) / 1e9;
+  await settle();
+  return { seconds, drainMs: done.map((d) => d.drainMs), peakRssKb: done.map((d) => d.rssKb), cpuS: done.map((d) => d.cpuS), serverCpuS: serverCpuSeconds(postmaster) - serverBefore };
 }
 
 /** Every queued reading measured exactly once, and the rollups counting them all. */
@@ -189,12 +195,31 @@ async function checkDrained(url: string, queued: number): Promise<string> {
 }
 
 const perSecond = (n: number, seconds: number) => Math.round(n / seconds);
+/** Lets the backends of connections just closed exit and be reaped, so their CPU time is counted. */
+const settle = () => new Promise((resolve) => setTimeout(resolve, 1000));
+
+/** Where a run's CPU went: the workers', the server's, and how many cores that kept busy on average. */
+function cpuAccount(label: string, run: WorkerRun, readings: number): string {
+  const workers = run.cpuS.reduce((a, b) => a + b, 0);
+  const total = workers + run.serverCpuS;
+  return (
+    `${label}: CPU ${workers.toFixed(1)} s worker${run.cpuS.length > 1 ? "s" : ""} + ${run.serverCpuS.toFixed(1)} s PostgreSQL = ${total.toFixed(1)} s in ${run.seconds.toFixed(1)} s ` +
+    `(${(total / run.seconds).toFixed(2)} cores busy; ${((workers * 1e6) / readings).toFixed(1)} + ${((run.serverCpuS * 1e6) / readings).toFixed(1)} µs a reading)`
+  );
+}
+
+/** The drain rate if every core did nothing but what one worker and the server spend per reading. */
+function cpuBound(run: WorkerRun, readings: number, cores: number): { microsPerReading: number; rate: number; times: number } {
+  const microsPerReading = ((run.cpuS[0] + run.serverCpuS) * 1e6) / readings;
+  const rate = Math.round((cores * 1e6) / microsPerReading);
+  return { microsPerReading, rate, times: Math.round((rate / perSecond(readings, run.seconds)) * 100) / 100 };
+}
 const fmt = (n: number) => n.toLocaleString("en-GB");
 const mb = (kb: number) => Math.round(kb / 1024);
 const loadAverage = () => os.loadavg().map((l) => l.toFixed(2)).join(", ");
 
 /** A/B: one worker of each bundle in turn, each on its own file copy of the twin (the untouched backlog). */
-async function compareBundles(bundles: string[], queued: number, runEnv: (e: NodeJS.ProcessEnv) => NodeJS.ProcessEnv, env: NodeJS.ProcessEnv): Promise<void> {
+async function compareBundles(bundles: string[], queued: number, runEnv: (e: NodeJS.ProcessEnv) => NodeJS.ProcessEnv, env: NodeJS.ProcessEnv, postmaster: number): Promise<void> {
   const rounds = Number(process.env.BENCH_ROUNDS ?? 3);
   const rates = new Map<string, number[]>(bundles.map((b) => [b, []]));
   const cpu = new Map<string, number[]>(bundles.map((b) => [b, []]));
@@ -206,12 +231,12 @@ async function compareBundles(bundles: string[], queued: number, runEnv: (e: Nod
         await c.query(`CREATE DATABASE ${copy} TEMPLATE ${twinName} STRATEGY FILE_COPY`);
         await c.query("CHECKPOINT");
       });
-      const run = await runWorkers(1, path.resolve(bundle), runEnv({ ...env, DATABASE_URL: dbUrl(copy), WORKER_QUIET: "1" }));
+      const run = await runWorkers(1, path.resolve(bundle), runEnv({ ...env, DATABASE_URL: dbUrl(copy), WORKER_QUIET: "1" }), postmaster);
       await checkDrained(dbUrl(copy), queued);
       await withClient(adminUrl, (c) => c.query(`DROP DATABASE ${copy} WITH (FORCE)`));
       rates.get(bundle)!.push(perSecond(queued, run.seconds));
       cpu.get(bundle)!.push(run.cpuS[0]);
-      log(`round ${round} ${bundle}: ${fmt(perSecond(queued, run.seconds))} readings/s, worker CPU ${run.cpuS[0].toFixed(1)} s, peak RSS ${mb(run.peakRssKb[0])} MB, load ${loadAverage()}`);
+      log(`round ${round} ${bundle}: ${fmt(perSecond(queued, run.seconds))} readings/s, worker CPU ${run.cpuS[0].toFixed(1)} s, PostgreSQL CPU ${run.serverCpuS.toFixed(1)} s, peak RSS ${mb(run.peakRssKb[0])} MB, load ${loadAverage()}`);
     }
   }
   const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[xs.length >> 1];
@@ -253,24 +278,29 @@ async function main() {
     log(`seeded ${queued} queued readings (and a copy) in ${((Date.now() - seedStart) / 1000).toFixed(1)} s`);
 
     const { workerRunEnv } = await import("./lib/worker-env.mjs");
+    const postmaster = await withClient(adminUrl, postmasterPid);
     if (process.env.BENCH_AB) {
-      await compareBundles(process.env.BENCH_AB.split(","), queued, workerRunEnv, env);
+      await compareBundles(process.env.BENCH_AB.split(","), queued, workerRunEnv, env, postmaster);
       return;
     }
     // The worker as production runs it: bundled by scripts/build-worker.mjs, plain Node.
     execFileSync(process.execPath, ["scripts/build-worker.mjs"], { cwd: root, stdio: "inherit" });
     const workerBundle = path.join(root, ".worker", "worker.cjs");
 
-    const one = await runWorkers(1, workerBundle, workerRunEnv(env));
+    const one = await runWorkers(1, workerBundle, workerRunEnv(env), postmaster);
     const rate1 = perSecond(queued, one.seconds);
     log(`1 worker drained ${queued} readings in ${one.seconds.toFixed(1)} s → ${fmt(rate1)} readings/s (process start included)`);
     if (one.drainMs[0] > 0) log(`1 worker: queue drain alone ${(one.drainMs[0] / 1000).toFixed(1)} s → ${fmt(perSecond(queued, one.drainMs[0] / 1000))} readings/s`);
     log(`1 worker: peak RSS ${mb(one.peakRssKb[0])} MB, CPU ${one.cpuS[0].toFixed(1)} s`);
+    log(cpuAccount("1 worker", one, queued));
     log(`1 worker check: ${await checkDrained(url, queued)}`);
 
+    const anchorServerBefore = serverCpuSeconds(postmaster);
     const anchor = await withClient(url, runAnchor);
+    await settle();
+    const anchorServerCpuS = serverCpuSeconds(postmaster) - anchorServerBefore;
     const anchorRate = perSecond(anchor.rows, anchor.seconds);
-    log(`anchor INSERT … SELECT: ${anchor.rows} rows in ${anchor.seconds.toFixed(1)} s → ${fmt(anchorRate)} rows/s`);
+    log(`anchor INSERT … SELECT: ${anchor.rows} rows in ${anchor.seconds.toFixed(1)} s → ${fmt(anchorRate)} rows/s (PostgreSQL CPU ${anchorServerCpuS.toFixed(1)} s)`);
     const agree = await withClient(url, checkAnchor);
     log(
       `anchor check on ${agree.compared} distances: max |Δ| distance ${agree.maxDistanceDiffM.toExponential(2)} m, level ${agree.maxLevelDiffM.toExponential(2)} m, ` +
@@ -280,10 +310,11 @@ async function main() {
       throw new Error("the anchor does not compute the worker's distances, levels and volumes");
     }
 
-    const two = await runWorkers(2, workerBundle, workerRunEnv({ ...env, DATABASE_URL: twinUrl }));
+    const two = await runWorkers(2, workerBundle, workerRunEnv({ ...env, DATABASE_URL: twinUrl }), postmaster);
     const rate2 = perSecond(queued, two.seconds);
     log(`2 workers drained ${queued} readings in ${two.seconds.toFixed(1)} s → ${fmt(rate2)} readings/s (process start included)`);
     log(`2 workers: peak RSS ${two.peakRssKb.map(mb).join(" MB, ")} MB, CPU ${two.cpuS.map((x) => x.toFixed(1)).join(" s, ")} s`);
+    log(cpuAccount("2 workers", two, queued));
     log(`2 workers check: ${await checkDrained(twinUrl, queued)}`);
 
     const ratio = Math.round((rate1 / anchorRate) * 1000) / 1000;
@@ -293,6 +324,8 @@ async function main() {
     log(`machine: ${os.cpus().length} × ${os.cpus()[0]?.model ?? "cpu"}, ${(os.totalmem() / 2 ** 30).toFixed(0)} GiB, Node ${process.version}`);
     log(`worker ÷ anchor: ${ratio} (target ≥ 0.35) — ${ratio >= 0.35 ? "met" : "NOT met"}; peak RSS ${Math.round(rssMb)} MB (target ≤ 300) — ${rssMb <= 300 ? "met" : "NOT met"}`);
     log(`2 workers ÷ 1: ${scaling}× (target ≥ 1.3×) — ${scaling >= 1.3 ? "met" : "NOT met"}`);
+    const bound = cpuBound(one, queued, os.cpus().length);
+    log(`CPU bound: one worker and PostgreSQL use ${fmt(Math.round(bound.microsPerReading * 10) / 10)} µs of CPU a reading; ${os.cpus().length} cores busy all the time would drain ${fmt(bound.rate)} readings/s = ${bound.times}× one worker`);
     process.stdout.write(
       JSON.stringify({
         ratio,
@@ -301,6 +334,8 @@ async function main() {
         anchor_rows_per_s: anchorRate,
         peak_rss_mb: { "1": mb(one.peakRssKb[0]), "2": two.peakRssKb.map(mb) },
         worker_cpu_s: { "1": Math.round(one.cpuS[0] * 10) / 10, "2": two.cpuS.map((x) => Math.round(x * 10) / 10) },
+        postgres_cpu_s: { "1": Math.round(one.serverCpuS * 10) / 10, "2": Math.round(two.serverCpuS * 10) / 10, anchor: Math.round(anchorServerCpuS * 10) / 10 },
+        cpu_bound_readings_per_s: bound.rate,
         load_average: { before: Math.round(loadBefore * 100) / 100, after: Math.round(os.loadavg()[0] * 100) / 100 },
       }) + "\n",
     );

@@ -1,11 +1,14 @@
 "use client";
 
-import { useState } from "react";
+import { useMemo } from "react";
+import { useForm } from "react-hook-form";
+import { zodResolver } from "@hookform/resolvers/zod";
+import type { z } from "zod";
 import { fetchJson } from "@/lib/fetcher";
 import { MAX_SHELVE_HOURS } from "@/lib/alarms/engine";
 import { acknowledgeSchema, outOfServiceSchema, shelveSchema } from "@/lib/validations/alarm";
-import { errorsFromApi, FormAlert, SelectField, TextAreaField, errorReader, type FieldErrors } from "@/components/ui/form-fields";
-import { fieldErrors } from "@/lib/http/errors";
+import { applyApiErrors, FormAlert, SelectField, TextAreaField, errorReader } from "@/components/ui/form-fields";
+import { flatErrors, payloadSchema, textBoxes } from "@/components/ui/form-schema";
 import { Dialog } from "@/components/ui/dialog";
 
 // The dialogs behind Acknowledge (one or many, optional comment), Shelve for… (reason and how long,
@@ -24,6 +27,17 @@ export interface BulkResult {
   refused: { id: string; error: string; message: string }[];
 }
 
+const valuesSchema = textBoxes(["reason", "duration_min", "comment"]);
+type Values = z.infer<typeof valuesSchema>;
+
+/** The body each action's API takes, checked by its schema. */
+function actionSchema(mode: AlarmDialogMode) {
+  const comment = (v: Values) => (v.comment.trim() ? { comment: v.comment.trim() } : {});
+  if (mode === "acknowledge") return payloadSchema(valuesSchema, comment, acknowledgeSchema);
+  if (mode === "shelve") return payloadSchema(valuesSchema, (v) => ({ reason: v.reason, duration_min: Number(v.duration_min), ...comment(v) }), shelveSchema);
+  return payloadSchema(valuesSchema, (v) => ({ reason: v.reason, ...comment(v) }), outOfServiceSchema);
+}
+
 async function submit(mode: AlarmDialogMode, ids: readonly string[], body: Record<string, unknown>): Promise<string | null> {
   if (mode === "acknowledge" && ids.length > 1) {
     const r = await fetchJson<BulkResult>("/api/alarms/acknowledge", { method: "POST", body: JSON.stringify({ ids, ...body }) });
@@ -36,32 +50,20 @@ async function submit(mode: AlarmDialogMode, ids: readonly string[], body: Recor
 
 /** A modal form for one action on one or more alarms; `onDone` runs after a successful post (with a partial-success note for bulk). */
 export function AlarmActionDialog({ mode, ids, title, onClose, onDone }: { mode: AlarmDialogMode; ids: readonly string[]; title: string; onClose: () => void; onDone: (note: string | null) => void }) {
-  const [comment, setComment] = useState("");
-  const [reason, setReason] = useState("");
-  const [duration, setDuration] = useState<string>("60");
-  const [errors, setErrors] = useState<FieldErrors>({});
-  const [busy, setBusy] = useState(false);
+  const schema = useMemo(() => actionSchema(mode), [mode]);
+  const form = useForm<Values, unknown, Record<string, unknown>>({ resolver: zodResolver(schema), defaultValues: { reason: "", duration_min: "60", comment: "" } });
+  const { register, formState } = form;
+  const errors = flatErrors(formState.errors);
+  const busy = formState.isSubmitting || formState.isSubmitSuccessful;
   const { read, rest } = errorReader(errors);
 
-  async function onSubmit(event: React.FormEvent) {
-    event.preventDefault();
-    const c = comment.trim() ? { comment: comment.trim() } : {};
-    const parsed =
-      mode === "acknowledge"
-        ? acknowledgeSchema.safeParse(c)
-        : mode === "shelve"
-          ? shelveSchema.safeParse({ reason, duration_min: Number(duration), ...c })
-          : outOfServiceSchema.safeParse({ reason, ...c });
-    if (!parsed.success) return setErrors(fieldErrors(parsed.error));
-    setErrors({});
-    setBusy(true);
+  const onSubmit = form.handleSubmit(async (body) => {
     try {
-      onDone(await submit(mode, ids, parsed.data));
+      onDone(await submit(mode, ids, body));
     } catch (e) {
-      setErrors(errorsFromApi(e));
-      setBusy(false);
+      applyApiErrors(form, e);
     }
-  }
+  });
 
   const verb = mode === "acknowledge" ? "Acknowledge" : mode === "shelve" ? "Shelve" : "Take out of service";
   return (
@@ -73,14 +75,13 @@ export function AlarmActionDialog({ mode, ids, title, onClose, onDone }: { mode:
             label="Reason"
             autoFocus
             rows={2}
-            value={reason}
-            onChange={(e) => setReason(e.target.value)}
+            {...register("reason")}
             error={read("reason")}
             hint={mode === "shelve" ? "Why this alarm may stay silent for a while (it is still evaluated and logged)." : "Why the alarm is taken out of service."}
           />
         )}
         {mode === "shelve" && (
-          <SelectField id="alarm-dialog-duration" label="For" value={duration} onChange={(e) => setDuration(e.target.value)} error={read("duration_min")} hint={`At most ${MAX_SHELVE_HOURS} h; it returns by itself.`}>
+          <SelectField id="alarm-dialog-duration" label="For" {...register("duration_min")} error={read("duration_min")} hint={`At most ${MAX_SHELVE_HOURS} h; it returns by itself.`}>
             {SHELVE_DURATIONS_MIN.map((m) => <option key={m} value={m}>{durationWords(m)}</option>)}
           </SelectField>
         )}
@@ -89,8 +90,7 @@ export function AlarmActionDialog({ mode, ids, title, onClose, onDone }: { mode:
           label="Comment (optional)"
           autoFocus={mode === "acknowledge"}
           rows={2}
-          value={comment}
-          onChange={(e) => setComment(e.target.value)}
+          {...register("comment")}
           error={read("comment")}
         />
         <FormAlert errors={errors} rest={rest()} />

@@ -9,9 +9,11 @@ import { needsAcknowledgement } from "@/lib/alarms/engine";
 import type { AlarmPriority, AlarmState } from "@/lib/alarms/state-machine";
 import type { AlarmJson } from "@/lib/services/alarms";
 import { Loading, LoadError } from "@/components/ui/data-state";
-import { STACKED_TABLE } from "@/components/ui/form-fields";
+import { createColumnHelper } from "@tanstack/react-table";
+import { DataTable } from "@/components/ui/data-table";
 import { AlarmStateLabel, alarmFigure, alarmWhere } from "@/components/alarms/alarm-badges";
 import { useFigures } from "@/components/ui/display-settings";
+import type { Figures } from "@/lib/format/figures";
 import { PriorityBadge } from "@/components/ui/priority-badge";
 import { ALARM_STATE_WORDS } from "@/lib/alarms/vocabulary";
 import { SiteTime } from "@/components/ui/site-time";
@@ -42,6 +44,33 @@ interface NotificationJson extends NoticeDeliveryJson {
 }
 
 type AlarmWithHistory = AlarmJson & { events: AlarmEventJson[]; notifications: NotificationJson[] };
+
+const eventColumn = createColumnHelper<AlarmEventJson>();
+const noticeColumn = createColumnHelper<NotificationJson>();
+const instant = (at: string | null) => (at ? Date.parse(at) : undefined);
+
+function eventColumns(alarm: AlarmWithHistory, zone: string, fig: Figures) {
+  return [
+    eventColumn.accessor((e) => instant(e.at), { id: "when", header: "When", cell: (c) => <SiteTime at={c.row.original.at} zone={zone} />, meta: { cellClassName: "figures whitespace-nowrap" } }),
+    eventColumn.accessor((e) => e.kind.replaceAll("_", " "), { id: "event", header: "Event" }),
+    eventColumn.accessor((e) => (e.from_state && e.to_state ? `${ALARM_STATE_WORDS[e.from_state]} → ${ALARM_STATE_WORDS[e.to_state]}` : "—"), { id: "state", header: "State", enableSorting: false, meta: { cellClassName: "whitespace-nowrap" } }),
+    eventColumn.accessor("cause", { header: "Cause" }),
+    eventColumn.accessor((e) => e.value ?? undefined, { id: "value", header: "Value", cell: (c) => alarmFigure(fig, c.row.original.value, alarm.unit, alarm.kind), meta: { cellClassName: "figures whitespace-nowrap" } }),
+    eventColumn.accessor("setpoint", { header: "Setpoint", enableSorting: false, cell: (c) => alarmFigure(fig, c.getValue(), alarm.unit, alarm.kind), meta: { cellClassName: "figures whitespace-nowrap" } }),
+    eventColumn.accessor((e) => e.actor_label ?? "—", { id: "who", header: "Who" }),
+    eventColumn.accessor((e) => e.comment ?? "", { id: "comment", header: "Comment", enableSorting: false }),
+  ];
+}
+
+function noticeColumns(zone: string) {
+  return [
+    noticeColumn.accessor((n) => n.email ?? "on-call person", { id: "to", header: "To", cell: (c) => <>{c.getValue()} <span className="text-muted">(on call #{c.row.original.position})</span></> }),
+    noticeColumn.accessor((n) => (n.reason === "escalation" ? "Escalation" : "First notice"), { id: "why", header: "Why" }),
+    noticeColumn.display({ id: "delivery", header: "Delivery", cell: (c) => <NoticeDelivery notice={c.row.original} timeZone={zone} /> }),
+    noticeColumn.accessor((n) => instant(n.used_at), { id: "used", header: "Link used", cell: (c) => <SiteTime at={c.row.original.used_at} zone={zone} />, meta: { cellClassName: "figures" } }),
+    noticeColumn.accessor((n) => instant(n.expires_at), { id: "expires", header: "Link expires", cell: (c) => <SiteTime at={c.row.original.expires_at} zone={zone} />, meta: { cellClassName: "figures" } }),
+  ];
+}
 
 /** One alarm: what it is now, the actions the role allows, its events and the e-mails sent about it. */
 export function AlarmDetail({ id, role }: { id: string; role: Role }) {
@@ -97,52 +126,23 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
       </div>
       {problem && <p role="alert" className="field-error">{problem}</p>}
 
-      <section className="card overflow-x-auto" aria-labelledby="alarm-events-title">
-        <h2 id="alarm-events-title" className="px-3 pt-3 text-lg font-bold">Events</h2>
-        <table className={STACKED_TABLE}>
-          <thead>
-            <tr><th scope="col">When</th><th scope="col">Event</th><th scope="col">State</th><th scope="col">Cause</th><th scope="col">Value</th><th scope="col">Setpoint</th><th scope="col">Who</th><th scope="col">Comment</th></tr>
-          </thead>
-          <tbody>
-            {data.events.map((e) => (
-              <tr key={e.id}>
-                <td data-label="When" className="figures whitespace-nowrap"><SiteTime at={e.at} zone={zone} /></td>
-                <td data-label="Event">{e.kind.replaceAll("_", " ")}</td>
-                <td data-label="State" className="whitespace-nowrap">{e.from_state && e.to_state ? `${ALARM_STATE_WORDS[e.from_state]} → ${ALARM_STATE_WORDS[e.to_state]}` : "—"}</td>
-                <td data-label="Cause">{e.cause}</td>
-                <td data-label="Value" className="figures whitespace-nowrap">{alarmFigure(fig, e.value, data.unit, data.kind)}</td>
-                <td data-label="Setpoint" className="figures whitespace-nowrap">{alarmFigure(fig, e.setpoint, data.unit, data.kind)}</td>
-                <td data-label="Who">{e.actor_label ?? "—"}</td>
-                <td data-label="Comment">{e.comment ?? ""}</td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
-      </section>
+      <DataTable
+        data={data.events}
+        columns={eventColumns(data, zone, fig)}
+        getRowId={(e) => String(e.id)}
+        label="Events"
+        title
+        empty="No events recorded for this alarm yet."
+      />
 
-      <section className="card overflow-x-auto" aria-labelledby="alarm-notices-title">
-        <h2 id="alarm-notices-title" className="px-3 pt-3 text-lg font-bold">E-mails</h2>
-        {data.notifications.length === 0 ? (
-          <p className="px-3 py-4 text-sm text-muted">No e-mail has been sent about this alarm.</p>
-        ) : (
-          <table className={STACKED_TABLE}>
-            <thead>
-              <tr><th scope="col">To</th><th scope="col">Why</th><th scope="col">Delivery</th><th scope="col">Link used</th><th scope="col">Link expires</th></tr>
-            </thead>
-            <tbody>
-              {data.notifications.map((n) => (
-                <tr key={n.id}>
-                  <td data-label="To">{n.email ?? "on-call person"} <span className="text-muted">(on call #{n.position})</span></td>
-                  <td data-label="Why">{n.reason === "escalation" ? "Escalation" : "First notice"}</td>
-                  <td data-label="Delivery"><NoticeDelivery notice={n} timeZone={data.site.time_zone} /></td>
-                  <td data-label="Link used" className="figures"><SiteTime at={n.used_at} zone={zone} /></td>
-                  <td data-label="Link expires" className="figures"><SiteTime at={n.expires_at} zone={zone} /></td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        )}
-      </section>
+      <DataTable
+        data={data.notifications}
+        columns={noticeColumns(zone)}
+        getRowId={(n) => n.id}
+        label="E-mails"
+        title
+        empty="No e-mail has been sent about this alarm."
+      />
 
       {dialog && (
         <AlarmActionDialog

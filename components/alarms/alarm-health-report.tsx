@@ -1,16 +1,19 @@
 "use client";
 
 import useSWR from "swr";
-import { usePathname, useRouter, useSearchParams } from "next/navigation";
+import { createColumnHelper } from "@tanstack/react-table";
 import { swrFetcher } from "@/lib/fetcher";
-import { isUuid } from "@/lib/validations/common";
+import { alarmHealthQuerySchema } from "@/lib/validations/alarm";
 import type { BenchmarkedMetric, BenchmarkVerdict } from "@/lib/alarms/alarm-health";
+import type { AlarmPriority } from "@/lib/alarms/state-machine";
 import type { AlarmHealthJson } from "@/lib/read-models/alarm-health";
 import type { SiteJson } from "@/lib/services/sites";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { SiteTime, useTimeDisplay } from "@/components/ui/site-time";
 import { formatDateTime, formatTime } from "@/lib/format/time";
-import { STACKED_TABLE } from "@/components/ui/form-fields";
+import { DataTable } from "@/components/ui/data-table";
+import { useListParams } from "@/components/ui/list-params";
+import { ClearFilters } from "@/components/ui/clear-filters";
 
 const METRICS: { key: keyof AlarmHealthJson["metrics"]; label: string }[] = [
   { key: "averagePer10Min", label: "Alarms per 10 min, average" },
@@ -42,20 +45,39 @@ function figure(m: BenchmarkedMetric): string {
   return `${text} ${m.benchmark.unit}`;
 }
 
-function dateParam(params: URLSearchParams, key: string): string {
-  const v = params.get(key) ?? "";
-  return /^\d{4}-\d{2}-\d{2}$/.test(v) ? v : "";
-}
+const FILTERS = ["from", "to", "site_id"] as const;
+/** The period's ends are calendar days in the URL (the date boxes' values); the API takes instants. */
+const day = (v?: string) => (v && /^\d{4}-\d{2}-\d{2}$/.test(v) ? v : "");
+
+type Metric = (typeof METRICS)[number] & { m: BenchmarkedMetric };
+type Report = AlarmHealthJson;
+const metricColumn = createColumnHelper<Metric>();
+const metricColumns = [
+  metricColumn.accessor("label", { header: "Measure" }),
+  metricColumn.display({ id: "value", header: "This period", cell: (c) => figure(c.row.original.m), meta: { cellClassName: "figures whitespace-nowrap" } }),
+  metricColumn.display({ id: "benchmark", header: "Benchmark", cell: (c) => c.row.original.m.benchmark.text }),
+  metricColumn.display({ id: "verdict", header: "Verdict", cell: (c) => <span className={VERDICT[c.row.original.m.verdict].className}>{VERDICT[c.row.original.m.verdict].text}</span> }),
+  metricColumn.display({ id: "source", header: "Source", cell: (c) => c.row.original.m.source, meta: { cellClassName: "text-xs text-muted" } }),
+];
+
+type Top = Report["top10"][number];
+type Chattering = Report["chattering"][number];
+type Stale = Report["stale"][number];
+const topColumn = createColumnHelper<Top>();
+const chatterColumn = createColumnHelper<Chattering>();
+const staleColumn = createColumnHelper<Stale>();
+const priorityColumn = createColumnHelper<{ priority: AlarmPriority; count: number }>();
+const priorityColumns = [
+  priorityColumn.accessor("priority", { header: "Priority", meta: { cellClassName: "capitalize" } }),
+  priorityColumn.accessor("count", { header: "Activations", meta: { cellClassName: "figures" } }),
+];
 
 /** The alarm system's performance over a period, each figure beside its ISA-18.2 / EEMUA 191 benchmark. */
 export function AlarmHealthReport() {
-  const router = useRouter();
-  const pathname = usePathname();
-  const params = useSearchParams();
-  const search = new URLSearchParams(params.toString());
-  const from = dateParam(search, "from");
-  const to = dateParam(search, "to");
-  const siteId = isUuid(search.get("site_id") ?? "") ? (search.get("site_id") as string) : "";
+  const list = useListParams(alarmHealthQuerySchema, FILTERS, FILTERS);
+  const from = day(list.values.from);
+  const to = day(list.values.to);
+  const siteId = list.values.site_id ?? "";
   const q = new URLSearchParams();
   if (from) q.set("from", new Date(`${from}T00:00:00`).toISOString());
   if (to) q.set("to", new Date(new Date(`${to}T00:00:00`).getTime() + 86_400_000).toISOString());
@@ -66,13 +88,6 @@ export function AlarmHealthReport() {
   const zone = sites.data?.items.find((s) => s.id === siteId)?.time_zone ?? null;
   const time = useTimeDisplay(zone);
 
-  function setParam(key: string, value: string) {
-    const next = new URLSearchParams(params.toString());
-    if (value) next.set(key, value);
-    else next.delete(key);
-    const qs = next.toString();
-    router.replace(qs ? `${pathname}?${qs}` : pathname, { scroll: false });
-  }
   const label = (key: string) => data?.alarm_labels[key] ?? key;
 
   return (
@@ -80,19 +95,20 @@ export function AlarmHealthReport() {
       <div className="flex flex-wrap items-end gap-4" role="group" aria-label="Period">
         <div>
           <label htmlFor="health-from" className="label">From</label>
-          <input id="health-from" type="date" className="field figures" value={from} onChange={(e) => setParam("from", e.target.value)} />
+          <input id="health-from" type="date" className="field figures" value={from} onChange={(e) => list.set({ from: e.target.value })} />
         </div>
         <div>
           <label htmlFor="health-to" className="label">To (inclusive)</label>
-          <input id="health-to" type="date" className="field figures" value={to} onChange={(e) => setParam("to", e.target.value)} />
+          <input id="health-to" type="date" className="field figures" value={to} onChange={(e) => list.set({ to: e.target.value })} />
         </div>
         <div>
           <label htmlFor="health-site" className="label">Site</label>
-          <select id="health-site" className="field" value={siteId} onChange={(e) => setParam("site_id", e.target.value)}>
+          <select id="health-site" className="field" value={siteId} onChange={(e) => list.set({ site_id: e.target.value })}>
             <option value="">All sites</option>
             {sites.data?.items.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
           </select>
         </div>
+        <ClearFilters filtered={list.filtered} onClear={list.clearFilters} />
       </div>
 
       {isLoading && !data && <Loading />}
@@ -106,94 +122,70 @@ export function AlarmHealthReport() {
             {" "}The benchmarks are per operator position: choose the sites one desk or team looks after.
           </p>
 
-          <section className="card overflow-x-auto" aria-labelledby="health-metrics-title">
-            <h2 id="health-metrics-title" className="px-3 pt-3 text-lg font-bold">Against the benchmarks</h2>
-            <table className={STACKED_TABLE}>
-              <thead>
-                <tr><th scope="col">Measure</th><th scope="col">This period</th><th scope="col">Benchmark</th><th scope="col">Verdict</th><th scope="col">Source</th></tr>
-              </thead>
-              <tbody>
-                {METRICS.map(({ key, label: text }) => {
-                  const m = data.metrics[key];
-                  const v = VERDICT[m.verdict];
-                  return (
-                    <tr key={key} data-metric={key}>
-                      <td data-label="Measure">{text}</td>
-                      <td data-label="This period" className="figures whitespace-nowrap">{figure(m)}</td>
-                      <td data-label="Benchmark">{m.benchmark.text}</td>
-                      <td data-label="Verdict" className={v.className}>{v.text}</td>
-                      <td data-label="Source" className="text-xs text-muted">{m.source}</td>
-                    </tr>
-                  );
-                })}
-              </tbody>
-            </table>
-          </section>
+          <DataTable
+            data={METRICS.map((metric) => ({ ...metric, m: data.metrics[metric.key] }))}
+            columns={metricColumns}
+            getRowId={(r) => r.key}
+            sortable={false}
+            label="Against the benchmarks"
+            title
+            empty="No measures."
+            rowProps={(row) => ({ "data-metric": row.original.key })}
+          />
 
           <div className="grid gap-6 lg:grid-cols-2">
-            <section className="card overflow-x-auto" aria-labelledby="health-top-title">
-              <h2 id="health-top-title" className="px-3 pt-3 text-lg font-bold">The 10 most frequent alarms</h2>
-              {data.top10.length === 0 ? <p className="px-3 py-4 text-sm text-muted">No activations in this period.</p> : (
-                <table className={STACKED_TABLE}>
-                  <thead><tr><th scope="col">Alarm</th><th scope="col">Activations</th><th scope="col">Share</th></tr></thead>
-                  <tbody>
-                    {data.top10.map((t) => (
-                      <tr key={t.alarmKey}>
-                        <td data-label="Alarm">{label(t.alarmKey)}</td>
-                        <td data-label="Activations" className="figures">{t.count}</td>
-                        <td data-label="Share" className="figures whitespace-nowrap">{t.sharePct.toFixed(1)} %</td>
-                      </tr>
-                    ))}
-                  </tbody>
-                </table>
-              )}
-            </section>
-            <section className="card overflow-x-auto" aria-labelledby="health-mix-title">
-              <h2 id="health-mix-title" className="px-3 pt-3 text-lg font-bold">Priority mix and floods</h2>
-              <table className={STACKED_TABLE}>
-                <thead><tr><th scope="col">Priority</th><th scope="col">Activations</th></tr></thead>
-                <tbody>
-                  {(["critical", "high", "medium", "low"] as const).map((p) => (
-                    <tr key={p}><td data-label="Priority" className="capitalize">{p}</td><td data-label="Activations" className="figures">{data.priorityCounts[p]}</td></tr>
-                  ))}
-                </tbody>
-              </table>
-              <p className="px-3 py-3 text-sm">
-                {data.floods.length === 0
-                  ? "No floods (more than 10 alarms in 10 min) in this period."
-                  : `${data.floods.length} flood${data.floods.length > 1 ? "s" : ""}: ${data.floods.map((f) => `${formatDateTime(f.start, time)} to ${formatTime(f.end, time)} (${f.alarmCount} alarms, peak ${f.peakPer10Min} in 10 min)`).join("; ")}.`}
-              </p>
-            </section>
-            <section className="card overflow-x-auto" aria-labelledby="health-chatter-title">
-              <h2 id="health-chatter-title" className="px-3 pt-3 text-lg font-bold">Chattering alarms</h2>
-              {data.chattering.length === 0 ? <p className="px-3 py-4 text-sm text-muted">None: no alarm activated 3 or more times within a minute.</p> : (
-                <table className={STACKED_TABLE}>
-                  <thead><tr><th scope="col">Alarm</th><th scope="col">Most in 1 min</th><th scope="col">Activations</th></tr></thead>
-                  <tbody>
-                    {data.chattering.map((c) => (
-                      <tr key={c.alarmKey}><td data-label="Alarm">{label(c.alarmKey)}</td><td data-label="Most in 1 min" className="figures">{c.maxPerMinute}</td><td data-label="Activations" className="figures">{c.activations}</td></tr>
-                    ))}
-                  </tbody>
-                </table>
-              )}
-            </section>
-            <section className="card overflow-x-auto" aria-labelledby="health-stale-title">
-              <h2 id="health-stale-title" className="px-3 pt-3 text-lg font-bold">Stale alarms (active over 24 h)</h2>
-              {data.stale.length === 0 ? <p className="px-3 py-4 text-sm text-muted">None.</p> : (
-                <table className={STACKED_TABLE}>
-                  <thead><tr><th scope="col">Alarm</th><th scope="col">Active since</th><th scope="col">Hours</th></tr></thead>
-                  <tbody>
-                    {data.stale.slice(0, 20).map((s) => (
-                      <tr key={`${s.alarmKey}-${s.activeSince}`}>
-                        <td data-label="Alarm">{label(s.alarmKey)}{s.stillActive && <span className="text-muted"> (still active)</span>}</td>
-                        <td data-label="Active since" className="figures"><SiteTime at={s.activeSince} zone={zone} /></td>
-                        <td data-label="Hours" className="figures">{s.activeHours.toFixed(1)} h</td>
-                      </tr>
-                    ))}
-                  </tbody>
-                </table>
-              )}
-            </section>
+            <DataTable
+              data={data.top10}
+              columns={[
+                topColumn.accessor((t) => label(t.alarmKey), { id: "alarm", header: "Alarm" }),
+                topColumn.accessor("count", { header: "Activations", meta: { cellClassName: "figures" } }),
+                topColumn.accessor("sharePct", { header: "Share", cell: (c) => `${c.getValue().toFixed(1)} %`, meta: { cellClassName: "figures whitespace-nowrap" } }),
+              ]}
+              getRowId={(t) => t.alarmKey}
+              label="The 10 most frequent alarms"
+              title
+              empty="No activations in this period."
+            />
+            <DataTable
+              data={(["critical", "high", "medium", "low"] as const).map((priority) => ({ priority, count: data.priorityCounts[priority] }))}
+              columns={priorityColumns}
+              getRowId={(p) => p.priority}
+              sortable={false}
+              label="Priority mix and floods"
+              title
+              empty="No activations in this period."
+              footer={
+                <p className="px-3 py-3 text-sm">
+                  {data.floods.length === 0
+                    ? "No floods (more than 10 alarms in 10 min) in this period."
+                    : `${data.floods.length} flood${data.floods.length > 1 ? "s" : ""}: ${data.floods.map((f) => `${formatDateTime(f.start, time)} to ${formatTime(f.end, time)} (${f.alarmCount} alarms, peak ${f.peakPer10Min} in 10 min)`).join("; ")}.`}
+                </p>
+              }
+            />
+            <DataTable
+              data={data.chattering}
+              columns={[
+                chatterColumn.accessor((c) => label(c.alarmKey), { id: "alarm", header: "Alarm" }),
+                chatterColumn.accessor("maxPerMinute", { header: "Most in 1 min", meta: { cellClassName: "figures" } }),
+                chatterColumn.accessor("activations", { header: "Activations", meta: { cellClassName: "figures" } }),
+              ]}
+              getRowId={(c) => c.alarmKey}
+              label="Chattering alarms"
+              title
+              empty="None: no alarm activated 3 or more times within a minute."
+            />
+            <DataTable
+              data={data.stale.slice(0, 20)}
+              columns={[
+                staleColumn.accessor((s) => label(s.alarmKey), { id: "alarm", header: "Alarm", cell: (c) => <>{c.getValue()}{c.row.original.stillActive && <span className="text-muted"> (still active)</span>}</> }),
+                staleColumn.accessor((s) => Date.parse(s.activeSince), { id: "since", header: "Active since", cell: (c) => <SiteTime at={c.row.original.activeSince} zone={zone} />, meta: { cellClassName: "figures" } }),
+                staleColumn.accessor("activeHours", { header: "Hours", cell: (c) => `${c.getValue().toFixed(1)} h`, meta: { cellClassName: "figures" } }),
+              ]}
+              getRowId={(s) => `${s.alarmKey}-${s.activeSince}`}
+              label="Stale alarms (active over 24 h)"
+              title
+              empty="None."
+            />
           </div>
         </>
       )}

@@ -1,15 +1,18 @@
 "use client";
 
 import useSWR from "swr";
-import { useState } from "react";
+import { useMemo, useState } from "react";
+import { useForm, useWatch } from "react-hook-form";
+import { zodResolver } from "@hookform/resolvers/zod";
+import { z } from "zod";
 import { fetchJson, swrFetcher } from "@/lib/fetcher";
-import { fieldErrors } from "@/lib/http/errors";
 import { SETPOINT_KEYS, type SetpointKey } from "@/lib/alarms/setpoints";
 import { ALARM_PRIORITIES } from "@/lib/alarms/state-machine";
 import type { SetpointsJson } from "@/lib/services/alarm-setpoints";
 import { putSetpointsSchema } from "@/lib/validations/setpoint";
 import { Loading, LoadError } from "@/components/ui/data-state";
-import { errorReader, errorsFromApi, FormAlert, NumberField, SelectField, numberOrNull, textOf, type FieldErrors } from "@/components/ui/form-fields";
+import { applyApiErrors, errorReader, FormAlert, NumberField, SelectField, numberOrNull, textOf } from "@/components/ui/form-fields";
+import { flatErrors, payloadSchema } from "@/components/ui/form-schema";
 import { useFigures, useQuantityInput } from "@/components/ui/display-settings";
 import { QuantityField } from "@/components/ui/quantity-field";
 import type { QuantityInput } from "@/lib/units/quantity-input";
@@ -23,20 +26,15 @@ type Mode = "off" | "on" | "silent";
 
 const MODE_WORDS: Record<Mode, string> = { off: "Not set", on: "On: alarms", silent: "Kept, not alarming" };
 
-interface Row {
-  mode: Mode;
-  value: string;
-  deadband_m: string;
-  on_delay_s: string;
-  priority: string;
-  latching: boolean;
-}
-
-interface Values {
-  unit: "m" | "pct";
-  rows: Record<SetpointKey, Row>;
-  roc: { mode: Mode; limit: string; priority: string };
-}
+// The boxes sit where the API's body names them (setpoints.h.value), so its messages land beside them.
+const rowSchema = z.object({ mode: z.enum(["off", "on", "silent"]), value: z.string(), deadband_m: z.string(), on_delay_s: z.string(), priority: z.string(), latching: z.boolean() });
+const valuesSchema = z.object({
+  unit: z.enum(["m", "pct"]),
+  setpoints: z.object({ hh: rowSchema, h: rowSchema, l: rowSchema, ll: rowSchema }),
+  rate_of_change: z.object({ mode: z.enum(["off", "on", "silent"]), limit_m_per_h: z.string(), priority: z.string() }),
+});
+type Row = z.infer<typeof rowSchema>;
+type Values = z.infer<typeof valuesSchema>;
 
 function modeOf(s: { enabled: boolean } | null): Mode {
   return s === null ? "off" : s.enabled ? "on" : "silent";
@@ -65,37 +63,42 @@ function initial(d: SetpointsJson, unit: "m" | "pct", qi: QuantityInput): Values
   const r = d.rate_of_change;
   return {
     unit,
-    rows,
-    roc: { mode: modeOf(r), limit: qi.text(r?.limit_m_per_h, "length"), priority: r?.priority ?? d.defaults.priorities.rate_of_change },
+    setpoints: rows,
+    rate_of_change: { mode: modeOf(r), limit_m_per_h: qi.text(r?.limit_m_per_h, "length"), priority: r?.priority ?? d.defaults.priorities.rate_of_change },
   };
 }
 
 function payloadOf(v: Values, qi: QuantityInput) {
   const setpoints = Object.fromEntries(
-    SETPOINT_KEYS.filter((k) => v.rows[k].mode !== "off").map((k) => {
-      const r = v.rows[k];
+    SETPOINT_KEYS.filter((k) => v.setpoints[k].mode !== "off").map((k) => {
+      const r = v.setpoints[k];
       return [k, { value: v.unit === "m" ? qi.read(r.value, "length") : numberOrNull(r.value), deadband_m: qi.read(r.deadband_m, "length") ?? undefined, on_delay_s: numberOrNull(r.on_delay_s) ?? undefined, priority: r.priority, enabled: r.mode === "on", latching: r.latching }];
     }),
   );
   return {
     unit: v.unit,
     setpoints,
-    rate_of_change: v.roc.mode !== "off" ? { limit_m_per_h: qi.read(v.roc.limit, "length"), priority: v.roc.priority, enabled: v.roc.mode === "on" } : null,
+    rate_of_change: v.rate_of_change.mode !== "off" ? { limit_m_per_h: qi.read(v.rate_of_change.limit_m_per_h, "length"), priority: v.rate_of_change.priority, enabled: v.rate_of_change.mode === "on" } : null,
   };
 }
 
-function ModeField({ id, label, mode, onChange, hint }: { id: string; label: string; mode: Mode; onChange: (m: Mode) => void; hint?: string }) {
+// The schema reads through the form's own quantity input, which remembers the texts it wrote.
+function setpointFormSchema(qi: QuantityInput) {
+  return payloadSchema(valuesSchema, (v) => payloadOf(v, qi), putSetpointsSchema);
+}
+
+function ModeField({ id, label, hint, ...select }: { id: string; label: string; hint?: string } & React.SelectHTMLAttributes<HTMLSelectElement>) {
   return (
-    <SelectField id={id} label={label} value={mode} onChange={(e) => onChange(e.target.value as Mode)} hint={hint} className="sm:col-span-2">
+    <SelectField id={id} label={label} hint={hint} className="sm:col-span-2" {...select}>
       {(Object.keys(MODE_WORDS) as Mode[]).map((m) => <option key={m} value={m}>{MODE_WORDS[m]}</option>)}
     </SelectField>
   );
 }
 
-function Check({ id, label, checked, onChange, disabled }: { id: string; label: string; checked: boolean; onChange: (v: boolean) => void; disabled?: boolean }) {
+function Check({ id, label, ...input }: { id: string; label: string } & React.InputHTMLAttributes<HTMLInputElement>) {
   return (
     <label htmlFor={id} className="flex items-center gap-2 text-sm">
-      <input id={id} type="checkbox" checked={checked} disabled={disabled} onChange={(e) => onChange(e.target.checked)} />
+      <input id={id} type="checkbox" {...input} />
       {label}
     </label>
   );
@@ -114,28 +117,23 @@ export function AlarmSetpointForm({ assetId, editable }: { assetId: string; edit
 function SetpointFields({ data, editable, saved, setSaved, onSaved }: { data: SetpointsJson; editable: boolean; saved: boolean; setSaved: (v: boolean) => void; onSaved: (d: SetpointsJson) => void }) {
   const qi = useQuantityInput();
   const fig = useFigures();
-  const [values, setValues] = useState<Values>(() => initial(data, "m", qi));
-  const [errors, setErrors] = useState<FieldErrors>({});
-  const [busy, setBusy] = useState(false);
+  const schema = useMemo(() => setpointFormSchema(qi), [qi]);
+  const form = useForm<Values, unknown, z.output<typeof schema>>({ resolver: zodResolver(schema), defaultValues: initial(data, "m", qi) });
+  const { register, control, formState } = form;
+  const [unit, rows, rocMode] = useWatch({ control, name: ["unit", "setpoints", "rate_of_change.mode"] });
+  const errors = flatErrors(formState.errors);
+  const busy = formState.isSubmitting;
   const { read, rest } = errorReader(errors);
-  const setRow = (key: SetpointKey, patch: Partial<Row>) => setValues((v) => ({ ...v, rows: { ...v.rows, [key]: { ...v.rows[key], ...patch } } }));
-
-  async function onSubmit(event: React.FormEvent) {
-    event.preventDefault();
+  
+  const onSubmit = form.handleSubmit(async (body) => {
     setSaved(false);
-    const parsed = putSetpointsSchema.safeParse(payloadOf(values, qi));
-    if (!parsed.success) return setErrors(fieldErrors(parsed.error));
-    setErrors({});
-    setBusy(true);
     try {
-      onSaved(await fetchJson<SetpointsJson>(`/api/assets/${data.asset_id}/setpoints`, { method: "PUT", body: JSON.stringify(parsed.data) }));
+      onSaved(await fetchJson<SetpointsJson>(`/api/assets/${data.asset_id}/setpoints`, { method: "PUT", body: JSON.stringify(body) }));
       setSaved(true);
     } catch (e) {
-      setErrors(errorsFromApi(e));
-    } finally {
-      setBusy(false);
+      applyApiErrors(form, e);
     }
-  }
+  });
 
   return (
     <form onSubmit={onSubmit} noValidate className="card space-y-4 p-4">
@@ -147,33 +145,33 @@ function SetpointFields({ data, editable, saved, setSaved, onSaved }: { data: Se
         <legend className="label">Enter setpoints as</legend>
         {(["m", "pct"] as const).map((u) => (
           <label key={u} className="flex items-center gap-2">
-            <input type="radio" name="setpoint-unit" value={u} checked={values.unit === u} onChange={() => setValues(initial(data, u, qi))} />
+            <input type="radio" name="setpoint-unit" value={u} checked={unit === u} onChange={() => form.reset(initial(data, u, qi))} />
             {u === "m" ? `level (${qi.symbolOf("length")})` : "fill (% of capacity)"}
           </label>
         ))}
       </fieldset>
       {ORDER.map((key) => {
-        const r = values.rows[key];
+        const r = rows[key];
         const id = (f: string) => `setpoint-${key}-${f}`;
         return (
           <fieldset key={key} className="grid gap-3 border-t border-rule pt-3 sm:grid-cols-6" disabled={!editable}>
             <legend className="sr-only">{LABELS[key]} setpoint</legend>
-            <ModeField id={id("mode")} label={`${LABELS[key]} setpoint`} mode={r.mode} onChange={(mode) => setRow(key, { mode })} hint={r.mode === "silent" ? "Its values are kept and shown on the sounding strip; it raises no alarm." : undefined} />
+            <ModeField id={id("mode")} label={`${LABELS[key]} setpoint`} {...register(`setpoints.${key}.mode`)} hint={r.mode === "silent" ? "Its values are kept and shown on the sounding strip; it raises no alarm." : undefined} />
             <div className="hidden sm:col-span-4 sm:block" />
             {r.mode !== "off" && (
               <>
-                {values.unit === "m" ? (
-                  <QuantityField id={id("value")} label={LABELS[key]} input={qi} quantity="length" value={r.value} onChange={(e) => setRow(key, { value: e.target.value })} error={read(`setpoints.${key}.value`)} />
+                {unit === "m" ? (
+                  <QuantityField id={id("value")} label={LABELS[key]} input={qi} quantity="length" {...register(`setpoints.${key}.value`)} error={read(`setpoints.${key}.value`)} />
                 ) : (
-                  <NumberField id={id("value")} label={LABELS[key]} unit="% fill" value={r.value} onChange={(e) => setRow(key, { value: e.target.value })} error={read(`setpoints.${key}.value`)} />
+                  <NumberField id={id("value")} label={LABELS[key]} unit="% fill" {...register(`setpoints.${key}.value`)} error={read(`setpoints.${key}.value`)} />
                 )}
-                <QuantityField id={id("deadband")} label="Deadband" input={qi} quantity="length" value={r.deadband_m} onChange={(e) => setRow(key, { deadband_m: e.target.value })} error={read(`setpoints.${key}.deadband_m`)} />
-                <NumberField id={id("delay")} label="On-delay" unit="s" step={1} value={r.on_delay_s} onChange={(e) => setRow(key, { on_delay_s: e.target.value })} error={read(`setpoints.${key}.on_delay_s`)} />
-                <SelectField id={id("priority")} label="Priority" value={r.priority} onChange={(e) => setRow(key, { priority: e.target.value })} error={read(`setpoints.${key}.priority`)}>
+                <QuantityField id={id("deadband")} label="Deadband" input={qi} quantity="length" {...register(`setpoints.${key}.deadband_m`)} error={read(`setpoints.${key}.deadband_m`)} />
+                <NumberField id={id("delay")} label="On-delay" unit="s" {...register(`setpoints.${key}.on_delay_s`)} error={read(`setpoints.${key}.on_delay_s`)} />
+                <SelectField id={id("priority")} label="Priority" {...register(`setpoints.${key}.priority`)} error={read(`setpoints.${key}.priority`)}>
                   {ALARM_PRIORITIES.map((p) => <option key={p} value={p}>{p}</option>)}
                 </SelectField>
                 <div className="flex flex-col justify-end sm:col-span-2">
-                  <Check id={id("latching")} label="Latching (needs a reset after it clears)" checked={r.latching} onChange={(latching) => setRow(key, { latching })} />
+                  <Check id={id("latching")} label="Latching (needs a reset after it clears)" {...register(`setpoints.${key}.latching`)} />
                 </div>
               </>
             )}
@@ -182,12 +180,12 @@ function SetpointFields({ data, editable, saved, setSaved, onSaved }: { data: Se
       })}
       <fieldset className="grid gap-3 border-t border-rule pt-3 sm:grid-cols-6" disabled={!editable}>
         <legend className="sr-only">Rate of change</legend>
-        <ModeField id="setpoint-roc-mode" label="Leak alarm: level falling faster than a limit" mode={values.roc.mode} onChange={(mode) => setValues((v) => ({ ...v, roc: { ...v.roc, mode } }))} />
+        <ModeField id="setpoint-roc-mode" label="Leak alarm: level falling faster than a limit" {...register("rate_of_change.mode")} />
         <div className="hidden sm:col-span-4 sm:block" />
-        {values.roc.mode !== "off" && (
+        {rocMode !== "off" && (
           <>
-            <NumberField id="setpoint-roc-limit" label="Limit" unit={`${qi.symbolOf("length")}/h`} value={values.roc.limit} onChange={(e) => setValues((v) => ({ ...v, roc: { ...v.roc, limit: e.target.value } }))} error={read("rate_of_change.limit_m_per_h")} hint="Judged on the trend of the last hour (at least 30 min of readings)." className="sm:col-span-2" />
-            <SelectField id="setpoint-roc-priority" label="Priority" value={values.roc.priority} onChange={(e) => setValues((v) => ({ ...v, roc: { ...v.roc, priority: e.target.value } }))}>
+            <NumberField id="setpoint-roc-limit" label="Limit" unit={`${qi.symbolOf("length")}/h`} {...register("rate_of_change.limit_m_per_h")} error={read("rate_of_change.limit_m_per_h")} hint="Judged on the trend of the last hour (at least 30 min of readings)." className="sm:col-span-2" />
+            <SelectField id="setpoint-roc-priority" label="Priority" {...register("rate_of_change.priority")}>
               {ALARM_PRIORITIES.map((p) => <option key={p} value={p}>{p}</option>)}
             </SelectField>
           </>

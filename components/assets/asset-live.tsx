@@ -218,27 +218,10 @@ export function AssetLive({ assetId, canAcknowledge }: { assetId: string; canAck
         {isTank && <TankCaution />}
       </section>
 
-      <section className="card" aria-labelledby="asset-alarm-history">
-        <h2 id="asset-alarm-history" className="border-b border-rule px-3 py-2 text-lg font-bold">Alarm history</h2>
-        <AlarmHistory events={data.alarm_history} zone={data.asset.site_time_zone} />
-      </section>
-
-      <section className="card" aria-labelledby="asset-flags">
-        <h2 id="asset-flags" className="border-b border-rule px-3 py-2 text-lg font-bold">Sensor health in this period</h2>
-        <FlagHistory flags={data.flags} now={now} zone={data.asset.site_time_zone} />
-      </section>
-
-      {isTank && (
-        <section className="card" aria-labelledby="asset-dips">
-          <h2 id="asset-dips" className="border-b border-rule px-3 py-2 text-lg font-bold">Manual dips in this period</h2>
-          <DipList dips={data.dips} zone={data.asset.site_time_zone} />
-        </section>
-      )}
-
-      <section className="card" aria-labelledby="asset-calibrations">
-        <h2 id="asset-calibrations" className="border-b border-rule px-3 py-2 text-lg font-bold">Calibration changes in this period</h2>
-        <CalibrationList changes={data.calibrations} zone={data.asset.site_time_zone} />
-      </section>
+      <AlarmHistory events={data.alarm_history} zone={data.asset.site_time_zone} />
+      <FlagHistory flags={data.flags} now={now} zone={data.asset.site_time_zone} />
+      {isTank && <DipList dips={data.dips} zone={data.asset.site_time_zone} />}
+      <CalibrationList changes={data.calibrations} zone={data.asset.site_time_zone} />
     </div>
   );
 }

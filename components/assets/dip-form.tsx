@@ -11,6 +11,7 @@ import { useFigures, useQuantityInput } from "@/components/ui/display-settings";
 import { QuantityField } from "@/components/ui/quantity-field";
 import type { Figures } from "@/lib/format/figures";
 import type { QuantityInput } from "@/lib/units/quantity-input";
+import { dipLevelQuestion } from "@/lib/input-checks/questions";
 
 /** The moment now as a datetime-local value in the browser's zone (YYYY-MM-DDTHH:mm). */
 export function localNow(now = new Date()): string {
@@ -47,7 +48,10 @@ function dipFormSchema(maxLevelM: number | null, qi: QuantityInput, fig: Figures
       note: v.note.trim() || undefined,
     }))
     .pipe(recordDipSchema)
-    .refine((d) => maxLevelM === null || d.level_m <= maxLevelM, { path: ["level"], message: `The tank is ${fig.length(maxLevelM)} tall; a dip cannot read higher.` });
+    .superRefine((d, ctx) => {
+      const question = dipLevelQuestion(d.level_m, maxLevelM, (m) => fig.length(m));
+      if (question) ctx.addIssue({ code: "custom", path: ["level"], message: question.message });
+    });
 }
 
 type DipFormValues = { level: string; at: string; note: string };

@@ -7,8 +7,9 @@ import { swrFetcher } from "@/lib/fetcher";
 import type { RefillPlanJson } from "@/lib/read-models/refill-plan";
 import { MAX_HORIZON_DAYS } from "@/lib/validations/export";
 import { createColumnHelper } from "@tanstack/react-table";
-import { formatAge, formatDaysToReorder } from "@/components/fleet/fleet-figures";
+import { formatDaysToReorder } from "@/components/fleet/fleet-figures";
 import { Figure } from "@/components/ui/display-settings";
+import { RelativeTime } from "@/components/ui/site-time";
 import { PURPOSE_NAMES, TankPlanVerdict } from "@/components/assets/tank-plan";
 import { DataTable } from "@/components/ui/data-table";
 
@@ -58,7 +59,7 @@ const columns = [
     meta: { cellClassName: "figures" },
     cell: ({ row: { original: r } }) => (r.days_to_limit === null ? "—" : `${r.purpose === "sump" ? "overflows" : "empty"} ${formatDaysToReorder(r.days_to_limit)}`),
   }),
-  column.accessor("measured_at", { header: "Measured", cell: (c) => (c.getValue() ? formatAge(c.getValue()!) : "never") }),
+  column.accessor("measured_at", { header: "Measured", cell: (c) => (c.getValue() ? <RelativeTime at={c.getValue()!} /> : "never") }),
 ];
 
 /** Tanks the plan cannot schedule yet, with why (a forecast needs a long, steady history). */

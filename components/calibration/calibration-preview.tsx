@@ -4,7 +4,22 @@ import type { CalibrationPreviewJson } from "@/lib/services/calibration";
 import { CalibrationTrend } from "@/components/calibration/calibration-trend";
 import { formatSignedMm } from "@/components/assets/dip-table";
 import { SiteTime } from "@/components/ui/site-time";
-import { STACKED_TABLE } from "@/components/ui/form-fields";
+import { DataTable } from "@/components/ui/data-table";
+import { createColumnHelper } from "@tanstack/react-table";
+
+type Residual = CalibrationPreviewJson["residuals"][number];
+interface FigureRow {
+  label: string;
+  now: string;
+  proposed: string;
+}
+const residualColumn = createColumnHelper<Residual>();
+const figureColumn = createColumnHelper<FigureRow>();
+const FIGURE_COLUMNS = [
+  figureColumn.accessor("label", { header: "Figure", enableSorting: false }),
+  figureColumn.accessor("now", { header: "Now", enableSorting: false, meta: { cellClassName: "figures" } }),
+  figureColumn.accessor("proposed", { header: "Proposed", enableSorting: false, cell: (c) => <span className="font-bold">{c.getValue()}</span>, meta: { cellClassName: "figures" } }),
+];
 
 export function formatScale(scale: number): string {
   return scale.toFixed(5);
@@ -26,55 +41,30 @@ export function CalibrationPreview({ preview, zone }: { preview: CalibrationPrev
       <h3 id="preview-title" className="font-bold">
         Preview from {preview.n} dips {preview.proposed.mode === "offset_only" ? "(offset only)" : "(offset and scale)"}
       </h3>
+      <p className="text-sm" data-testid="calibration-spread">{preview.spread.sentence}</p>
       {preview.proposed.note && (
         <p role="note" className="border-l-4 border-medium bg-card px-3 py-2 text-sm">
           {preview.proposed.note}
         </p>
       )}
-      <table className="table-dense w-full">
-        <caption className="sr-only">Calibration now and proposed</caption>
-        <thead>
-          <tr>
-            <th scope="col">Figure</th>
-            <th scope="col">Now</th>
-            <th scope="col">Proposed</th>
-          </tr>
-        </thead>
-        <tbody>
-          {rows.map((r) => (
-            <tr key={r.label}>
-              <th scope="row" className="h-10 px-3 text-left text-sm font-normal">{r.label}</th>
-              <td className="figures">{r.now}</td>
-              <td className="figures font-bold">{r.proposed}</td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
+      <DataTable data={rows} columns={FIGURE_COLUMNS} getRowId={(r) => r.label} sortable={false} label="Calibration now and proposed" empty="" />
       <p className="text-xs text-muted">
         Distance from the face = scale × timed distance + offset − face offset; the level is the mounting height minus that distance. A least-squares
         line through the dips gives the offset and scale.
       </p>
-      <table className={STACKED_TABLE}>
-        <caption className="sr-only">Residuals per dip</caption>
-        <thead>
-          <tr>
-            <th scope="col">Dip</th>
-            <th scope="col">Dipped level</th>
-            <th scope="col">Sensor − dip now</th>
-            <th scope="col">Sensor − dip after</th>
-          </tr>
-        </thead>
-        <tbody>
-          {preview.residuals.map((r) => (
-            <tr key={r.dip_id}>
-              <td data-label="Dip" className="figures"><SiteTime at={r.at} zone={zone} /></td>
-              <td data-label="Dipped level" className="figures">{r.dip_level_m.toFixed(3)}{"\u00a0"}m</td>
-              <td data-label="Sensor − dip now" className="figures">{formatSignedMm(r.residual_before_m)}</td>
-              <td data-label="Sensor − dip after" className="figures">{formatSignedMm(r.residual_after_m)}</td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
+      <DataTable
+        data={preview.residuals}
+        columns={[
+          residualColumn.accessor((r) => new Date(r.at).getTime(), { id: "at", header: "Dip", cell: (c) => <SiteTime at={c.row.original.at} zone={zone} />, meta: { cellClassName: "figures" } }),
+          residualColumn.accessor("dip_level_m", { header: "Dipped level", cell: (c) => `${c.getValue().toFixed(3)}\u00a0m`, meta: { cellClassName: "figures" } }),
+          residualColumn.accessor("residual_before_m", { header: "Sensor − dip now", cell: (c) => formatSignedMm(c.getValue()), meta: { cellClassName: "figures" } }),
+          residualColumn.accessor("residual_after_m", { header: "Sensor − dip after", cell: (c) => formatSignedMm(c.getValue()), meta: { cellClassName: "figures" } }),
+        ]}
+        getRowId={(r) => r.dip_id}
+        initialSorting={[{ id: "at", desc: false }]}
+        label="Residuals per dip"
+        empty="No dips chosen."
+      />
       {preview.series.length > 0 ? (
         <CalibrationTrend series={preview.series.map((s) => ({ ...s, at: String(s.at) }))} dips={preview.dips.map((d) => ({ at: String(d.at), level_m: d.level_m }))} zone={zone} />
       ) : (

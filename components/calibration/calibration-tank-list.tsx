@@ -7,9 +7,11 @@ import { swrFetcher } from "@/lib/fetcher";
 import { isUuid } from "@/lib/validations/common";
 import type { AssetJson } from "@/lib/services/assets";
 import type { SiteJson } from "@/lib/services/sites";
-import { Loading, LoadError } from "@/components/ui/data-state";
+import { createColumnHelper } from "@tanstack/react-table";
 import { useFigures } from "@/components/ui/display-settings";
-import { STACKED_TABLE } from "@/components/ui/form-fields";
+import { DataTable } from "@/components/ui/data-table";
+
+const column = createColumnHelper<AssetJson>();
 
 /** The tanks a technician can dip and calibrate, filtered by site (kept in the URL). */
 export function CalibrationTankList() {
@@ -36,35 +38,22 @@ export function CalibrationTankList() {
           {sites.data?.items.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
         </select>
       </div>
-      <section className="card overflow-x-auto" aria-label="Tanks">
-        {isLoading && <Loading />}
-        {error && <LoadError error={error} retry={() => mutate()} />}
-        {data && data.items.length === 0 && <p className="px-3 py-6 text-sm text-muted">No tanks here.</p>}
-        {data && data.items.length > 0 && (
-          <table className={STACKED_TABLE}>
-            <thead>
-              <tr>
-                <th scope="col">Tank</th>
-                <th scope="col">Site</th>
-                <th scope="col">Sensor height</th>
-                <th scope="col">Tank height</th>
-              </tr>
-            </thead>
-            <tbody>
-              {data.items.map((a) => (
-                <tr key={a.id}>
-                  <td data-label="Tank">
-                    <Link href={`/calibration/${a.id}`} className="font-bold underline">{a.name}</Link>
-                  </td>
-                  <td data-label="Site">{siteName(a.site_id)}</td>
-                  <td data-label="Sensor height" className="figures">{fig.length(a.mount_height_m)}</td>
-                  <td data-label="Tank height" className="figures">{fig.length(a.tank_height_m)}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        )}
-      </section>
+      <DataTable
+        data={data?.items}
+        columns={[
+          column.accessor("name", { header: "Tank", cell: (c) => <Link href={`/calibration/${c.row.original.id}`} className="font-bold underline">{c.getValue()}</Link> }),
+          column.accessor((a) => siteName(a.site_id), { id: "site", header: "Site" }),
+          column.accessor("mount_height_m", { header: "Sensor height", cell: (c) => fig.length(c.getValue()), meta: { cellClassName: "figures" } }),
+          column.accessor("tank_height_m", { header: "Tank height", cell: (c) => fig.length(c.getValue()), meta: { cellClassName: "figures" } }),
+        ]}
+        getRowId={(a) => a.id}
+        initialSorting={[{ id: "name", desc: false }]}
+        label="Tanks"
+        loading={isLoading}
+        error={error}
+        retry={() => mutate()}
+        empty="No tanks here."
+      />
     </div>
   );
 }

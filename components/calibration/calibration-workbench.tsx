@@ -7,11 +7,13 @@ import { fetchJson, swrFetcher } from "@/lib/fetcher";
 import type { AssetChannel, DipJson } from "@/lib/services/dips";
 import type { CalibrationChangeJson, CalibrationChannelJson, CalibrationPreviewJson } from "@/lib/services/calibration";
 import { Loading, LoadError } from "@/components/ui/data-state";
+import { DataTable } from "@/components/ui/data-table";
+import { createColumnHelper } from "@tanstack/react-table";
 import { DipForm } from "@/components/assets/dip-form";
 import { DipTable } from "@/components/assets/dip-table";
 import { SiteTime } from "@/components/ui/site-time";
 import { CalibrationPreview, formatOffsetMm, formatScale } from "@/components/calibration/calibration-preview";
-import { SelectField, STACKED_TABLE, TextAreaField } from "@/components/ui/form-fields";
+import { SelectField, TextAreaField } from "@/components/ui/form-fields";
 
 interface DipsResponse {
   asset: { id: string; name: string; kind: string; site_id: string; site_time_zone: string; mount_height_m: number | null; tank_height_m: number | null; max_dip_level_m: number | null };
@@ -25,52 +27,44 @@ interface CalibrationResponse {
   history: CalibrationChangeJson[];
 }
 
+const historyColumn = createColumnHelper<CalibrationChangeJson>();
+
 function CalibrationHistory({ channelId, zone }: { channelId: string; zone: string }) {
   const { data, error, isLoading, mutate } = useSWR<CalibrationResponse>(`/api/channels/${channelId}/calibration`, swrFetcher, { refreshInterval: 60000 });
+  const columns = [
+    historyColumn.accessor((h) => new Date(h.at).getTime(), { id: "at", header: "When", cell: (c) => <SiteTime at={c.row.original.at} zone={zone} />, meta: { cellClassName: "figures" } }),
+    historyColumn.accessor("by", { header: "By" }),
+    historyColumn.accessor((h) => h.after.offset_m, { id: "offset", header: "Offset before → after", cell: (c) => `${formatOffsetMm(c.row.original.before.offset_m)} → ${formatOffsetMm(c.row.original.after.offset_m)}`, meta: { cellClassName: "figures" } }),
+    historyColumn.accessor((h) => h.after.scale, { id: "scale", header: "Scale before → after", cell: (c) => `${formatScale(c.row.original.before.scale)} → ${formatScale(c.row.original.after.scale)}`, meta: { cellClassName: "figures" } }),
+    historyColumn.accessor("rms_after_m", { header: "RMS after", cell: (c) => `${(c.getValue() * 1000).toFixed(1)}\u00a0mm`, meta: { cellClassName: "figures" } }),
+    historyColumn.accessor((h) => h.dip_ids.length, {
+      id: "dips",
+      header: "Dips",
+      cell: (c) => <>{c.getValue()}{c.row.original.mode === "offset_only" ? <span className="font-sans"> · offset only</span> : null}</>,
+      meta: { cellClassName: "figures" },
+    }),
+    historyColumn.accessor((h) => h.note ?? "", { id: "note", header: "Note", enableSorting: false }),
+  ];
   return (
-    <section aria-labelledby="history-title" className="card overflow-x-auto">
-      <h2 id="history-title" className="px-3 pt-3 text-lg font-bold">Calibration history</h2>
-      {isLoading && <Loading />}
-      {error && <LoadError error={error} retry={() => mutate()} />}
+    <section aria-labelledby="history-title" className="space-y-2">
+      <h2 id="history-title" className="text-lg font-bold">Calibration history</h2>
       {data && (
-        <>
-          <p className="px-3 pt-1 text-sm text-muted" data-testid="current-calibration">
-            Now: offset <span className="figures">{formatOffsetMm(data.channel.calibration_offset_m)}</span>, scale{" "}
-            <span className="figures">{formatScale(data.channel.calibration_scale)}</span>.
-          </p>
-          {data.history.length === 0 ? (
-            <p className="px-3 py-4 text-sm text-muted">Never calibrated from dips.</p>
-          ) : (
-            <table className={STACKED_TABLE}>
-              <caption className="sr-only">Calibration changes, newest first</caption>
-              <thead>
-                <tr>
-                  <th scope="col">When</th>
-                  <th scope="col">By</th>
-                  <th scope="col">Offset before → after</th>
-                  <th scope="col">Scale before → after</th>
-                  <th scope="col">RMS after</th>
-                  <th scope="col">Dips</th>
-                  <th scope="col">Note</th>
-                </tr>
-              </thead>
-              <tbody>
-                {data.history.map((h) => (
-                  <tr key={h.id}>
-                    <td data-label="When" className="figures"><SiteTime at={h.at} zone={zone} /></td>
-                    <td data-label="By">{h.by}</td>
-                    <td data-label="Offset before → after" className="figures">{formatOffsetMm(h.before.offset_m)} → {formatOffsetMm(h.after.offset_m)}</td>
-                    <td data-label="Scale before → after" className="figures">{formatScale(h.before.scale)} → {formatScale(h.after.scale)}</td>
-                    <td data-label="RMS after" className="figures">{(h.rms_after_m * 1000).toFixed(1)}{"\u00a0"}mm</td>
-                    <td data-label="Dips" className="figures">{h.dip_ids.length}{h.mode === "offset_only" ? <span className="font-sans"> · offset only</span> : null}</td>
-                    <td data-label="Note">{h.note ?? ""}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          )}
-        </>
+        <p className="text-sm text-muted" data-testid="current-calibration">
+          Now: offset <span className="figures">{formatOffsetMm(data.channel.calibration_offset_m)}</span>, scale{" "}
+          <span className="figures">{formatScale(data.channel.calibration_scale)}</span>.
+        </p>
       )}
+      <DataTable
+        data={data?.history}
+        columns={columns}
+        getRowId={(h) => h.id}
+        initialSorting={[{ id: "at", desc: true }]}
+        label="Calibration changes, newest first"
+        loading={isLoading}
+        error={error}
+        retry={() => mutate()}
+        empty="Never calibrated from dips."
+      />
     </section>
   );
 }
@@ -136,7 +130,7 @@ export function CalibrationWorkbench({ assetId, canRecord, canApply }: { assetId
   if (isLoading) return <Loading />;
   if (error) return <LoadError error={error} retry={() => mutate()} />;
   if (!data) return null;
-  const usable = data.items.filter((d) => d.sensor !== null).length;
+  const usable = data.items.filter((d) => d.sensor !== null && d.void === null).length;
 
   return (
     <div className="space-y-6">
@@ -155,7 +149,18 @@ export function CalibrationWorkbench({ assetId, canRecord, canApply }: { assetId
           <Link href={`/assets/${assetId}`} className="ml-auto text-sm underline">Tank trend</Link>
         </div>
         <p className="px-3 pt-1 text-sm text-muted">The sensor&apos;s level is its valid measurement nearest each dip&apos;s time, within an hour.</p>
-        <DipTable dips={data.items} selected={selected} onToggle={toggle} selectable={canApply && !!activeChannel} zone={data.asset.site_time_zone} />
+        <DipTable
+          dips={data.items}
+          selected={selected}
+          onToggle={toggle}
+          selectable={canApply && !!activeChannel}
+          zone={data.asset.site_time_zone}
+          canVoid={canRecord}
+          onVoided={() => {
+            setPreview(null);
+            mutate();
+          }}
+        />
       </section>
 
       {canApply && activeChannel && (

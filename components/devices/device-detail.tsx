@@ -8,15 +8,53 @@ import type { SiteJson } from "@/lib/services/sites";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { DeviceKeyActions } from "@/components/devices/device-key-actions";
 import { isOffline, PROFILE_LABELS } from "@/components/devices/device-table";
-import { formatAge } from "@/components/fleet/fleet-figures";
 import { useFigures } from "@/components/ui/display-settings";
 import type { Figures } from "@/lib/format/figures";
-import { SiteTime } from "@/components/ui/site-time";
-import { STACKED_TABLE } from "@/components/ui/form-fields";
+import { RelativeTime, SiteTime } from "@/components/ui/site-time";
+import { createColumnHelper } from "@tanstack/react-table";
+import { DataTable } from "@/components/ui/data-table";
 
 type DeviceTiming = NonNullable<Awaited<ReturnType<typeof describeDeviceTiming>>>;
 type DeviceKeyRow = { id: string; prefix: string; created_at: string; revoked_at: string | null };
 type DeviceDetailJson = DeviceJson & { keys: DeviceKeyRow[]; timing: DeviceTiming | null };
+
+type Channel = DeviceJson["channels"][number];
+const channelColumn = createColumnHelper<Channel>();
+const keyColumn = createColumnHelper<DeviceKeyRow>();
+
+function channelColumns(assetOf: (assetId: string | null) => AssetJson | undefined, figures: Figures) {
+  const assetName = (c: Channel) => {
+    const asset = assetOf(c.asset_id);
+    return c.asset_id ? (asset ? `${asset.name} (${asset.kind})` : "…") : "none";
+  };
+  return [
+    channelColumn.accessor("index", { header: "Index", meta: { cellClassName: "figures" } }),
+    channelColumn.accessor(assetName, { id: "asset", header: "Asset" }),
+    channelColumn.accessor("min_range_m", { header: "Min range", cell: (c) => figures.length(c.getValue()), meta: { cellClassName: "figures" } }),
+    channelColumn.accessor("max_range_m", { header: "Max range", cell: (c) => figures.length(c.getValue()), meta: { cellClassName: "figures" } }),
+    channelColumn.accessor("face_offset_m", { header: "Face offset", cell: (c) => figures.length(c.getValue()), meta: { cellClassName: "figures" } }),
+    channelColumn.display({
+      id: "calibration",
+      header: "Calibration",
+      cell: ({ row: { original: c } }) => `${c.calibration_offset_m >= 0 ? "+" : ""}${c.calibration_offset_m.toFixed(3)} m, ×${c.calibration_scale}`,
+      meta: { cellClassName: "figures" },
+    }),
+  ];
+}
+
+function keyColumns(zone: string | undefined) {
+  return [
+    keyColumn.accessor("prefix", { header: "Prefix", cell: (c) => `ht_${c.getValue()}_…`, meta: { cellClassName: "figures" } }),
+    keyColumn.accessor((k) => Date.parse(k.created_at), { id: "created", header: "Created", cell: (c) => <SiteTime at={c.row.original.created_at} zone={zone} />, meta: { cellClassName: "figures" } }),
+    keyColumn.accessor((k) => (k.revoked_at ? Date.parse(k.revoked_at) : undefined), {
+      id: "revoked",
+      header: "Revoked",
+      sortUndefined: "first",
+      cell: (c) => (c.row.original.revoked_at ? <SiteTime at={c.row.original.revoked_at} zone={zone} /> : <span className="font-sans">active</span>),
+      meta: { cellClassName: "figures" },
+    }),
+  ];
+}
 
 const fig = (text: string) => <span className="figures">{text}</span>;
 
@@ -85,7 +123,7 @@ export function DeviceDetail({ id, canManage }: { id: string; canManage: boolean
         <Facts
           items={[
             ["Site", site.data?.name ?? "…"],
-            ["Last seen", <>{data.last_seen_at ? formatAge(data.last_seen_at) : "never"}{isOffline(data) && " · offline (no reading for three expected intervals)"}</>],
+            ["Last seen", <>{data.last_seen_at ? <RelativeTime at={data.last_seen_at} /> : "never"}{isOffline(data) && " · offline (no reading for three expected intervals)"}</>],
             ["Battery", fig(figures.volts(data.battery_v))],
             ["Signal", fig(figures.dbm(data.rssi_dbm))],
           ]}
@@ -109,63 +147,23 @@ export function DeviceDetail({ id, canManage }: { id: string; canManage: boolean
         )}
       </section>
 
-      <section className="card overflow-x-auto" aria-labelledby="device-channels">
-        <h2 id="device-channels" className="px-4 pt-4 text-lg font-bold">Channels</h2>
-        <table className={STACKED_TABLE}>
-          <thead>
-            <tr>
-              <th scope="col">Index</th>
-              <th scope="col">Asset</th>
-              <th scope="col">Min range</th>
-              <th scope="col">Max range</th>
-              <th scope="col">Face offset</th>
-              <th scope="col">Calibration</th>
-            </tr>
-          </thead>
-          <tbody>
-            {data.channels.map((c) => {
-              const asset = assetOf(c.asset_id);
-              return (
-                <tr key={c.id}>
-                  <td data-label="Index" className="figures">{c.index}</td>
-                  <td data-label="Asset">{c.asset_id ? (asset ? `${asset.name} (${asset.kind})` : "…") : "none"}</td>
-                  <td data-label="Min range" className="figures">{figures.length(c.min_range_m)}</td>
-                  <td data-label="Max range" className="figures">{figures.length(c.max_range_m)}</td>
-                  <td data-label="Face offset" className="figures">{figures.length(c.face_offset_m)}</td>
-                  <td data-label="Calibration" className="figures">{`${c.calibration_offset_m >= 0 ? "+" : ""}${c.calibration_offset_m.toFixed(3)} m, ×${c.calibration_scale}`}</td>
-                </tr>
-              );
-            })}
-          </tbody>
-        </table>
-      </section>
+      <DataTable data={data.channels} columns={channelColumns(assetOf, figures)} getRowId={(c) => c.id} label="Channels" title empty="This device has no channels." />
 
-      <section className="card space-y-3 overflow-x-auto pb-4" aria-labelledby="device-keys">
-        <h2 id="device-keys" className="px-4 pt-4 text-lg font-bold">Keys</h2>
-        <table className={STACKED_TABLE}>
-          <thead>
-            <tr>
-              <th scope="col">Prefix</th>
-              <th scope="col">Created</th>
-              <th scope="col">Revoked</th>
-            </tr>
-          </thead>
-          <tbody>
-            {data.keys.map((k) => (
-              <tr key={k.id}>
-                <td data-label="Prefix" className="figures">ht_{k.prefix}_…</td>
-                <td data-label="Created" className="figures"><SiteTime at={k.created_at} zone={site.data?.time_zone} /></td>
-                <td data-label="Revoked" className="figures">{k.revoked_at ? <SiteTime at={k.revoked_at} zone={site.data?.time_zone} /> : <span className="font-sans">active</span>}</td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
-        {canManage && (
-          <div className="px-4">
-            <DeviceKeyActions deviceId={data.id} hasActiveKey={activeKeys.length > 0} onChanged={() => mutate()} />
-          </div>
-        )}
-      </section>
+      <DataTable
+        data={data.keys}
+        columns={keyColumns(site.data?.time_zone)}
+        getRowId={(k) => k.id}
+        label="Keys"
+        title
+        empty="This device has no key."
+        footer={
+          canManage && (
+            <div className="p-4">
+              <DeviceKeyActions deviceId={data.id} hasActiveKey={activeKeys.length > 0} onChanged={() => mutate()} />
+            </div>
+          )
+        }
+      />
     </div>
   );
 }

@@ -1,26 +1,29 @@
 "use client";
 
+import { RelativeTime } from "@/components/ui/site-time";
+
 import Link from "next/link";
-import { usePathname, useRouter, useSearchParams } from "next/navigation";
 import { useState } from "react";
 import useSWR from "swr";
 import { createColumnHelper, getCoreRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
 import type { DeviceHealthPage, DeviceHealthRow } from "@/lib/read-models/overview-devices";
 import type { SiteJson } from "@/lib/services/sites";
 import { swrFetcher } from "@/lib/fetcher";
-import { DEVICE_HEALTH_FLAGS, DEVICE_HEALTH_SORTS, type DeviceHealthSort } from "@/lib/validations/overview";
-import { formatAge } from "@/components/fleet/fleet-figures";
+import { DEVICE_HEALTH_FLAGS, deviceHealthQuerySchema, type DeviceHealthSort } from "@/lib/validations/overview";
 import { Figure } from "@/components/ui/display-settings";
 import { LIVE_REFRESH_MS } from "@/components/fleet/fleet-overview";
 import { FlagTag, flagLabel } from "@/components/fleet/fleet-status";
 import { DataTableView } from "@/components/ui/data-table";
 import { ClearFilters } from "@/components/ui/clear-filters";
+import { useListParams } from "@/components/ui/list-params";
 
 // The devices health table: when each device was last heard, its battery, signal, firmware and the
 // open sensor flags of each channel. Paged, sorted and filtered on the server; every choice is kept in
 // the URL (page, page_size, sort, dir, q, site_id, state, flag).
 
 const PAGE_SIZES = [25, 50, 100];
+const FILTER_KEYS = ["q", "site_id", "state", "flag"] as const;
+const URL_KEYS = [...FILTER_KEYS, "page", "page_size", "sort", "dir"] as const;
 const STATE_LABELS = { offline: "Offline", flagged: "With sensor faults", healthy: "Healthy" } as const;
 
 const column = createColumnHelper<DeviceHealthRow>();
@@ -57,7 +60,7 @@ const columns = [
     header: "Last seen",
     cell: (c) => (
       <span className="figures">
-        {c.getValue() ? formatAge(c.getValue() as string) : "never"}
+        {c.getValue() ? <RelativeTime at={c.getValue() as string} /> : "never"}
         {c.row.original.offline && <span className="ml-1 font-sans font-bold text-high">offline</span>}
       </span>
     ),
@@ -68,39 +71,20 @@ const columns = [
   column.accessor("firmware", { id: "firmware", header: "Firmware", cell: (c) => <span className="figures">{c.getValue() ?? "—"}</span> }),
 ];
 
-function isSort(value: string | null): value is DeviceHealthSort {
-  return (DEVICE_HEALTH_SORTS as readonly string[]).includes(value ?? "");
-}
-
 export function DeviceHealthTable() {
-  const router = useRouter();
-  const pathname = usePathname();
-  const params = useSearchParams();
-  const page = Math.max(1, Number(params.get("page")) || 1);
-  const pageSize = PAGE_SIZES.includes(Number(params.get("page_size"))) ? Number(params.get("page_size")) : PAGE_SIZES[0];
-  const sort: DeviceHealthSort = isSort(params.get("sort")) ? (params.get("sort") as DeviceHealthSort) : "name";
-  const dir = params.get("dir") === "desc" ? "desc" : "asc";
-  const [search, setSearch] = useState(params.get("q") ?? "");
+  const list = useListParams(deviceHealthQuerySchema, URL_KEYS, FILTER_KEYS);
+  const { values } = list;
+  const page = Number(values.page ?? 1);
+  const pageSize = PAGE_SIZES.includes(Number(values.page_size)) ? Number(values.page_size) : PAGE_SIZES[0];
+  const sort = (values.sort ?? "name") as DeviceHealthSort;
+  const dir = values.dir ?? "asc";
+  const [search, setSearch] = useState(values.q ?? "");
 
-  const api = new URLSearchParams();
-  api.set("page", String(page));
-  api.set("page_size", String(pageSize));
-  api.set("sort", sort);
-  api.set("dir", dir);
-  for (const k of ["q", "site_id", "state", "flag"]) if (params.get(k)) api.set(k, params.get(k) as string);
+  const api = new URLSearchParams({ page: String(page), page_size: String(pageSize), sort, dir });
+  for (const k of FILTER_KEYS) if (values[k]) api.set(k, values[k]);
 
   const sites = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
   const { data, error, isLoading, mutate } = useSWR<DeviceHealthPage>(`/api/device-health?${api.toString()}`, swrFetcher, { refreshInterval: LIVE_REFRESH_MS, keepPreviousData: true });
-
-  function update(changes: Record<string, string | null>, resetPage = true) {
-    const next = new URLSearchParams(params.toString());
-    for (const [k, v] of Object.entries(changes)) {
-      if (v) next.set(k, v);
-      else next.delete(k);
-    }
-    if (resetPage) next.delete("page");
-    router.replace(`${pathname}?${next.toString()}`, { scroll: false });
-  }
 
   const sorting: SortingState = [{ id: sort, desc: dir === "desc" }];
   const pageCount = data ? Math.max(1, Math.ceil(data.total / pageSize)) : 1;
@@ -118,7 +102,7 @@ export function DeviceHealthTable() {
     onSortingChange: (updater) => {
       const next = typeof updater === "function" ? updater(sorting) : updater;
       const first = next[0];
-      update({ sort: first?.id ?? null, dir: first?.desc ? "desc" : null });
+      list.set({ sort: first?.id ?? null, dir: first?.desc ? "desc" : null });
     },
     enableSortingRemoval: false,
   });
@@ -131,7 +115,7 @@ export function DeviceHealthTable() {
         aria-label="Filter devices"
         onSubmit={(e) => {
           e.preventDefault();
-          update({ q: search.trim() || null });
+          list.set({ q: search.trim() || null });
         }}
       >
         <div>
@@ -141,30 +125,30 @@ export function DeviceHealthTable() {
         <button type="submit" className="btn-quiet">Search</button>
         <div>
           <label htmlFor="health-site" className="label">Site</label>
-          <select id="health-site" className="field h-10 w-auto" value={params.get("site_id") ?? ""} onChange={(e) => update({ site_id: e.target.value || null })}>
+          <select id="health-site" className="field h-10 w-auto" value={values.site_id ?? ""} onChange={(e) => list.set({ site_id: e.target.value })}>
             <option value="">All sites</option>
             {sites.data?.items.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
           </select>
         </div>
         <div>
           <label htmlFor="health-state" className="label">State</label>
-          <select id="health-state" className="field h-10 w-auto" value={params.get("state") ?? ""} onChange={(e) => update({ state: e.target.value || null })}>
+          <select id="health-state" className="field h-10 w-auto" value={values.state ?? ""} onChange={(e) => list.set({ state: e.target.value })}>
             <option value="">Every device</option>
             {Object.entries(STATE_LABELS).map(([k, label]) => <option key={k} value={k}>{label}</option>)}
           </select>
         </div>
         <div>
           <label htmlFor="health-flag" className="label">Sensor flag</label>
-          <select id="health-flag" className="field h-10 w-auto" value={params.get("flag") ?? ""} onChange={(e) => update({ flag: e.target.value || null })}>
+          <select id="health-flag" className="field h-10 w-auto" value={values.flag ?? ""} onChange={(e) => list.set({ flag: e.target.value })}>
             <option value="">Any or none</option>
             {DEVICE_HEALTH_FLAGS.map((f) => <option key={f} value={f}>{flagLabel(f)}</option>)}
           </select>
         </div>
         <ClearFilters
-          filtered={["q", "site_id", "state", "flag"].some((k) => params.get(k))}
+          filtered={list.filtered}
           onClear={() => {
             setSearch("");
-            update({ q: null, site_id: null, state: null, flag: null });
+            list.clearFilters();
           }}
         />
       </form>
@@ -181,13 +165,13 @@ export function DeviceHealthTable() {
 
       {data && (
         <nav aria-label="Pages" className="flex flex-wrap items-center gap-3 text-sm">
-          <button type="button" className="btn-quiet md:h-9" disabled={page <= 1} onClick={() => update({ page: String(page - 1) }, false)}>Previous page</button>
+          <button type="button" className="btn-quiet md:h-9" disabled={page <= 1} onClick={() => list.set({ page: String(page - 1) })}>Previous page</button>
           <span>
             Page <span className="figures">{page}</span> of <span className="figures">{pageCount}</span> · <span className="figures">{data.total}</span> devices
           </span>
-          <button type="button" className="btn-quiet md:h-9" disabled={page >= pageCount} onClick={() => update({ page: String(page + 1) }, false)}>Next page</button>
+          <button type="button" className="btn-quiet md:h-9" disabled={page >= pageCount} onClick={() => list.set({ page: String(page + 1) })}>Next page</button>
           <label htmlFor="health-page-size" className="ml-auto">Rows a page</label>
-          <select id="health-page-size" className="field h-9 w-auto py-1" value={pageSize} onChange={(e) => update({ page_size: e.target.value })}>
+          <select id="health-page-size" className="field h-9 w-auto py-1" value={pageSize} onChange={(e) => list.set({ page_size: e.target.value })}>
             {PAGE_SIZES.map((n) => <option key={n} value={n}>{n}</option>)}
           </select>
         </nav>

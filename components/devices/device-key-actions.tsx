@@ -1,7 +1,8 @@
 "use client";
 
-import { useRef, useState } from "react";
+import { useState } from "react";
 import { fetchJson } from "@/lib/fetcher";
+import { ConfirmDialog } from "@/components/ui/dialog";
 import { DeviceKeyReveal } from "@/components/devices/device-key-reveal";
 
 type KeyAction = "rotate" | "revoke";
@@ -19,23 +20,20 @@ const WORDING: Record<KeyAction, { title: string; body: string; verb: string }> 
   },
 };
 
-/** Rotate and revoke, each behind a modal confirmation; a rotated key is shown once. */
+/** Rotate and revoke, each behind the kit's confirmation; a rotated key is shown once. */
 export function DeviceKeyActions({ deviceId, hasActiveKey, onChanged }: { deviceId: string; hasActiveKey: boolean; onChanged: () => void }) {
-  const dialog = useRef<HTMLDialogElement>(null);
-  const [action, setAction] = useState<KeyAction>("rotate");
+  const [asking, setAsking] = useState<KeyAction | null>(null);
   const [busy, setBusy] = useState(false);
   const [error, setError] = useState<string | null>(null);
   const [notice, setNotice] = useState<string | null>(null);
   const [newKey, setNewKey] = useState<string | null>(null);
-  const wording = WORDING[action];
 
   function ask(next: KeyAction) {
-    setAction(next);
+    setAsking(next);
     setError(null);
-    dialog.current?.showModal();
   }
 
-  async function confirm() {
+  async function confirm(action: KeyAction) {
     setBusy(true);
     setError(null);
     try {
@@ -48,7 +46,7 @@ export function DeviceKeyActions({ deviceId, hasActiveKey, onChanged }: { device
         setNewKey(null);
         setNotice(`${revoked === 1 ? "The key is" : `${revoked} keys are`} revoked; the device can no longer send readings.`);
       }
-      dialog.current?.close();
+      setAsking(null);
       onChanged();
     } catch (e) {
       setError((e as Error).message);
@@ -65,15 +63,18 @@ export function DeviceKeyActions({ deviceId, hasActiveKey, onChanged }: { device
       </div>
       {notice && <p role="status" className="text-sm">{notice}</p>}
       {newKey && <DeviceKeyReveal apiKey={newKey} heading="The new key" />}
-      <dialog ref={dialog} aria-labelledby="key-dialog-title" aria-describedby="key-dialog-body" className="card fixed inset-0 m-auto h-fit max-w-md p-6 text-ink backdrop:bg-ink/40">
-        <h2 id="key-dialog-title" className="mb-2 text-lg font-bold">{wording.title}</h2>
-        <p id="key-dialog-body" className="mb-4 text-sm">{wording.body}</p>
-        {error && <p role="alert" className="field-error mb-4">{error}</p>}
-        <div className="flex flex-wrap justify-end gap-3">
-          <button type="button" className="btn-quiet" onClick={() => dialog.current?.close()}>Cancel</button>
-          <button type="button" className="btn" onClick={confirm} disabled={busy}>{busy ? "Working…" : wording.verb}</button>
-        </div>
-      </dialog>
+      {asking && (
+        <ConfirmDialog
+          title={WORDING[asking].title}
+          confirmLabel={WORDING[asking].verb}
+          busy={busy}
+          error={error}
+          onConfirm={() => confirm(asking)}
+          onCancel={() => setAsking(null)}
+        >
+          <p>{WORDING[asking].body}</p>
+        </ConfirmDialog>
+      )}
     </div>
   );
 }

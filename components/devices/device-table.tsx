@@ -1,5 +1,7 @@
 "use client";
 
+import { RelativeTime } from "@/components/ui/site-time";
+
 import Link from "next/link";
 import useSWR from "swr";
 import { createColumnHelper } from "@tanstack/react-table";
@@ -7,7 +9,6 @@ import { swrFetcher } from "@/lib/fetcher";
 import { deviceListQuerySchema } from "@/lib/validations/device";
 import type { DeviceJson } from "@/lib/services/devices";
 import type { SiteJson } from "@/lib/services/sites";
-import { formatAge } from "@/components/fleet/fleet-figures";
 import { useFigures } from "@/components/ui/display-settings";
 import { DataTable } from "@/components/ui/data-table";
 import { useListParams } from "@/components/ui/list-params";
@@ -42,7 +43,7 @@ export function DeviceTable() {
       meta: { cellClassName: "figures" },
       cell: (c) => (
         <>
-          {c.getValue() ? formatAge(c.getValue()!) : "never"}
+          {c.getValue() ? <RelativeTime at={c.getValue()!} /> : "never"}
           {isOffline(c.row.original) && <span className="font-sans"> · offline</span>}
         </>
       ),

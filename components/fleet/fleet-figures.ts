@@ -1,30 +1,11 @@
-// How the live screens write ages, durations and forecasts: the age of a value once it is overdue.
+// How the live screens write durations and forecasts, and when a value is overdue (its age: RelativeTime).
 // Figures with a unit come from useFigures() (components/ui/display-settings.tsx), in the person's units.
 // Pure functions (no React, no I/O) shared by the overview, site, asset and device-health screens.
-
-import { differenceInDays, differenceInHours, differenceInMinutes } from "date-fns";
-
-/** How long ago, in the units a person reads at a glance: "14 min ago", "3 h ago", "2 d ago". */
-export function formatAge(at: Date | string | number, now: Date | number = Date.now()): string {
-  const then = new Date(at);
-  const minutes = differenceInMinutes(now, then);
-  if (minutes < 1) return "just now";
-  if (minutes < 60) return `${minutes} min ago`;
-  const hours = differenceInHours(now, then);
-  if (hours < 48) return `${hours} h ago`;
-  return `${differenceInDays(now, then)} d ago`;
-}
 
 /** A value is overdue once it is older than two of its device's expected reporting intervals. */
 export function isOverdue(at: Date | string | number | null | undefined, expectedIntervalS: number, now: Date | number = Date.now()): boolean {
   if (at == null) return true;
   return new Date(now).getTime() - new Date(at).getTime() > 2 * expectedIntervalS * 1000;
-}
-
-/** The age to print beside a value: only when it is overdue, otherwise null. */
-export function ageWhenOverdue(at: Date | string | number | null | undefined, expectedIntervalS: number, now: Date | number = Date.now()): string | null {
-  if (at == null) return "no value yet";
-  return isOverdue(at, expectedIntervalS, now) ? formatAge(at, now) : null;
 }
 
 /** Time in a state: "45 min", "2 h 14 min", "3 d 4 h". */

@@ -6,11 +6,13 @@ import type { FleetOverviewJson } from "@/lib/read-models/overview";
 import { swrFetcher } from "@/lib/fetcher";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { useFigures } from "@/components/ui/display-settings";
+import type { Figures } from "@/lib/format/figures";
 import { plural } from "@/lib/format/number";
 import { AlarmCounts, FlagTag, OverdueAge, PRIORITIES, TankCaution } from "@/components/fleet/fleet-status";
 import { TankPlanVerdict } from "@/components/assets/tank-plan";
 import { SiteTime } from "@/components/ui/site-time";
-import { STACKED_TABLE } from "@/components/ui/form-fields";
+import { createColumnHelper } from "@tanstack/react-table";
+import { DataTable } from "@/components/ui/data-table";
 
 // The fleet overview: every site with its tanks' level, fill and volume, its bays occupied and free,
 // its alarms needing attention by priority and its devices offline, refreshed every 10 seconds.
@@ -37,30 +39,51 @@ function FillBar({ pct }: { pct: number | null }) {
   );
 }
 
-function TankLine({ tank, zone, now }: { tank: TankSummary; zone: string; now: number }) {
-  const fig = useFigures();
-  return (
-    <tr>
-      <td data-label="Tank">
-        <Link href={`/assets/${tank.id}`} className="font-bold underline">{tank.name}</Link>
-        {tank.flags.length > 0 && <span className="ml-2 inline-flex gap-1">{[...new Set(tank.flags)].map((f) => <FlagTag key={f} flag={f} />)}</span>}
-      </td>
-      <td data-label="Fill" className="figures whitespace-nowrap">
-        <FillBar pct={tank.fill_pct} /> {fig.percent(tank.fill_pct)}
-      </td>
-      <td data-label="Volume" className="figures whitespace-nowrap">{fig.volume(tank.volume_l)}</td>
-      <td data-label="Level" className="figures whitespace-nowrap">
-        {fig.length(tank.level_m, tank.uncertainty_m)}
-        <OverdueAge at={tank.at} expectedIntervalS={tank.expected_interval_s} now={now} />
-      </td>
-      <td data-label="Plan"><TankPlanVerdict plan={tank.plan} zone={zone} /></td>
-    </tr>
-  );
+const tankColumn = createColumnHelper<TankSummary>();
+
+function tankColumns(now: number, zone: string, fig: Figures) {
+  return [
+    tankColumn.accessor("name", {
+      header: "Tank",
+      cell: ({ row: { original: tank } }) => (
+        <>
+          <Link href={`/assets/${tank.id}`} className="font-bold underline">{tank.name}</Link>
+          {tank.flags.length > 0 && <span className="ml-2 inline-flex gap-1">{[...new Set(tank.flags)].map((f) => <FlagTag key={f} flag={f} />)}</span>}
+        </>
+      ),
+      meta: { headerClassName: "md:w-[34%]" },
+    }),
+    tankColumn.accessor((t) => t.fill_pct ?? undefined, {
+      id: "fill",
+      header: "Fill",
+      cell: (c) => <><FillBar pct={c.row.original.fill_pct} /> {fig.percent(c.row.original.fill_pct)}</>,
+      meta: { headerClassName: "md:w-[16%]", cellClassName: "figures whitespace-nowrap" },
+    }),
+    tankColumn.accessor((t) => t.volume_l ?? undefined, { id: "volume", header: "Volume", cell: (c) => fig.volume(c.row.original.volume_l), meta: { headerClassName: "md:w-[14%]", cellClassName: "figures whitespace-nowrap" } }),
+    tankColumn.accessor((t) => t.level_m ?? undefined, {
+      id: "level",
+      header: "Level",
+      cell: ({ row: { original: tank } }) => (
+        <>
+          {fig.length(tank.level_m, tank.uncertainty_m)}
+          <OverdueAge at={tank.at} expectedIntervalS={tank.expected_interval_s} now={now} />
+        </>
+      ),
+      meta: { headerClassName: "md:w-[22%]", cellClassName: "figures whitespace-nowrap" },
+    }),
+    tankColumn.display({
+      id: "plan",
+      header: "Plan",
+      cell: (c) => <TankPlanVerdict plan={c.row.original.plan} zone={zone} />,
+      meta: { headerClassName: "md:w-[14%]" },
+    }),
+  ];
 }
 
 function SiteCard({ site, now }: { site: SiteSummary; now: number }) {
   // The server sends every tank of a small site by name, and the emptiest of a large one.
   const tanks = site.tanks;
+  const fig = useFigures();
   return (
     <section className="card" aria-labelledby={`site-${site.id}`} data-testid="site-card">
       <header className="flex flex-wrap items-baseline gap-x-4 gap-y-1 border-b border-rule px-4 py-3">
@@ -77,26 +100,7 @@ function SiteCard({ site, now }: { site: SiteSummary; now: number }) {
         </span>
       </header>
       {tanks.length > 0 && (
-        <table className={`${STACKED_TABLE} md:table-fixed`}>
-          <caption className="sr-only">Tanks at {site.name}</caption>
-          <colgroup>
-            <col className="md:w-[34%]" />
-            <col className="md:w-[16%]" />
-            <col className="md:w-[14%]" />
-            <col className="md:w-[22%]" />
-            <col className="md:w-[14%]" />
-          </colgroup>
-          <thead>
-            <tr>
-              <th scope="col">Tank</th>
-              <th scope="col">Fill</th>
-              <th scope="col">Volume</th>
-              <th scope="col">Level</th>
-              <th scope="col">Plan</th>
-            </tr>
-          </thead>
-          <tbody>{tanks.map((t) => <TankLine key={t.id} tank={t} zone={site.time_zone} now={now} />)}</tbody>
-        </table>
+        <DataTable data={tanks} columns={tankColumns(now, site.time_zone, fig)} getRowId={(t) => t.id} label={`Tanks at ${site.name}`} bare tableClassName="md:table-fixed" empty="No tanks." />
       )}
       {site.tank_count > site.tanks.length && (
         <p className="px-4 py-2 text-sm text-muted">

@@ -1,8 +1,8 @@
 import { ALARM_CAUTION } from "@/lib/alarms/engine";
 import { PriorityBadge } from "@/components/ui/priority-badge";
 import type { PriorityCounts } from "@/lib/read-models/overview-alarms";
-import { formatDateTime } from "@/lib/format/time";
-import { ageWhenOverdue, formatAge } from "@/components/fleet/fleet-figures";
+import { formatDuration, isOverdue } from "@/components/fleet/fleet-figures";
+import { RelativeTime } from "@/components/ui/site-time";
 
 // Marks every live screen uses for states: alarm counts by priority (drawn by the priority badge), a
 // sensor fault a hatched tag with the flag's name.
@@ -44,14 +44,18 @@ export function FlagTag({ flag }: { flag: string }) {
 /** The age of a value, shown only once it is overdue (two expected intervals). */
 export function OverdueAge({ at, expectedIntervalS, now, zone = "UTC" }: { at: string | null | undefined; expectedIntervalS: number | null | undefined; now?: number; zone?: string }) {
   if (!expectedIntervalS) return null;
-  const age = ageWhenOverdue(at, expectedIntervalS, now);
-  if (!age) return null;
-  return <span className="font-sans text-sm font-bold text-medium" title={at ? formatDateTime(at, { locale: "en-GB", timeZone: zone }) : undefined}> · {age}</span>;
+  if (!isOverdue(at, expectedIntervalS, now)) return null;
+  return (
+    <span className="font-sans text-sm font-bold text-medium">
+      {" · "}
+      {at ? <RelativeTime at={at} zone={zone} now={now === undefined ? undefined : new Date(now)} /> : "no value yet"}
+    </span>
+  );
 }
 
 /** "for 14 min": how long an alarm has been in its episode. */
 export function sinceText(at: string | null | undefined, now?: number): string {
-  return at ? formatAge(at, now).replace(/ ago$/, "") : "—";
+  return at ? formatDuration(((now ?? Date.now()) - new Date(at).getTime()) / 1000) : "—";
 }
 
 /** The caution every screen with tank alarms carries (PRODUCT.md "Alarms"). */

@@ -1,14 +1,23 @@
 "use client";
 
 import useSWR from "swr";
-import { swrFetcher } from "@/lib/fetcher";
+import { useState } from "react";
+import { fetchJson, swrFetcher } from "@/lib/fetcher";
 import { formatBytes } from "@/lib/csv/parse";
-import type { UploadJson } from "@/lib/services/imports";
+import type { ImportQuestion, UploadJson } from "@/lib/services/imports";
 import { IMPORT_KIND_LABELS } from "@/lib/validations/import";
 import { Loading, LoadError } from "@/components/ui/data-state";
-import { STACKED_TABLE } from "@/components/ui/form-fields";
+import { createColumnHelper } from "@tanstack/react-table";
+import { DataTable } from "@/components/ui/data-table";
 
 const RUNNING = new Set(["waiting", "processing"]);
+
+type LineError = NonNullable<UploadJson["errors"]>[number];
+const errorColumn = createColumnHelper<LineError>();
+const errorColumns = [
+  errorColumn.accessor("line", { header: "Line", meta: { cellClassName: "figures" } }),
+  errorColumn.accessor("message", { header: "What is wrong" }),
+];
 
 /** The upload's state in words with a glyph; colour only when something is wrong. */
 export function UploadStatusText({ upload }: { upload: Pick<UploadJson, "status" | "error_count"> }) {
@@ -32,6 +41,48 @@ export function UploadStatusText({ upload }: { upload: Pick<UploadJson, "status"
         </span>
       );
   }
+}
+
+/** Values stored as written but questioned ("looks like °F?"): the operator reads one as °F, or keeps it. */
+function ImportQuestions({ upload, onChanged }: { upload: UploadJson; onChanged: () => void }) {
+  const [busy, setBusy] = useState<number | null>(null);
+  const [problem, setProblem] = useState<string | null>(null);
+  const questions = upload.questions ?? [];
+  if (questions.length === 0) return null;
+  async function readAsFahrenheit(q: ImportQuestion) {
+    setBusy(q.line);
+    setProblem(null);
+    try {
+      await fetchJson(`/api/imports/${upload.id}/read-as-fahrenheit`, { method: "POST", body: JSON.stringify({ lines: [q.line] }) });
+      onChanged();
+    } catch (err) {
+      setProblem((err as Error).message);
+    } finally {
+      setBusy(null);
+    }
+  }
+  return (
+    <div className="space-y-2" data-testid="import-questions">
+      <p className="text-sm font-bold">
+        <span aria-hidden="true">■ </span>Questions: stored as written; change what you know is wrong
+      </p>
+      <ul className="space-y-2 text-sm">
+        {questions.map((q) => (
+          <li key={`${q.line ?? "file"}-${q.message}`} className="border-l-4 border-medium bg-paper px-3 py-2">
+            {q.line !== null && <span className="figures">Line {q.line}: </span>}
+            {q.message}
+            {q.converted_at && <span className="font-bold"> Read as °F: stored as {q.as_celsius?.toFixed(1)}{"\u00a0"}°C.</span>}
+            {q.line !== null && q.looks_like_fahrenheit && !q.converted_at && (
+              <button type="button" className="btn-quiet ml-2" disabled={busy !== null} onClick={() => readAsFahrenheit(q)}>
+                {busy === q.line ? "Storing…" : `Read as °F (${q.as_celsius?.toFixed(1)}\u00a0°C)`}
+              </button>
+            )}
+          </li>
+        ))}
+      </ul>
+      {problem && <p role="alert" className="field-error">{problem}</p>}
+    </div>
+  );
 }
 
 /**
@@ -81,28 +132,16 @@ export function ImportProgress({ uploadId, onImportGoodRows }: { uploadId: strin
           Import the {data.rows_valid} good rows only
         </button>
       )}
+      {!running && <ImportQuestions upload={data} onChanged={() => mutate()} />}
       {data.errors && data.errors.length > 0 && (
-        <div className="overflow-x-auto">
-          <table className={STACKED_TABLE}>
-            <caption className="px-3 py-2 text-left text-sm font-bold">
-              Errors by line{data.error_count > data.errors.length ? ` (the first ${data.errors.length} of ${data.error_count})` : ""}
-            </caption>
-            <thead>
-              <tr>
-                <th scope="col">Line</th>
-                <th scope="col">What is wrong</th>
-              </tr>
-            </thead>
-            <tbody>
-              {data.errors.map((e) => (
-                <tr key={`${e.line}-${e.message}`}>
-                  <td data-label="Line" className="figures">{e.line}</td>
-                  <td data-label="What is wrong">{e.message}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </div>
+        <DataTable
+          data={data.errors}
+          columns={errorColumns}
+          label={`Errors by line${data.error_count > data.errors.length ? ` (the first ${data.errors.length} of ${data.error_count})` : ""}`}
+          caption
+          bare
+          empty="No errors."
+        />
       )}
     </section>
   );

@@ -2,15 +2,20 @@
 
 import useSWR, { useSWRConfig } from "swr";
 import { useRouter } from "next/navigation";
-import { useState } from "react";
+import { useMemo } from "react";
+import { useForm } from "react-hook-form";
+import { zodResolver } from "@hookform/resolvers/zod";
+import { z } from "zod";
 import { fetchJson, swrFetcher } from "@/lib/fetcher";
-import { fieldErrors } from "@/lib/http/errors";
 import type { SiteJson } from "@/lib/services/sites";
 import { createSiteSchema, updateSiteSchema } from "@/lib/validations/site";
 import { Loading, LoadError } from "@/components/ui/data-state";
-import { errorReader, isUnder, errorsFromApi, fieldId, FormAlert, FormButtons, InputField, NumberField, numberOrNull, textOf, type FieldErrors } from "@/components/ui/form-fields";
+import { applyApiErrors, errorReader, isUnder, fieldId, FormAlert, FormButtons, InputField, NumberField, numberOrNull, textOf } from "@/components/ui/form-fields";
+import { flatErrors, payloadSchema, textBoxes } from "@/components/ui/form-schema";
 
-type Values = Record<"name" | "time_zone" | "latitude" | "longitude" | "air_temp_c" | "humidity_pct" | "escalation_delay_min", string>;
+const FIELDS = ["name", "time_zone", "latitude", "longitude", "air_temp_c", "humidity_pct", "escalation_delay_min"] as const;
+type Values = Record<(typeof FIELDS)[number], string>;
+const valuesSchema = textBoxes(FIELDS);
 
 function initialValues(site?: SiteJson): Values {
   return {
@@ -36,43 +41,37 @@ function payloadOf(v: Values) {
   };
 }
 
-/** Create (no `site`) or edit a site; `timeZones` comes from the server so both renders list the same zones. */
+/** Create (no `site`) or edit a site; `timeZones` comes from the server so both renders list the same zones. After saving, the site's page. */
 export function SiteForm({ site, timeZones }: { site?: SiteJson; timeZones: string[] }) {
   const router = useRouter();
   const { mutate } = useSWRConfig();
-  const [values, setValues] = useState<Values>(() => initialValues(site));
-  const [errors, setErrors] = useState<FieldErrors>({});
-  const [busy, setBusy] = useState(false);
-  const set = (key: keyof Values) => (e: React.ChangeEvent<HTMLInputElement>) => setValues((v) => ({ ...v, [key]: e.target.value }));
+  const schema = useMemo(() => payloadSchema(valuesSchema, payloadOf, site ? updateSiteSchema : createSiteSchema), [site]);
+  const form = useForm<Values, unknown, z.output<typeof schema>>({ resolver: zodResolver(schema), defaultValues: initialValues(site) });
+  const { register, handleSubmit, formState } = form;
+  const errors = flatErrors(formState.errors);
+  const busy = formState.isSubmitting || formState.isSubmitSuccessful;
   const { read, rest } = errorReader(errors);
   const id = (key: string) => fieldId("site", key);
 
-  async function onSubmit(event: React.FormEvent) {
-    event.preventDefault();
-    const parsed = (site ? updateSiteSchema : createSiteSchema).safeParse(payloadOf(values));
-    if (!parsed.success) return setErrors(fieldErrors(parsed.error));
-    setErrors({});
-    setBusy(true);
+  const onSubmit = handleSubmit(async (payload) => {
     try {
-      const saved = await fetchJson<{ id: string }>(site ? `/api/sites/${site.id}` : "/api/sites", { method: site ? "PATCH" : "POST", body: JSON.stringify(parsed.data) });
+      const saved = await fetchJson<{ id: string }>(site ? `/api/sites/${site.id}` : "/api/sites", { method: site ? "PATCH" : "POST", body: JSON.stringify(payload) });
       await mutate(isUnder("/api/sites"));
       router.push(`/sites/${saved.id}`);
       router.refresh();
     } catch (e) {
-      setErrors(errorsFromApi(e));
-      setBusy(false);
+      applyApiErrors(form, e);
     }
-  }
+  });
 
   return (
     <form onSubmit={onSubmit} noValidate className="card grid max-w-3xl gap-4 p-4 sm:grid-cols-2">
-      <InputField id={id("name")} label="Name" value={values.name} onChange={set("name")} error={read("name")} className="sm:col-span-2" />
+      <InputField id={id("name")} label="Name" {...register("name")} error={read("name")} className="sm:col-span-2" />
       <InputField
         id={id("time_zone")}
         label="Time zone"
         list="site-time-zones"
-        value={values.time_zone}
-        onChange={set("time_zone")}
+        {...register("time_zone")}
         error={read("time_zone")}
         hint="An IANA zone, such as Europe/Dublin or America/Chicago. Start typing to pick one."
         autoComplete="off"
@@ -81,25 +80,23 @@ export function SiteForm({ site, timeZones }: { site?: SiteJson; timeZones: stri
       <datalist id="site-time-zones">
         {timeZones.map((tz) => <option key={tz} value={tz} />)}
       </datalist>
-      <NumberField id={id("latitude")} label="Latitude" unit="°, north positive" value={values.latitude} onChange={set("latitude")} error={read("latitude")} />
-      <NumberField id={id("longitude")} label="Longitude" unit="°, east positive" value={values.longitude} onChange={set("longitude")} error={read("longitude")} />
+      <NumberField id={id("latitude")} label="Latitude" unit="°, north positive" {...register("latitude")} error={read("latitude")} />
+      <NumberField id={id("longitude")} label="Longitude" unit="°, east positive" {...register("longitude")} error={read("longitude")} />
       <NumberField
         id={id("air_temp_c")}
         label="Fixed air temperature"
         unit="°C"
-        value={values.air_temp_c}
-        onChange={set("air_temp_c")}
+        {...register("air_temp_c")}
         error={read("air_temp_c")}
         hint="Used when a reading carries no temperature and the site has no samples; leave empty for 20 °C."
       />
-      <NumberField id={id("humidity_pct")} label="Relative humidity" unit="%" value={values.humidity_pct} onChange={set("humidity_pct")} error={read("humidity_pct")} hint="Optional; refines the speed of sound." />
+      <NumberField id={id("humidity_pct")} label="Relative humidity" unit="%" {...register("humidity_pct")} error={read("humidity_pct")} hint="Optional; refines the speed of sound." />
       <NumberField
         id={id("escalation_delay_min")}
         label="Escalation delay"
         unit="min"
         step={1}
-        value={values.escalation_delay_min}
-        onChange={set("escalation_delay_min")}
+        {...register("escalation_delay_min")}
         error={read("escalation_delay_min")}
         hint="How long an unacknowledged alarm waits before the next person on call is told."
       />

@@ -11,15 +11,43 @@ import { useFigures } from "@/components/ui/display-settings";
 import { plural } from "@/lib/format/number";
 import { LIVE_REFRESH_MS } from "@/components/fleet/fleet-overview";
 import { FlagTag, OverdueAge, TankCaution } from "@/components/fleet/fleet-status";
-import { STACKED_TABLE } from "@/components/ui/form-fields";
+import { createColumnHelper } from "@tanstack/react-table";
+import { DataTable } from "@/components/ui/data-table";
 import { SiteTime } from "@/components/ui/site-time";
 import { TankCard } from "@/components/sites/site-live-tank";
 
 // The site screen, in the order a person checks it: what is wrong (alarms), what it is now (tanks,
 // bays, points), with each asset linking to its trend. Refreshed every 10 seconds.
 
-export function SiteLive({ siteId, canAcknowledge }: { siteId: string; canAcknowledge: boolean }) {
+type Point = SiteOverviewJson["points"][number];
+const pointColumn = createColumnHelper<Point>();
+
+function PointTable({ points, now }: { points: Point[]; now: number }) {
   const fig = useFigures();
+  const columns = [
+    pointColumn.accessor("name", { header: "Point", cell: (c) => <Link href={`/assets/${c.row.original.id}`} className="font-bold underline">{c.getValue()}</Link> }),
+    pointColumn.accessor((p) => p.latest?.distance_m ?? undefined, {
+      id: "distance",
+      header: "Distance",
+      cell: ({ row: { original: p } }) => (
+        <>
+          {fig.length(p.latest?.distance_m, p.latest?.uncertainty_m)}
+          <OverdueAge at={p.latest?.at} expectedIntervalS={p.channel?.expected_interval_s} now={now} />
+        </>
+      ),
+      meta: { cellClassName: "figures" },
+    }),
+    pointColumn.display({ id: "day", header: "Last 24 h", cell: ({ row: { original: p } }) => (p.day.range ? `${fig.length(p.day.range[0])} to ${fig.length(p.day.range[1])}` : "—"), meta: { cellClassName: "figures" } }),
+    pointColumn.accessor((p) => p.flags.length, {
+      id: "sensor",
+      header: "Sensor",
+      cell: ({ row: { original: p } }) => (p.flags.length ? [...new Set(p.flags.map((f) => f.flag))].map((f) => <FlagTag key={f} flag={f} />) : <span className="text-muted">no fault</span>),
+    }),
+  ];
+  return <DataTable data={points} columns={columns} getRowId={(p) => p.id} label="Distance points" title empty="No distance points at this site." />;
+}
+
+export function SiteLive({ siteId, canAcknowledge }: { siteId: string; canAcknowledge: boolean }) {
   const { data, error, isLoading, mutate } = useSWR<SiteOverviewJson>(`/api/sites/${siteId}/overview`, swrFetcher, { refreshInterval: LIVE_REFRESH_MS });
   if (isLoading) return <Loading label="Loading the site…" />;
   if (error && !data) return <LoadError error={error} retry={() => mutate()} />;
@@ -62,34 +90,7 @@ export function SiteLive({ siteId, canAcknowledge }: { siteId: string; canAcknow
         </section>
       )}
 
-      {data.points.length > 0 && (
-        <section aria-labelledby="site-points" className="card">
-          <h2 id="site-points" className="border-b border-rule px-3 py-2 text-lg font-bold">Distance points</h2>
-          <table className={STACKED_TABLE}>
-            <thead>
-              <tr>
-                <th scope="col">Point</th>
-                <th scope="col">Distance</th>
-                <th scope="col">Last 24 h</th>
-                <th scope="col">Sensor</th>
-              </tr>
-            </thead>
-            <tbody>
-              {data.points.map((p) => (
-                <tr key={p.id}>
-                  <td data-label="Point"><Link href={`/assets/${p.id}`} className="font-bold underline">{p.name}</Link></td>
-                  <td data-label="Distance" className="figures">
-                    {fig.length(p.latest?.distance_m, p.latest?.uncertainty_m)}
-                    <OverdueAge at={p.latest?.at} expectedIntervalS={p.channel?.expected_interval_s} now={now} />
-                  </td>
-                  <td data-label="Last 24 h" className="figures">{p.day.range ? `${fig.length(p.day.range[0])} to ${fig.length(p.day.range[1])}` : "—"}</td>
-                  <td data-label="Sensor">{p.flags.length ? [...new Set(p.flags.map((f) => f.flag))].map((f) => <FlagTag key={f} flag={f} />) : <span className="text-muted">no fault</span>}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </section>
-      )}
+      {data.points.length > 0 && <PointTable points={data.points} now={now} />}
 
       {empty && <p className="card px-4 py-6 text-sm text-muted">No assets at this site yet.</p>}
     </div>

@@ -1,6 +1,6 @@
 "use client";
 
-import { useState } from "react";
+import { useId, useState } from "react";
 import {
   flexRender,
   getCoreRowModel,
@@ -25,6 +25,8 @@ declare module "@tanstack/react-table" {
     label?: string;
     /** Classes of the column's cells (alignment, figures). */
     cellClassName?: string;
+    /** Classes of the column's header cell (a fixed width in a table-fixed layout). */
+    headerClassName?: string;
   }
 }
 
@@ -40,9 +42,10 @@ function headerLabel<T>(column: Header<T, unknown>["column"]): string {
 function SortableHeader<T>({ header }: { header: Header<T, unknown> }) {
   const sorted = header.column.getIsSorted();
   const content = flexRender(header.column.columnDef.header, header.getContext());
-  if (!header.column.getCanSort()) return <th scope="col">{content}</th>;
+  const className = header.column.columnDef.meta?.headerClassName;
+  if (!header.column.getCanSort()) return <th scope="col" className={className}>{content}</th>;
   return (
-    <th scope="col" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : "none"}>
+    <th scope="col" className={className} aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : "none"}>
       <button type="button" className="-mx-1 inline-flex min-h-10 items-center gap-1 px-1 uppercase hover:text-ink" onClick={header.column.getToggleSortingHandler()}>
         {content}
         <span aria-hidden="true">{sorted === "asc" ? "↑" : sorted === "desc" ? "↓" : "↕"}</span>
@@ -52,8 +55,16 @@ function SortableHeader<T>({ header }: { header: Header<T, unknown> }) {
 }
 
 export interface DataTableStates<T> {
-  /** The list's name, read by screen readers. */
+  /** The list's name, read by screen readers (and shown as its heading with `title`). */
   label: string;
+  /** Shows `label` as the list's heading inside its card. */
+  title?: boolean;
+  /** Shows `label` as the table's visible caption (a list under a heading of its own); otherwise the caption is for screen readers. */
+  caption?: boolean;
+  /** Drawn without a card or region of its own, inside a card that already frames it (its table keeps `label` as caption). */
+  bare?: boolean;
+  /** Classes added to the <table> (md:table-fixed). */
+  tableClassName?: string;
   loading?: boolean;
   error?: Error;
   retry?: () => void;
@@ -66,15 +77,25 @@ export interface DataTableStates<T> {
 }
 
 /** Draws a TanStack table the caller set up (server-side sorting, selection): for lists with their own state. */
-export function DataTableView<T>({ table, label, loading, error, retry, empty, rowProps, footer }: DataTableStates<T> & { table: Table<T> }) {
+export function DataTableView<T>({ table, label, title, caption, bare, tableClassName, loading, error, retry, empty, rowProps, footer }: DataTableStates<T> & { table: Table<T> }) {
   const rows = table.getRowModel().rows;
+  const titleId = useId();
+  // A bare table sits inside a region that already names it; only a framed list is a region of its own.
+  const Frame = bare ? "div" : "section";
   return (
-    <section className="card overflow-x-auto" aria-label={label} aria-busy={loading || undefined}>
+    <Frame
+      className={bare ? "overflow-x-auto" : "card overflow-x-auto"}
+      aria-label={title || bare ? undefined : label}
+      aria-labelledby={title ? titleId : undefined}
+      aria-busy={loading || undefined}
+    >
+      {title && <h2 id={titleId} className="border-b border-rule px-3 py-2 text-lg font-bold">{label}</h2>}
       {loading && !rows.length && <Loading />}
       {error && <LoadError error={error} retry={retry} />}
       {!loading && !error && !rows.length && <p className="px-3 py-6 text-sm text-muted">{empty}</p>}
       {rows.length > 0 && (
-        <table className={STACKED_TABLE}>
+        <table className={tableClassName ? `${STACKED_TABLE} ${tableClassName}` : STACKED_TABLE}>
+          <caption className={caption ? "px-3 py-2 text-left text-sm font-bold" : "sr-only"}>{label}</caption>
           <thead>
             {table.getHeaderGroups().map((g) => (
               <tr key={g.id}>
@@ -96,7 +117,7 @@ export function DataTableView<T>({ table, label, loading, error, retry, empty, r
         </table>
       )}
       {footer}
-    </section>
+    </Frame>
   );
 }
 
@@ -119,9 +140,16 @@ export function DataTable<T>({
   // TanStack Table keeps its own state and hands out fresh functions each render; the compiler skips this component, as intended.
   // eslint-disable-next-line react-hooks/incompatible-library
   const table = useReactTable({
-    data: data ?? [],
+    // A fresh array each render: TanStack caches each row's values until its data changes, and an accessor
+    // may read what the screen loaded beside the rows (a site's or asset's name arriving later). These
+    // lists are not paged, so nothing is reset when the rows are rebuilt (a reset would render again, forever).
+    data: data ? [...data] : [],
+    autoResetAll: false,
     columns,
     getRowId,
+    // The first click sorts ascending on every column (numbers and times too); a missing value (an
+    // accessor's undefined) goes last whichever way the column is sorted.
+    defaultColumn: { sortUndefined: "last", sortDescFirst: false },
     state: { sorting },
     enableSorting: sortable,
     onSortingChange: setSorting,

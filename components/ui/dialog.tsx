@@ -11,6 +11,8 @@ export function Dialog({ title, onClose, children }: { title: string; onClose: (
   useEffect(() => {
     const dialog = ref.current;
     if (dialog && !dialog.open) dialog.showModal();
+    // showModal focuses the first control; a dialog may name a safer one (Cancel) with data-autofocus.
+    dialog?.querySelector<HTMLElement>("[data-autofocus]")?.focus();
     return () => dialog?.close();
   }, []);
   return (
@@ -54,7 +56,7 @@ export function ConfirmDialog({
       {error && <p role="alert" className="field-error mb-4">{error}</p>}
       <div className="flex flex-wrap gap-3">
         <button type="button" className="btn" disabled={busy} onClick={onConfirm}>{busy ? "Saving…" : confirmLabel}</button>
-        <button type="button" className="btn-quiet" autoFocus onClick={onCancel}>Cancel</button>
+        <button type="button" className="btn-quiet" data-autofocus onClick={onCancel}>Cancel</button>
       </div>
     </Dialog>
   );

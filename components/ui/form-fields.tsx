@@ -1,11 +1,13 @@
 "use client";
 
 import Link from "next/link";
-import type { FieldValues, Path, UseFormReturn } from "react-hook-form";
+import { useEffect } from "react";
+import type { FieldValues, Path, PathValue, UseFormReturn } from "react-hook-form";
 import { ApiError } from "@/lib/fetcher";
 
-// Shared pieces of the provisioning screens (sites, assets, devices): labelled fields with their error,
-// the form's alert, number parsing, the stacked table. Figures are written by ./fleet-figures.
+// The kit's form pieces: labelled fields with their hint and error, the form's alert, the API's answers
+// put beside the fields they name. Forms hold their state in react-hook-form with a schema from
+// ./form-schema; every number box is a NumberField, so a unit or locale applies to all of them at once.
 
 export type FieldErrors = Record<string, string>;
 
@@ -21,12 +23,28 @@ export function errorsFromApi(e: unknown): FieldErrors {
   return { _: (e as Error).message };
 }
 
-/** Puts the API's 422 field messages on the form's fields, anything else on the form as a whole. */
-export function applyApiErrors<T extends FieldValues>(form: Pick<UseFormReturn<T>, "setError">, e: unknown) {
+/**
+ * Puts the API's 422 field messages on the form's fields, anything else on the form as a whole;
+ * `fieldOf` renames an API path to the form's where they differ.
+ */
+export function applyApiErrors<T extends FieldValues>(form: Pick<UseFormReturn<T>, "setError">, e: unknown, fieldOf: (key: string) => string = (key) => key) {
   const errors = errorsFromApi(e);
   for (const [key, message] of Object.entries(errors)) {
-    form.setError(key === "_" ? "root" : (key as Path<T>), { message });
+    form.setError(key === "_" ? "root" : (fieldOf(key) as Path<T>), { message });
   }
+}
+
+/**
+ * A select whose options arrive after the form was drawn (sites, assets) shows the form's value once they
+ * do: the browser could not select an option that did not exist yet.
+ */
+export function useSelectsFollowOptions<T extends FieldValues>(form: Pick<UseFormReturn<T>, "getValues" | "setValue">, names: readonly Path<T>[], options: unknown) {
+  const { getValues, setValue } = form;
+  const key = names.join(" ");
+  useEffect(() => {
+    if (!options) return;
+    for (const name of key.split(" ")) setValue(name as Path<T>, getValues(name as Path<T>) as PathValue<T, Path<T>>);
+  }, [options, key, getValues, setValue]);
 }
 
 /** After a save, every cached list or record under this API path is fetched again. */
@@ -127,9 +145,8 @@ export function FormButtons({ busy, label, cancelHref }: { busy: boolean; label:
   );
 }
 
-/** A dense table at desktop width; at phone width each row becomes a stacked card, each cell labelled by data-label. */
-export const STACKED_TABLE =
-  "table-dense w-full max-md:[&_thead]:sr-only max-md:[&_tr]:block max-md:[&_tr]:border-b max-md:[&_tr]:border-rule max-md:[&_tr]:py-2 max-md:[&_td]:flex max-md:[&_td]:h-auto max-md:[&_td]:justify-between max-md:[&_td]:gap-4 max-md:[&_td]:border-0 max-md:[&_td]:py-1 max-md:[&_td]:text-right max-md:[&_td]:before:text-left max-md:[&_td]:before:font-sans max-md:[&_td]:before:font-bold max-md:[&_td]:before:content-[attr(data-label)]";
+// Lists draw through DataTable; the stacked layout is re-exported for screens not yet converted.
+export { STACKED_TABLE } from "@/components/ui/data-table";
 
 export function NotFoundPanel({ what, backHref, backLabel }: { what: string; backHref: string; backLabel: string }) {
   return (

@@ -133,11 +133,6 @@ export interface AlarmActionError {
 
 export type AlarmTransitionResult = AlarmTransition | AlarmActionError;
 
-/** The HTTP status an API answers for a refused action: a bad expiry is the request's fault, the rest conflict with the alarm's state. */
-export function httpStatusForAlarmError(code: AlarmActionErrorCode): 409 | 422 {
-  return code === "invalid_shelve_expiry" ? 422 : 409;
-}
-
 /** A new alarm: normal, condition clear. */
 export function initialAlarmSnapshot(latching = false): AlarmSnapshot {
   return { state: "normal", conditionActive: false, latching, shelvedUntil: null };
@@ -261,7 +256,7 @@ function onShelveExpired(s: AlarmSnapshot, at: Instant): AlarmTransitionResult {
 
 /**
  * Applies one input to an alarm. Condition inputs always succeed; an action that the current state
- * does not allow answers `{ ok: false, code, message }` (HTTP status from httpStatusForAlarmError).
+ * does not allow answers `{ ok: false, code, message }` (lib/services/alarms.ts turns it into an application error).
  */
 export function transitionAlarm(current: AlarmSnapshot, input: AlarmInput): AlarmTransitionResult {
   const problem = snapshotProblem(current);

@@ -1,6 +1,7 @@
 import { getServerSession } from "next-auth";
 import { redirect } from "next/navigation";
-import { User } from "../db/models";
+import type { User } from "../db/models";
+import { sqlRows } from "../db/sql";
 import type { Scope } from "../db/site-scope";
 import type { Actor } from "../services/audit";
 import { forbidden, unauthorized } from "../errors";
@@ -26,7 +27,12 @@ export async function currentUser(): Promise<SessionUser | null> {
   const session = await getServerSession(authOptions);
   const id = session?.user?.id;
   if (!id) return null;
-  const user = await User.findByPk(id);
+  // Every request asks this: one prepared statement, not a model look-up.
+  const [user] = await sqlRows<Pick<User, "id" | "organisation_id" | "role" | "email" | "name" | "status" | "session_version" | "site_ids">>(
+    `SELECT id, organisation_id, role, email, name, status, session_version, site_ids FROM users WHERE id = $1`,
+    [id],
+    { name: "current_user" },
+  );
   if (!user || user.status !== "active" || user.session_version !== session.user.sessionVersion) return null;
   const siteIds = user.role === "viewer" ? (user.site_ids ?? null) : null;
   return {

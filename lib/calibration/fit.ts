@@ -28,6 +28,9 @@ export interface CalibrationFit extends Calibration {
   rmsM: number;
   /** Why the fit took the mode it did, for the screen. */
   note: string | null;
+  /** Range of the levels the dips read, and of the sensor's raw distances at their times, metres: told apart, since they differ when a dip or its time is wrong. */
+  dipSpreadM: number;
+  sensorSpreadM: number;
 }
 
 export type FitResult = { ok: true; fit: CalibrationFit } | { ok: false; reason: string };
@@ -133,7 +136,7 @@ export function fitCalibration(points: readonly CalibrationPoint[], currentScale
   } else {
     calibration = fitOffsetOnly(points, currentScale);
     mode = "offset_only";
-    note = `${spreadSentence(dipSpread, sensorSpread)} Only the offset is fitted and the scale is kept. Dip again at a level at least ${(minSpreadM * 100).toFixed(0)} cm away to fit the scale.`;
+    note = `Only the offset is fitted and the scale is kept: the sensor's readings at the dips lie within ${mm(sensorSpread)} of each other, too close to fit a scale. Dip again at a level at least ${(minSpreadM * 100).toFixed(0)} cm away to fit the scale.`;
   }
   if (!calibration) return { ok: false, reason: "The dips do not determine a calibration." };
   if (calibration.scale < SCALE_BOUNDS.min || calibration.scale > SCALE_BOUNDS.max) {
@@ -143,5 +146,5 @@ export function fitCalibration(points: readonly CalibrationPoint[], currentScale
     };
   }
   const residualsM = residualsUnder(points, calibration);
-  return { ok: true, fit: { ...calibration, mode, n: points.length, residualsM, rmsM: rms(residualsM), note } };
+  return { ok: true, fit: { ...calibration, mode, n: points.length, residualsM, rmsM: rms(residualsM), note, dipSpreadM: dipSpread, sensorSpreadM: sensorSpread } };
 }

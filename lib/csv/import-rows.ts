@@ -3,7 +3,8 @@
 
 import { describeZodError } from "../http/errors";
 import { checkReadingForDevice, readingSchema, type DeviceRules, type ReadingInput } from "../validations/reading";
-import { dipLevelSchema, dipNoteSchema, MAX_DIP_FUTURE_MS } from "../validations/dip";
+import { dipLevelSchema, dipNoteSchema } from "../validations/dip";
+import { dipDateQuestion, dipLevelQuestion, type DipDateFacts } from "../input-checks/questions";
 import { importColumns, strappingRowSchema, temperatureRowSchema } from "../validations/import";
 import { parseIntegerCell, parseNumberCell, parseOptionalNumberCell, parseTimestampCell, type Cell, type ColumnSpec } from "./columns";
 
@@ -99,8 +100,8 @@ export interface DipRow {
   note: string | null;
 }
 
-/** Manual dips of one tank: at, level_m and an optional note; a level above the tank is refused. */
-export function dipRowReader(maxLevelM: number | null, now: number): RowReader<DipRow> {
+/** Manual dips of one tank: at, level_m and an optional note; a level above the tank, or a time in the future or before the tank's data, is refused. */
+export function dipRowReader(maxLevelM: number | null, dates: DipDateFacts): RowReader<DipRow> {
   return {
     columns: importColumns("dips"),
     describeKey: (key) => `time ${new Date(Number(key)).toISOString()}`,
@@ -109,11 +110,12 @@ export function dipRowReader(maxLevelM: number | null, now: number): RowReader<D
       const level = parseNumberCell("level_m", cell("level_m") ?? "");
       const problem = firstProblem([at, level]);
       if (problem || !at.ok || !level.ok) return { ok: false, message: problem ?? "unreadable row" };
-      const future = notInFuture(at.value, now, MAX_DIP_FUTURE_MS);
-      if (future) return { ok: false, message: future };
+      const when = dipDateQuestion(at.value, dates);
+      if (when) return { ok: false, message: `at ${at.value.toISOString()}: ${when.message}` };
       const levelOk = dipLevelSchema.safeParse(level.value);
       if (!levelOk.success) return { ok: false, message: `level_m: ${describeZodError(levelOk.error)}` };
-      if (maxLevelM !== null && level.value > maxLevelM + 1e-9) return { ok: false, message: `level_m ${level.value} is above the tank's ${maxLevelM.toFixed(3)} m` };
+      const depth = dipLevelQuestion(level.value, maxLevelM);
+      if (depth) return { ok: false, message: `level_m ${level.value}: ${depth.message}` };
       const note = dipNoteSchema.safeParse(cell("note") ?? "");
       if (!note.success) return { ok: false, message: `note: ${describeZodError(note.error)}` };
       return { ok: true, row: { at: at.value, level_m: level.value, note: note.data || null }, key: String(at.value.getTime()) };

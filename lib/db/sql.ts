@@ -5,6 +5,7 @@
 // write goes to the read pool; everything else, anything in a transaction, anything marked `primary`
 // and anything inside onPrimary() goes to the primary.
 
+import { createHash } from "node:crypto";
 import type { ClientBase } from "pg";
 import { QueryTypes, type Transaction } from "sequelize";
 import { getSequelize } from "./sequelize";
@@ -13,7 +14,10 @@ export type SqlParams = Readonly<Record<string, unknown>> | readonly unknown[];
 
 export interface SqlOptions {
   transaction?: Transaction | null;
-  /** A prepared statement's name, for statements run on every request (positional parameters only). */
+  /**
+   * A prepared statement's name, for statements run on every request (positional parameters only). A
+   * hash of the text is added, so one name may stand for variants of a statement (a viewer's sites).
+   */
   name?: string;
   /** Read from the primary: a read that must see a write just made, or that decides one. */
   primary?: boolean;
@@ -39,7 +43,7 @@ export async function sqlRows<T extends object>(text: string, params: SqlParams 
   const transaction = options.transaction ?? undefined;
   if (options.name) {
     if (!Array.isArray(params)) throw new TypeError(`prepared statement ${options.name} takes positional parameters`);
-    return prepared<T>(options.name, text, params, readOnly, transaction);
+    return prepared<T>(`${options.name}.${createHash("sha1").update(text).digest("base64url").slice(0, 16)}`, text, params, readOnly, transaction);
   }
   const sequelize = getSequelize();
   const values = Array.isArray(params) ? { bind: params as unknown[] } : { replacements: params as Record<string, unknown> };
@@ -61,6 +65,26 @@ async function prepared<T>(name: string, text: string, values: readonly unknown[
   try {
     return (await connection.query({ name, text, values: [...values] })).rows as T[];
   } finally {
+    await manager.releaseConnection(connection);
+  }
+}
+
+/** Statements on one held connection (see withSession). */
+export type SessionSql = <T extends object>(text: string, params?: readonly unknown[]) => Promise<T[]>;
+
+/**
+ * Runs `fn` with one primary connection held throughout, outside any transaction: for session-level
+ * state that must outlive transactions (the worker's lane locks). The session's advisory locks are
+ * released before the connection goes back to the pool.
+ */
+export async function withSession<T>(fn: (sql: SessionSql) => Promise<T>): Promise<T> {
+  const manager = getSequelize().connectionManager as unknown as ConnectionManager;
+  const connection = await manager.getConnection({ type: "RAW", useMaster: true });
+  const run: SessionSql = async <R extends object>(text: string, params: readonly unknown[] = []) => (await connection.query(text, [...params])).rows as R[];
+  try {
+    return await fn(run);
+  } finally {
+    await connection.query(`SELECT pg_advisory_unlock_all()`).catch(() => undefined);
     await manager.releaseConnection(connection);
   }
 }

@@ -4,6 +4,8 @@
 // beyond the transducer's range. Pure: the caller passes now and the asset's facts; messages name the
 // numbers through the caller's formatter, so they appear in the viewer's units.
 
+import { toSi } from "../units/units";
+
 export type Severity = "refuse" | "warn";
 
 export interface Question {
@@ -18,7 +20,7 @@ const metres: LengthWriter = (m) => `${m.toFixed(3)} m`;
 
 // ── Dips ──────────────────────────────────────────────────────────────────────────────────────────
 
-/** A device clock or a phone a few minutes ahead is not a dip in the future (own choice: 5 min). */
+/** A phone's clock a few minutes off is not a dip in the future, nor one before the tank was added (own choice: 5 min). */
 export const DIP_CLOCK_SLACK_MS = 5 * 60 * 1000;
 
 export interface DipDateFacts {
@@ -35,7 +37,7 @@ export function dipDateQuestion(at: Date, facts: DipDateFacts): Question | null 
     return { field: "at", severity: "refuse", message: "The dip is dated in the future; check its date, time and time zone." };
   }
   const start = Math.min(facts.assetCreatedAt.getTime(), facts.earliestDataAt?.getTime() ?? Infinity);
-  if (at.getTime() < start) {
+  if (at.getTime() < start - DIP_CLOCK_SLACK_MS) {
     return { field: "at", severity: "refuse", message: "The dip is dated before this tank had any data in Halftrip; check its date." };
   }
   return null;
@@ -96,7 +98,7 @@ export function temperatureSampleQuestions(samples: readonly TemperatureSampleIn
     const centre = median(near);
     const range = Math.max(...near) - Math.min(...near);
     if (Math.abs(s.airTempC - centre) <= SAMPLE_JUMP_K + range) return;
-    const asCelsius = ((s.airTempC - 32) * 5) / 9;
+    const asCelsius = toSi(s.airTempC, "degF");
     const looksLikeFahrenheit = Math.abs(asCelsius - centre) <= FAHRENHEIT_MATCH_K + range / 2;
     const message = looksLikeFahrenheit
       ? `${s.airTempC} °C is far from its neighbours (about ${centre.toFixed(1)} °C); it looks like °F (${asCelsius.toFixed(1)} °C). Check the column's unit.`
@@ -115,7 +117,7 @@ export function temperatureSeriesQuestion(samples: readonly TemperatureSampleInp
   if (values.length === 0) return null;
   const m = median(values);
   if (m <= SERIES_FAHRENHEIT_MEDIAN_C) return null;
-  return { field: "air_temp_c", severity: "warn", message: `The samples' median is ${m.toFixed(1)} °C; were they written in °F (${(((m - 32) * 5) / 9).toFixed(1)} °C)?` };
+  return { field: "air_temp_c", severity: "warn", message: `The samples' median is ${m.toFixed(1)} °C; were they written in °F (${toSi(m, "degF").toFixed(1)} °C)?` };
 }
 
 // ── Mounting ──────────────────────────────────────────────────────────────────────────────────────

@@ -22,9 +22,10 @@ export async function activeAlarmsBySite(scope: Scope, siteId?: string): Promise
   const { organisationId } = scope;
   const rows = await sqlRows<{ site_id: string; priority: keyof PriorityCounts; n: string }>(
     `SELECT site_id, priority, count(*) AS n FROM alarms
-     WHERE organisation_id = :organisationId AND ${siteScope(scope, "site_id")} AND state IN (:states) ${siteId ? "AND site_id = :siteId" : ""}
+     WHERE organisation_id = $1 AND ${siteScope(scope, "site_id")} AND state = ANY($2) ${siteId ? "AND site_id = $3" : ""}
      GROUP BY site_id, priority`,
-    { organisationId, siteId, states: ATTENTION_STATES },
+    [organisationId, ATTENTION_STATES, ...(siteId ? [siteId] : [])],
+    { name: "alarm_counts" },
   );
   const out = new Map<string, PriorityCounts>();
   for (const r of rows) {
@@ -95,9 +96,10 @@ export async function setpointsByAsset(scope: Scope, of: { siteId?: string; asse
   const rows = await sqlRows<SetpointJson & { asset_id: string }>(
     `SELECT sp.asset_id, sp.key, sp.value_m, sp.priority, sp.enabled
      FROM alarm_setpoints sp JOIN assets a ON a.id = sp.asset_id
-     WHERE a.organisation_id = :organisationId AND ${siteScope(scope, "a.site_id")} AND a.kind = 'tank' ${of.siteId ? "AND a.site_id = :siteId" : ""} ${of.assetId ? "AND a.id = :assetId" : ""}
+     WHERE a.organisation_id = $1 AND ${siteScope(scope, "a.site_id")} AND a.kind = 'tank' ${of.siteId ? "AND a.site_id = $2" : ""} ${of.assetId ? `AND a.id = $${of.siteId ? 3 : 2}` : ""}
      ORDER BY sp.value_m DESC`,
-    { organisationId, ...of },
+    [organisationId, ...(of.siteId ? [of.siteId] : []), ...(of.assetId ? [of.assetId] : [])],
+    { name: "setpoints" },
   );
   for (const { asset_id, ...sp } of rows) out.set(asset_id, [...(out.get(asset_id) ?? []), sp]);
   return out;

@@ -94,7 +94,7 @@ export async function assetOverview(scope: Scope, assetId: string, period: { fro
     sqlRows<DipRow>(
       `SELECT dp.id, dp.at, dp.level_m, dp.note, u.name AS by_name, dp.measured_level_m, dp.residual_m
        FROM manual_dips dp LEFT JOIN users u ON u.id = dp.by_user_id
-       WHERE dp.asset_id = :assetId AND dp.at BETWEEN :from AND :to ORDER BY dp.at`,
+       WHERE dp.asset_id = :assetId AND dp.voided_at IS NULL AND dp.at BETWEEN :from AND :to ORDER BY dp.at`,
       { assetId, ...period },
     ),
     sqlRows<CalibrationRow>(

@@ -1,5 +1,5 @@
-import { type Scope } from "../db/site-scope";
-import { findSite } from "../services/sites";
+import { siteScope, type Scope } from "../db/site-scope";
+import { notFound } from "../errors";
 import { deviceCountsBySite, listAssetStates, type AssetStateJson } from "./overview";
 import { listAttentionAlarms, setpointsByAsset, type SetpointJson } from "./overview-alarms";
 import { sqlRows } from "../db/sql";
@@ -12,7 +12,7 @@ const HOUR_S = 3600;
 interface TrendRow {
   asset_id: string;
   kind: "tank" | "point";
-  bucket_start: Date;
+  at_ms: number;
   mean: number | null;
   lo: number | null;
   hi: number | null;
@@ -32,22 +32,23 @@ interface DayTrend {
  */
 async function dayTrends(organisationId: string, siteId: string, since: Date): Promise<Map<string, DayTrend>> {
   const rows = await sqlRows<TrendRow>(
-    `SELECT r.asset_id, a.kind, r.bucket_start,
+    `SELECT r.asset_id, a.kind, (extract(epoch FROM r.bucket_start) * 1000)::float8 AS at_ms,
             -- To 0.1 mm: finer than any sensor here reads, and a quarter of the digits.
             round((CASE WHEN a.kind = 'tank' THEN sum(r.level_sum) ELSE sum(r.distance_sum) END / NULLIF(sum(r.n), 0))::numeric, 4)::float8 AS mean,
             CASE WHEN a.kind = 'tank' THEN min(r.level_min) ELSE min(r.distance_min) END AS lo,
             CASE WHEN a.kind = 'tank' THEN max(r.level_max) ELSE max(r.distance_max) END AS hi
      FROM measurement_rollups r JOIN assets a ON a.id = r.asset_id
-     WHERE a.organisation_id = :organisationId AND a.site_id = :siteId AND a.kind IN ('tank', 'point')
-       AND r.bucket_s = :bucketS AND r.bucket_start >= :since
+     WHERE a.organisation_id = $1 AND a.site_id = $2 AND a.kind IN ('tank', 'point')
+       AND r.bucket_s = $3 AND r.bucket_start >= $4
      GROUP BY r.asset_id, a.kind, r.bucket_start
      ORDER BY r.asset_id, r.bucket_start`,
-    { organisationId, siteId, bucketS: HOUR_S, since },
+    [organisationId, siteId, HOUR_S, since],
+    { name: "site_day_trends" },
   );
   const out = new Map<string, DayTrend>();
   for (const r of rows) {
     const t = out.get(r.asset_id) ?? { trend: [], range: null };
-    if (r.kind === "tank") t.trend.push([new Date(r.bucket_start).getTime(), r.mean]);
+    if (r.kind === "tank") t.trend.push([r.at_ms, r.mean]);
     if (r.lo != null && r.hi != null) t.range = t.range ? [Math.min(t.range[0], r.lo), Math.max(t.range[1], r.hi)] : [r.lo, r.hi];
     out.set(r.asset_id, t);
   }
@@ -63,14 +64,19 @@ export async function siteOverview(scope: Scope, siteId: string, now = new Date(
   const { organisationId } = scope;
   const since = new Date(Math.floor((now.getTime() - 24 * HOUR_S * 1000) / (HOUR_S * 1000)) * HOUR_S * 1000);
   // Every query is scoped to the organisation, so they all run at once; another's site is still a 404.
-  const [site, assets, trends, alarms, devices, setpoints] = await Promise.all([
-    findSite(scope, siteId),
+  const [[site], assets, trends, alarms, devices, setpoints] = await Promise.all([
+    sqlRows<{ id: string; name: string; time_zone: string; air_temp_c: number | null }>(
+      `SELECT id, name, time_zone, air_temp_c FROM sites WHERE id = $1 AND organisation_id = $2 AND ${siteScope(scope, "id")}`,
+      [siteId, organisationId],
+      { name: "site_in_scope" },
+    ),
     listAssetStates(scope, { siteId }, now),
     dayTrends(organisationId, siteId, since),
     listAttentionAlarms(scope, { siteId }),
     deviceCountsBySite(scope, now, siteId),
     setpointsByAsset(scope, { siteId }),
   ]);
+  if (!site) throw notFound("That site");
   const detailed = assets.map((a) => withDay(a, trends.get(a.id), setpoints.get(a.id) ?? []));
   return {
     generated_at: now.toISOString(),

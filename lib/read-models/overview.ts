@@ -52,18 +52,19 @@ interface AssetStateRow {
   flags: OpenFlag[] | null;
 }
 
-// One channel stands for each asset: the one heard from most recently (an asset normally has one).
-// Small tables are joined whole (hash joins); per asset at most two index probes remain: its latest
-// measurement, found by the key the worker keeps in channel_state (one partition), and a bay's latest
-// session. Only when that measurement is not valid is the channel's history searched for the latest
-// valid one. Conditions on the outer row become one-time filters that skip a probe when not needed.
-// A channel measures an asset of its device's site (lib/services/devices.ts), so a site narrows both.
+// One channel stands for each asset: the one heard from most recently (an asset normally has one),
+// with its newest valid measurement as the worker keeps it in channel_latest. Every table here is
+// small (a row per channel, device, asset or open flag), so they are hash-joined whole; no statement
+// reads the measurements. A channel measures an asset of its device's site (lib/services/devices.ts),
+// so a site narrows both.
 function channelCte(scope: Scope, narrow = "") {
   return `ch AS (
     SELECT DISTINCT ON (c.asset_id) c.asset_id, c.id, c.device_id, d.name AS device_name, d.expected_interval_s,
-           COALESCE(cs.last_at, d.last_seen_at) AS last_seen_at, cs.last_at, cs.last_reading_id
+           COALESCE(cs.last_at, d.last_seen_at) AS last_seen_at,
+           cl.at AS value_at, cl.level_m, cl.distance_m, cl.volume_l, cl.fill_pct, cl.uncertainty_m, cl.occupied
     FROM channels c JOIN devices d ON d.id = c.device_id LEFT JOIN channel_state cs ON cs.channel_id = c.id
-    WHERE d.organisation_id = :organisationId AND ${siteScope(scope, "d.site_id")} AND c.asset_id IS NOT NULL ${narrow}
+    LEFT JOIN channel_latest cl ON cl.channel_id = c.id
+    WHERE d.organisation_id = $1 AND ${siteScope(scope, "d.site_id")} AND c.asset_id IS NOT NULL ${narrow}
     ORDER BY c.asset_id, cs.last_at DESC NULLS LAST, c.id
   )`;
 }
@@ -72,31 +73,12 @@ function flagsCte(scope: Scope, narrow = "") {
   return `fl AS (
     SELECT c.asset_id, json_agg(json_build_object('channel_id', h.channel_id, 'flag', h.flag, 'since', h.since, 'magnitude', h.magnitude) ORDER BY h.since) AS flags
     FROM health_flags h JOIN channels c ON c.id = h.channel_id JOIN devices d ON d.id = c.device_id
-    WHERE h.cleared_at IS NULL AND d.organisation_id = :organisationId AND ${siteScope(scope, "d.site_id")} AND c.asset_id IS NOT NULL ${narrow}
+    WHERE h.cleared_at IS NULL AND d.organisation_id = $1 AND ${siteScope(scope, "d.site_id")} AND c.asset_id IS NOT NULL ${narrow}
     GROUP BY c.asset_id
   )`;
 }
 
-const MEASUREMENT_FIELDS = "m.at, m.level_m, m.distance_m, m.volume_l, m.fill_pct, m.uncertainty_m, m.occupied";
-
-/** The latest valid measurement of the asset's channel, probed only where `gate` holds. */
-function latestJoins(gate = "true") {
-  return `
-  LEFT JOIN LATERAL (
-    SELECT ${MEASUREMENT_FIELDS} FROM measurements m
-    WHERE m.reading_id = ch.last_reading_id AND m.at = ch.last_at AND m.channel_id = ch.id AND m.status = 'ok' AND ${gate}
-  ) lx ON true
-  LEFT JOIN LATERAL (
-    SELECT ${MEASUREMENT_FIELDS} FROM measurements m
-    WHERE m.channel_id = ch.id AND m.status = 'ok' AND lx.at IS NULL AND ${gate}
-    ORDER BY m.at DESC
-    LIMIT 1
-  ) lf ON true`;
-}
-
-const LATEST_COLUMNS = `COALESCE(lx.at, lf.at) AS value_at, COALESCE(lx.level_m, lf.level_m) AS level_m, COALESCE(lx.distance_m, lf.distance_m) AS distance_m,
-         COALESCE(lx.volume_l, lf.volume_l) AS volume_l, COALESCE(lx.fill_pct, lf.fill_pct) AS fill_pct,
-         COALESCE(lx.uncertainty_m, lf.uncertainty_m) AS uncertainty_m, COALESCE(lx.occupied, lf.occupied) AS occupied`;
+const LATEST_COLUMNS = `ch.value_at, ch.level_m, ch.distance_m, ch.volume_l, ch.fill_pct, ch.uncertainty_m, ch.occupied`;
 
 const SESSION_JOIN = `
   LEFT JOIN LATERAL (
@@ -104,8 +86,11 @@ const SESSION_JOIN = `
   ) os ON true`;
 
 function assetStateSql(scope: Scope, filter: { siteId?: string; assetId?: string }) {
-  const narrow = [filter.siteId ? "AND d.site_id = :siteId" : "", filter.assetId ? "AND c.asset_id = :assetId" : ""].join(" ");
-  const where = [filter.siteId ? "AND a.site_id = :siteId" : "", filter.assetId ? "AND a.id = :assetId" : ""].join(" ");
+  // $1 the organisation, then the site and the asset where given.
+  const siteParam = filter.siteId ? "$2" : "";
+  const assetParam = filter.assetId ? (filter.siteId ? "$3" : "$2") : "";
+  const narrow = [siteParam ? `AND d.site_id = ${siteParam}` : "", assetParam ? `AND c.asset_id = ${assetParam}` : ""].join(" ");
+  const where = [siteParam ? `AND a.site_id = ${siteParam}` : "", assetParam ? `AND a.id = ${assetParam}` : ""].join(" ");
   return `
   WITH ${channelCte(scope, narrow)}, ${flagsCte(scope, narrow)}
   SELECT a.id, a.site_id, a.kind, a.purpose, a.name, a.capacity_l, a.safe_fill_pct, a.reorder_pct, a.mount_height_m, a.geometry,
@@ -117,11 +102,10 @@ function assetStateSql(scope: Scope, filter: { siteId?: string; assetId?: string
          fl.flags
   FROM assets a
   LEFT JOIN ch ON ch.asset_id = a.id
-  ${latestJoins()}
   ${SESSION_JOIN}
   LEFT JOIN tank_forecasts f ON f.asset_id = a.id AND a.kind = 'tank'
   LEFT JOIN fl ON fl.asset_id = a.id
-  WHERE a.organisation_id = :organisationId AND ${siteScope(scope, "a.site_id")} ${where}
+  WHERE a.organisation_id = $1 AND ${siteScope(scope, "a.site_id")} ${where}
   ORDER BY a.name, a.id`;
 }
 
@@ -182,7 +166,8 @@ export type AssetStateJson = ReturnType<typeof serialiseAssetState>;
 
 /** Live state of the organisation's assets, optionally of one site or one asset, by name. */
 export async function listAssetStates(scope: Scope, filter: { siteId?: string; assetId?: string } = {}, now = new Date()): Promise<AssetStateJson[]> {
-  const rows = await sqlRows<AssetStateRow>(assetStateSql(scope, filter), { organisationId: scope.organisationId, ...filter });
+  const params = [scope.organisationId, ...(filter.siteId ? [filter.siteId] : []), ...(filter.assetId ? [filter.assetId] : [])];
+  const rows = await sqlRows<AssetStateRow>(assetStateSql(scope, filter), params, { name: "asset_states" });
   return rows.map((r) => serialiseAssetState(r, now));
 }
 
@@ -197,8 +182,9 @@ interface DeviceSeenRow {
 export async function deviceCountsBySite(scope: Scope, now = new Date(), siteId?: string): Promise<Map<string, { total: number; offline: number }>> {
   const { organisationId } = scope;
   const rows = await sqlRows<DeviceSeenRow>(
-    `SELECT id, site_id, last_seen_at, expected_interval_s FROM devices WHERE organisation_id = :organisationId AND ${siteScope(scope, "site_id")} ${siteId ? "AND site_id = :siteId" : ""}`,
-    { organisationId, siteId },
+    `SELECT id, site_id, last_seen_at, expected_interval_s FROM devices WHERE organisation_id = $1 AND ${siteScope(scope, "site_id")} ${siteId ? "AND site_id = $2" : ""}`,
+    siteId ? [organisationId, siteId] : [organisationId],
+    { name: "devices_seen" },
   );
   const counts = new Map<string, { total: number; offline: number }>();
   for (const d of rows) {
@@ -238,24 +224,23 @@ const fleetTanksSql = (scope: Scope) => `
   tf AS (
     SELECT hc.asset_id, array_agg(DISTINCT h.flag ORDER BY h.flag) AS flags, min(h.since) AS flagged_since
     FROM health_flags h JOIN channels hc ON hc.id = h.channel_id JOIN devices hd ON hd.id = hc.device_id
-    WHERE h.cleared_at IS NULL AND hd.organisation_id = :organisationId AND ${siteScope(scope, "hd.site_id")} AND hc.asset_id IS NOT NULL
+    WHERE h.cleared_at IS NULL AND hd.organisation_id = $1 AND ${siteScope(scope, "hd.site_id")} AND hc.asset_id IS NOT NULL
     GROUP BY hc.asset_id
   ),
   t AS (
     SELECT a.id, a.site_id, a.name, a.purpose, a.capacity_l, a.reorder_pct, ch.expected_interval_s, ${LATEST_COLUMNS}, ${FORECAST_JSON} AS forecast, tf.flags, tf.flagged_since
     FROM assets a
     LEFT JOIN ch ON ch.asset_id = a.id
-    ${latestJoins()}
     LEFT JOIN tank_forecasts f ON f.asset_id = a.id
     LEFT JOIN tf ON tf.asset_id = a.id
-    WHERE a.organisation_id = :organisationId AND ${siteScope(scope, "a.site_id")} AND a.kind = 'tank'
+    WHERE a.organisation_id = $1 AND ${siteScope(scope, "a.site_id")} AND a.kind = 'tank'
   ), ranked AS (
     SELECT t.*, count(*) OVER (PARTITION BY site_id) AS site_tanks,
            row_number() OVER (PARTITION BY site_id ORDER BY fill_pct ASC NULLS FIRST, name, id) AS fill_rank
     FROM t
   )
-  SELECT * FROM ranked WHERE site_tanks <= :glance OR fill_rank <= :glance
-  ORDER BY site_id, CASE WHEN site_tanks <= :glance THEN 0 ELSE fill_rank END, name, id`;
+  SELECT * FROM ranked WHERE site_tanks <= ${TANKS_AT_A_GLANCE} OR fill_rank <= ${TANKS_AT_A_GLANCE}
+  ORDER BY site_id, CASE WHEN site_tanks <= ${TANKS_AT_A_GLANCE} THEN 0 ELSE fill_rank END, name, id`;
 
 // Bays occupied, free and with a sensor fault, and points with a fault, per site. A bay's state is its
 // latest session's; before its first session, its latest valid measurement's (as listAssetStates).
@@ -263,7 +248,7 @@ const fleetCountsSql = (scope: Scope) => `
   WITH ${channelCte(scope)},
   flagged AS (
     SELECT DISTINCT hc.asset_id FROM health_flags h JOIN channels hc ON hc.id = h.channel_id JOIN devices hd ON hd.id = hc.device_id
-    WHERE h.cleared_at IS NULL AND hd.organisation_id = :organisationId AND ${siteScope(scope, "hd.site_id")}
+    WHERE h.cleared_at IS NULL AND hd.organisation_id = $1 AND ${siteScope(scope, "hd.site_id")}
   )
   SELECT a.site_id, a.kind, count(*) AS total,
          count(*) FILTER (WHERE fg.asset_id IS NOT NULL) AS faulty,
@@ -273,9 +258,8 @@ const fleetCountsSql = (scope: Scope) => `
   LEFT JOIN ch ON ch.asset_id = a.id
   LEFT JOIN flagged fg ON fg.asset_id = a.id
   ${SESSION_JOIN}
-  ${latestJoins("a.kind = 'bay' AND os.started_at IS NULL")}
-  CROSS JOIN LATERAL (SELECT CASE WHEN os.started_at IS NOT NULL THEN os.ended_at IS NULL ELSE COALESCE(lx.occupied, lf.occupied) END AS occupied) occ
-  WHERE a.organisation_id = :organisationId AND ${siteScope(scope, "a.site_id")} AND a.kind IN ('bay', 'point')
+  CROSS JOIN LATERAL (SELECT CASE WHEN os.started_at IS NOT NULL THEN os.ended_at IS NULL ELSE ch.occupied END AS occupied) occ
+  WHERE a.organisation_id = $1 AND ${siteScope(scope, "a.site_id")} AND a.kind IN ('bay', 'point')
   GROUP BY a.site_id, a.kind`;
 
 interface FleetCountRow {
@@ -298,11 +282,12 @@ export async function fleetOverview(scope: Scope, now = new Date()) {
   const { organisationId } = scope;
   const [sites, tanks, counts, devices, alarms] = await Promise.all([
     sqlRows<{ id: string; name: string; time_zone: string }>(
-      `SELECT id, name, time_zone FROM sites WHERE organisation_id = :organisationId AND ${siteScope(scope, "id")} ORDER BY name, id`,
-      { organisationId },
+      `SELECT id, name, time_zone FROM sites WHERE organisation_id = $1 AND ${siteScope(scope, "id")} ORDER BY name, id`,
+      [organisationId],
+      { name: "fleet_sites" },
     ),
-    sqlRows<FleetTankRow>(fleetTanksSql(scope), { organisationId, glance: TANKS_AT_A_GLANCE }),
-    sqlRows<FleetCountRow>(fleetCountsSql(scope), { organisationId }),
+    sqlRows<FleetTankRow>(fleetTanksSql(scope), [organisationId], { name: "fleet_tanks" }),
+    sqlRows<FleetCountRow>(fleetCountsSql(scope), [organisationId], { name: "fleet_counts" }),
     deviceCountsBySite(scope, now),
     activeAlarmsBySite(scope),
   ]);

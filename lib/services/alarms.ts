@@ -8,7 +8,7 @@ import { getSequelize } from "../db/sequelize";
 import { writeAudit, type Actor } from "./audit";
 import { AppError, notFound } from "../errors";
 import { alarmKindLabel, applyAlarmInput } from "../alarms/engine";
-import { httpStatusForAlarmError, isAwaitingReset, type AlarmInput, type AlarmPriority, type AlarmState } from "../alarms/state-machine";
+import { isAwaitingReset, type AlarmActionErrorCode, type AlarmInput, type AlarmPriority, type AlarmState } from "../alarms/state-machine";
 import { groupAlarms } from "../alarms/floods";
 import type { AlarmListQuery, AlarmSort } from "../validations/alarm";
 import { type AlarmDbRow, type AlarmRowExtras, insertAlarmEvents, saveAlarm, toRecord } from "./alarm-store";
@@ -90,63 +90,41 @@ const SORTS: Record<AlarmSort, string> = {
 
 /** One page of the organisation's alarms with the total that match. */
 export async function listAlarms(scope: Scope, q: AlarmListQuery) {
-  const where = ["al.organisation_id = :organisationId", siteScope(scope, "al.site_id")];
-  const replacements: Record<string, unknown> = { organisationId: scope.organisationId };
+  // Positional parameters, so that each shape of filter is one prepared statement per connection.
+  const params: unknown[] = [scope.organisationId];
+  const param = (value: unknown) => `$${params.push(value)}`;
+  const where = ["al.organisation_id = $1", siteScope(scope, "al.site_id")];
   if (q.state?.length) {
     const states = q.state.filter((s) => s !== "active");
     const clauses = [];
     if (q.state.includes("active")) clauses.push("al.state <> 'normal'");
-    if (states.length) {
-      clauses.push("al.state IN (:states)");
-      replacements.states = states;
-    }
+    if (states.length) clauses.push(`al.state = ANY(${param(states)})`);
     where.push(`(${clauses.join(" OR ")})`);
   }
-  if (q.site_id) {
-    where.push("al.site_id = :siteId");
-    replacements.siteId = q.site_id;
-  }
-  if (q.asset_id) {
-    where.push("al.asset_id = :assetId");
-    replacements.assetId = q.asset_id;
-  }
-  if (q.device_id) {
-    where.push("al.device_id = :deviceId");
-    replacements.deviceId = q.device_id;
-  }
+  if (q.site_id) where.push(`al.site_id = ${param(q.site_id)}`);
+  if (q.asset_id) where.push(`al.asset_id = ${param(q.asset_id)}`);
+  if (q.device_id) where.push(`al.device_id = ${param(q.device_id)}`);
   if (q.include !== "suppressed" && !q.state?.includes("suppressed_by_design")) where.push("al.state <> 'suppressed_by_design'");
-  if (q.priority?.length) {
-    where.push("al.priority IN (:priorities)");
-    replacements.priorities = q.priority;
-  }
-  if (q.kind?.length) {
-    where.push("al.kind IN (:kinds)");
-    replacements.kinds = q.kind;
-  }
-  if (q.from) {
-    where.push("al.activated_at >= :from");
-    replacements.from = q.from;
-  }
-  if (q.to) {
-    where.push("al.activated_at < :to");
-    replacements.to = q.to;
-  }
+  if (q.priority?.length) where.push(`al.priority = ANY(${param(q.priority)})`);
+  if (q.kind?.length) where.push(`al.kind = ANY(${param(q.kind)})`);
+  if (q.from) where.push(`al.activated_at >= ${param(q.from)}`);
+  if (q.to) where.push(`al.activated_at < ${param(q.to)}`);
   const filter = where.join(" AND ");
-  const [count] = await sqlRows<{ n: string }>(
-    `SELECT count(*) AS n FROM alarms al JOIN sites s ON s.id = al.site_id LEFT JOIN assets a ON a.id = al.asset_id WHERE ${filter}`,
-    replacements,
+  const countSql = `SELECT count(*) AS n FROM alarms al JOIN sites s ON s.id = al.site_id LEFT JOIN assets a ON a.id = al.asset_id WHERE ${filter}`;
+  // The page and the total in one statement; only a page past the end needs the count on its own.
+  const items = await sqlRows<AlarmViewRow & { total: string }>(
+    `${VIEW_SELECT.replace("SELECT al.*,", "SELECT count(*) OVER () AS total, al.*,")} WHERE ${filter}
+     ORDER BY ${SORTS[q.sort]}, al.id LIMIT ${param(q.page_size)} OFFSET ${param((q.page - 1) * q.page_size)}`,
+    params,
+    { name: "alarm_list" },
   );
-  const items = await sqlRows<AlarmViewRow>(`${VIEW_SELECT} WHERE ${filter} ORDER BY ${SORTS[q.sort]}, al.id LIMIT :limit OFFSET :offset`, {
-    ...replacements,
-    limit: q.page_size,
-    offset: (q.page - 1) * q.page_size,
-  });
-  const page = { total: Number(count.n), page: q.page, page_size: q.page_size, sort: q.sort, items: items.map((r) => serialiseAlarmFor(scope, r)) };
+  const total = items.length ? Number(items[0].total) : Number((await sqlRows<{ n: string }>(countSql, params.slice(0, -2), { name: "alarm_count" }))[0].n);
+  const page = { total, page: q.page, page_size: q.page_size, sort: q.sort, items: items.map(({ total: _total, ...r }) => serialiseAlarmFor(scope, r)) };
   if (!q.group) return page;
   const groupable = await sqlRows<{ id: string; site_id: string; device_id: string | null; state: AlarmState; priority: AlarmPriority; condition_active: boolean; cause_key: string | null }>(
     `SELECT al.id, al.site_id, al.device_id, al.state, al.priority, al.condition_active, al.cause_key
      FROM alarms al JOIN sites s ON s.id = al.site_id LEFT JOIN assets a ON a.id = al.asset_id WHERE ${filter}`,
-    replacements,
+    params.slice(0, -2),
   );
   const groups = groupAlarms(
     groupable.map((g) => ({ id: g.id, siteId: g.site_id, deviceId: g.device_id, state: g.state, priority: g.priority, conditionActive: g.condition_active, causeKey: g.cause_key })),
@@ -317,10 +295,15 @@ function actionExtras(action: AlarmAction, actor: Actor, now: Date): AlarmRowExt
   }
 }
 
+/** A refused action as an application error: a bad shelve expiry is the request's fault, the rest conflict with the alarm's state. */
+export function alarmRefusal(code: AlarmActionErrorCode, message: string): AppError {
+  return new AppError(code === "invalid_shelve_expiry" ? "invalid" : "conflict", message, { code });
+}
+
 async function actInTransaction(actor: Actor, id: string, action: AlarmAction, now: Date, transaction: Transaction): Promise<AlarmJson> {
   const row = await findAlarmRow(wholeOrganisation(actor.organisationId), id, transaction);
   const applied = applyAlarmInput(toRecord(row), actionInput(action, now), { at: now, cause: actionCause(action) });
-  if (!applied.ok) throw new AppError(httpStatusForAlarmError(applied.code) === 422 ? "invalid" : "conflict", applied.message, { code: applied.code });
+  if (!applied.ok) throw alarmRefusal(applied.code, applied.message);
   await saveAlarm(id, applied.result.record, actionExtras(action, actor, now), transaction);
   await insertAlarmEvents(
     applied.result.events.map((event) => ({

@@ -16,6 +16,7 @@ import {
   undoCalibration,
   type Calibration,
   type CalibrationFit,
+  spreadSentence,
   type CalibrationPoint,
 } from "../calibration/fit";
 import { dipsWithSensor, type DipJson } from "./dips";
@@ -89,6 +90,11 @@ async function pairDips(c: ChannelRow & { asset_id: string; mount_height_m: numb
   const found = new Set(dips.map((d) => d.id));
   const unknown = dipIds.filter((id) => !found.has(id));
   if (unknown.length) throw new AppError("invalid", `dip_ids: ${unknown.length} of the chosen dips do not belong to this tank.`, { fields: { dip_ids: "Choose dips of this tank." } });
+  const voided = dips.filter((d) => d.void !== null);
+  if (voided.length) {
+    const which = voided.map((d) => `${new Date(d.at).toISOString().replace(".000Z", "Z")} (${d.void!.reason})`).join(", ");
+    throw new AppError("invalid", `dip_ids: the dip${voided.length > 1 ? "s" : ""} at ${which} ${voided.length > 1 ? "are" : "is"} void; choose dips that count.`, { fields: { dip_ids: "A voided dip does not count for calibration." } });
+  }
   const current: Calibration = { offsetM: c.calibration_offset_m, scale: c.calibration_scale };
   const unmatched = dips.filter((d) => d.sensor === null || (d.sensor.raw_distance_m === null && d.sensor.distance_m === null));
   if (unmatched.length) {
@@ -169,6 +175,7 @@ export async function previewCalibration(scope: Scope, channelId: string, reques
     current: { offset_m: current.offsetM, scale: current.scale },
     proposed: { offset_m: fit.offsetM, scale: fit.scale, mode: fit.mode, note: fit.note },
     n: fit.n,
+    spread: { dips_m: fit.dipSpreadM, sensor_m: fit.sensorSpreadM, sentence: spreadSentence(fit.dipSpreadM, fit.sensorSpreadM) },
     rms_before_m: rms(residuals.map((r) => r.residual_before_m)),
     rms_after_m: fit.rmsM,
     residuals,

@@ -5,12 +5,13 @@ import { personLabel, wholeOrganisation, type Scope } from "../db/site-scope";
 import type { Transaction } from "sequelize";
 import { writeAudit, type Actor } from "./audit";
 import { getSequelize } from "../db/sequelize";
-import { AppError } from "../errors";
+import { AppError, notFound } from "../errors";
 import { tankHeight } from "../geometry/tank-volume";
+import { dipDateQuestion, dipLevelQuestion, type DipDateFacts, type Question } from "../input-checks/questions";
 import { findAsset } from "./assets";
-import type { RecordDipInput } from "../validations/dip";
+import type { RecordDipInput, VoidDipInput } from "../validations/dip";
 import type { Asset } from "../db/models";
-import { sqlRows } from "../db/sql";
+import { sqlRows, sqlRun } from "../db/sql";
 
 /** How far from a dip's time a measurement may lie and still stand for the sensor at that time. */
 export const SENSOR_MATCH_WINDOW_S = 3600;
@@ -48,6 +49,10 @@ interface DipRow {
   sensor_level_m: number | null;
   sensor_raw_distance_m: number | null;
   sensor_distance_m: number | null;
+  voided_at: Date | null;
+  void_reason: string | null;
+  voided_by_label: string | null;
+  voided_by_name?: string | null;
 }
 
 export function serialiseDip(d: DipRow) {
@@ -64,6 +69,8 @@ export function serialiseDip(d: DipRow) {
         : { at: d.sensor_at, level_m: d.sensor_level_m, raw_distance_m: d.sensor_raw_distance_m, distance_m: d.sensor_distance_m },
     /** Sensor level − dipped level; positive when the sensor reads high. */
     difference_m: d.sensor_level_m === null ? null : d.sensor_level_m - d.level_m,
+    /** A voided dip stays listed with who voided it and why, and counts nowhere. */
+    void: d.voided_at === null ? null : { at: d.voided_at, by: d.voided_by_label, reason: d.void_reason ?? "" },
   };
 }
 export type DipJson = ReturnType<typeof serialiseDip>;
@@ -83,27 +90,31 @@ const SENSOR_AT_DIP = `
   ) s ON true`;
 
 const DIP_COLUMNS = `d.id, d.at, d.level_m, d.note, d.created_at, coalesce(u.name, u.email) AS by_label, u.name AS by_name,
-  s.at AS sensor_at, s.level_m AS sensor_level_m, s.raw_distance_m AS sensor_raw_distance_m, s.distance_m AS sensor_distance_m`;
+  s.at AS sensor_at, s.level_m AS sensor_level_m, s.raw_distance_m AS sensor_raw_distance_m, s.distance_m AS sensor_distance_m,
+  d.voided_at, d.void_reason, coalesce(vu.name, vu.email) AS voided_by_label, vu.name AS voided_by_name`;
+const DIP_FROM = `manual_dips d LEFT JOIN users u ON u.id = d.by_user_id LEFT JOIN users vu ON vu.id = d.voided_by`;
 
 /** The asset's dips, newest first, each with the channel's level nearest its time. */
 export async function listDips(scope: Scope, assetId: string, channelId: string | null, limit = 200) {
   await findAsset(scope, assetId);
   const rows = await sqlRows<DipRow>(
     `SELECT ${DIP_COLUMNS}
-       FROM manual_dips d LEFT JOIN users u ON u.id = d.by_user_id
+       FROM ${DIP_FROM}
        ${SENSOR_AT_DIP}
       WHERE d.asset_id = $1
       ORDER BY d.at DESC LIMIT $4`,
     [assetId, channelId, SENSOR_MATCH_WINDOW_S, limit],
   );
-  return rows.map((r) => serialiseDip({ ...r, by_label: personLabel(scope, r.by_label, r.by_name) }));
+  return rows.map((r) =>
+    serialiseDip({ ...r, by_label: personLabel(scope, r.by_label, r.by_name), voided_by_label: personLabel(scope, r.voided_by_label, r.voided_by_name) }),
+  );
 }
 
-/** The chosen dips of an asset with the channel's measurement at each; unknown ids are left out. */
+/** The chosen dips of an asset with the channel's measurement at each; unknown ids are left out, voided ones included (the caller says why they do not count). */
 export async function dipsWithSensor(assetId: string, channelId: string, dipIds: readonly string[], transaction?: Transaction) {
   const rows = await sqlRows<DipRow>(
     `SELECT ${DIP_COLUMNS}
-       FROM manual_dips d LEFT JOIN users u ON u.id = d.by_user_id
+       FROM ${DIP_FROM}
        ${SENSOR_AT_DIP}
       WHERE d.asset_id = $1 AND d.id = ANY($4::uuid[])
       ORDER BY d.at`,
@@ -142,21 +153,40 @@ export async function insertDips(assetId: string, userId: string | null, dips: r
   return rows.map((r) => r.id);
 }
 
-/** Dip times of the asset that are already recorded, among those given (a dip is once per time). */
+/** Dip times of the asset that are already recorded, among those given (a dip is once per time; a voided one leaves its time free for the corrected dip). */
 export async function existingDipTimes(assetId: string, times: readonly Date[], transaction?: Transaction): Promise<Set<number>> {
   if (times.length === 0) return new Set();
-  const rows = await sqlRows<{ at: Date }>(`SELECT at FROM manual_dips WHERE asset_id = $1 AND at = ANY($2::timestamptz[])`, [assetId, times], { transaction });
+  const rows = await sqlRows<{ at: Date }>(
+    `SELECT at FROM manual_dips WHERE asset_id = $1 AND at = ANY($2::timestamptz[]) AND voided_at IS NULL`,
+    [assetId, times],
+    { transaction },
+  );
   return new Set(rows.map((r) => new Date(r.at).getTime()));
+}
+
+/** What bounds a dip's time: now, the asset's creation and its earliest measurement (a backfill may reach further back). */
+export async function dipDateFacts(asset: Pick<Asset, "id" | "created_at">, now = new Date()): Promise<DipDateFacts> {
+  const [row] = await sqlRows<{ earliest: Date | null }>(
+    `SELECT min(first.at) AS earliest FROM channels c
+       CROSS JOIN LATERAL (SELECT m.at FROM measurements m WHERE m.channel_id = c.id ORDER BY m.at LIMIT 1) first
+      WHERE c.asset_id = $1`,
+    [asset.id],
+  );
+  return { now, assetCreatedAt: asset.created_at, earliestDataAt: row?.earliest ?? null };
+}
+
+function refuse(question: Question): never {
+  throw new AppError("invalid", `${question.field}: ${question.message}`, { fields: { [question.field]: question.message } });
 }
 
 export async function recordDip(actor: Actor, assetId: string, input: RecordDipInput) {
   const asset = await findAsset(wholeOrganisation(actor.organisationId), assetId);
   assertDippable(asset);
-  const max = maxDipLevel(asset);
-  if (max !== null && input.level_m > max + 1e-9) {
-    throw new AppError("invalid", `level_m: the tank is ${max.toFixed(3)} m tall; a dip cannot read higher.`, { fields: { level_m: `The tank is ${max.toFixed(3)} m tall; a dip cannot read higher.` } });
-  }
+  const levelQuestion = dipLevelQuestion(input.level_m, maxDipLevel(asset));
+  if (levelQuestion) refuse(levelQuestion);
   const at = input.at ? new Date(input.at) : new Date();
+  const dateQuestion = dipDateQuestion(at, await dipDateFacts(asset));
+  if (dateQuestion) refuse(dateQuestion);
   return getSequelize().transaction(async (transaction) => {
     if ((await existingDipTimes(assetId, [at], transaction)).size) {
       throw new AppError("conflict", "A dip at this exact time is already recorded for this tank.");
@@ -164,5 +194,26 @@ export async function recordDip(actor: Actor, assetId: string, input: RecordDipI
     const [id] = await insertDips(assetId, actor.userId, [{ at, level_m: input.level_m, note: input.note || null }], transaction);
     await writeAudit(actor, "dip.record", { type: "asset", id: assetId }, { dip_id: id, at: at.toISOString(), level_m: input.level_m }, transaction);
     return id;
+  });
+}
+
+/** Voids a dip with a reason: kept and listed, but left out of calibration, drift detection and charts. */
+export async function voidDip(actor: Actor, dipId: string, input: VoidDipInput) {
+  return getSequelize().transaction(async (transaction) => {
+    const [dip] = await sqlRows<{ asset_id: string; at: Date; level_m: number; voided_at: Date | null }>(
+      `SELECT d.asset_id, d.at, d.level_m, d.voided_at FROM manual_dips d JOIN assets a ON a.id = d.asset_id
+        WHERE d.id = $1 AND a.organisation_id = $2 FOR UPDATE OF d`,
+      [dipId, actor.organisationId],
+      { transaction },
+    );
+    if (!dip) throw notFound("That dip");
+    if (dip.voided_at !== null) throw new AppError("conflict", "This dip is already void.");
+    await sqlRun(
+      `UPDATE manual_dips SET voided_at = now(), voided_by = $2, void_reason = $3 WHERE id = $1`,
+      [dipId, actor.userId, input.reason],
+      { transaction },
+    );
+    await writeAudit(actor, "dip.void", { type: "asset", id: dip.asset_id }, { dip_id: dipId, at: new Date(dip.at).toISOString(), level_m: dip.level_m, reason: input.reason }, transaction);
+    return { id: dipId, asset_id: dip.asset_id };
   });
 }

@@ -16,9 +16,27 @@ import { dipRowReader, readingRowReader, strappingRowReader, temperatureRowReade
 import { IMPORT_KIND_LABELS, MAX_LISTED_ERRORS, MAX_STRAPPING_ROWS, MAX_UPLOAD_BYTES, type CreateUploadInput, type ImportKind, type ImportMode, type UploadStatus } from "../validations/import";
 import type { SignalProfile } from "../validations/device";
 import { findAsset, updateAsset } from "./assets";
-import { existingDipTimes, insertDips, maxDipLevel } from "./dips";
+import { dipDateFacts, existingDipTimes, insertDips, maxDipLevel } from "./dips";
 import { requestRecompute } from "./recompute-requests";
 import { sqlRows, sqlRun } from "../db/sql";
+import { toSi } from "../units/units";
+import { temperatureSampleQuestions, temperatureSeriesQuestion } from "../input-checks/questions";
+
+/**
+ * A question an import raised about rows it stored as written (a temperature far from its neighbours
+ * that looks like °F): listed with the result, so the operator decides. `line` is null for the file as a whole.
+ */
+export interface ImportQuestion {
+  line: number | null;
+  at: string | null;
+  value: number | null;
+  message: string;
+  looks_like_fahrenheit: boolean;
+  /** The value read as °F, in °C: (F − 32) × 5/9. */
+  as_celsius: number | null;
+  /** Set once the operator had the sample read as °F. */
+  converted_at?: string;
+}
 
 interface UploadRow {
   id: string;
@@ -37,6 +55,7 @@ interface UploadRow {
   rows_imported: number;
   error_count: number;
   errors: LineError[];
+  questions: ImportQuestion[];
   message: string | null;
   created_at: Date;
   started_at: Date | null;
@@ -59,6 +78,7 @@ export function serialiseUpload(u: UploadRow, withErrors = true) {
     rows_imported: u.rows_imported,
     error_count: u.error_count,
     errors: withErrors ? u.errors : undefined,
+    questions: withErrors ? u.questions : undefined,
     message: u.message,
     by: u.by_label,
     created_at: u.created_at,
@@ -179,20 +199,52 @@ function dipSink(assetId: string, userId: string | null, transaction: Transactio
   };
 }
 
-function temperatureSink(siteId: string, transaction: Transaction): ImportSink<TemperatureRow> {
+function temperatureSink(siteId: string, transaction: Transaction, stored: { line: number; row: TemperatureRow }[]): ImportSink<TemperatureRow> {
   return {
     async write(rows) {
-      const stored = await sqlRows<{ at: Date }>(
+      const inserted = await sqlRows<{ at: Date }>(
         `INSERT INTO temperature_samples (site_id, at, air_temp_c, source)
          SELECT $1, v.at, v.air_temp_c, 'import' FROM unnest($2::timestamptz[], $3::float8[]) AS v(at, air_temp_c)
          ON CONFLICT (site_id, at, source) DO NOTHING RETURNING at`,
         [siteId, rows.map((r) => r.row.at), rows.map((r) => r.row.air_temp_c)],
         { transaction },
       );
-      const fresh = new Set(stored.map((s) => new Date(s.at).getTime()));
+      const fresh = new Set(inserted.map((s) => new Date(s.at).getTime()));
+      stored.push(...rows.filter((r) => fresh.has(r.row.at.getTime())));
       return rows.filter((r) => !fresh.has(r.row.at.getTime())).map((r) => ({ line: r.line, message: `an imported temperature at ${r.row.at.toISOString()} is already stored for this site` }));
     },
   };
+}
+
+/**
+ * Questions about the samples just stored: each beside its neighbours (the file's and the site's other
+ * samples around it), and the file as a whole when its median only makes sense in °F.
+ */
+async function temperatureQuestions(siteId: string, stored: readonly { line: number; row: TemperatureRow }[], transaction: Transaction): Promise<ImportQuestion[]> {
+  if (stored.length === 0) return [];
+  const times = stored.map((r) => r.row.at.getTime());
+  const others = await sqlRows<{ at: Date; air_temp_c: number }>(
+    `SELECT at, air_temp_c FROM temperature_samples WHERE site_id = $1 AND source <> 'import' AND at BETWEEN $2::timestamptz - interval '6 hours' AND $3::timestamptz + interval '6 hours'`,
+    [siteId, new Date(Math.min(...times)), new Date(Math.max(...times))],
+    { transaction },
+  );
+  const samples = [...stored.map((r) => ({ at: r.row.at, airTempC: r.row.air_temp_c })), ...others.map((o) => ({ at: new Date(o.at), airTempC: o.air_temp_c }))];
+  const questions: ImportQuestion[] = temperatureSampleQuestions(samples)
+    .filter((q) => q.index < stored.length)
+    .map((q) => {
+      const r = stored[q.index];
+      return {
+        line: r.line,
+        at: r.row.at.toISOString(),
+        value: r.row.air_temp_c,
+        message: q.message,
+        looks_like_fahrenheit: q.looksLikeFahrenheit,
+        as_celsius: toSi(r.row.air_temp_c, "degF"),
+      };
+    });
+  const series = temperatureSeriesQuestion(stored.map((r) => ({ at: r.row.at, airTempC: r.row.air_temp_c })));
+  if (series) questions.unshift({ line: null, at: null, value: null, message: series.message, looks_like_fahrenheit: true, as_celsius: null });
+  return questions;
 }
 
 /** Strapping rows are held (at most MAX_STRAPPING_ROWS) and become the tank's geometry at the end. */
@@ -240,16 +292,23 @@ interface Finish {
   rowsImported: number;
   message: string | null;
   outcome: Pick<ImportOutcome, "bytesRead" | "linesRead" | "rowsValid" | "errorCount" | "errors">;
+  questions?: ImportQuestion[];
 }
 
 async function finishUpload(uploadId: string, f: Finish, transaction?: Transaction) {
   await sqlRun(
     `UPDATE uploads SET status = $2, rows_imported = $3, message = $4, bytes_read = $5, lines_read = $6, rows_valid = $7, error_count = $8,
-                        errors = $9::jsonb, finished_at = now()
+                        errors = $9::jsonb, questions = $10::jsonb, finished_at = now()
       WHERE id = $1`,
-    [uploadId, f.status, f.rowsImported, f.message, f.outcome.bytesRead, f.outcome.linesRead, f.outcome.rowsValid, f.outcome.errorCount, JSON.stringify(f.outcome.errors)],
+    [uploadId, f.status, f.rowsImported, f.message, f.outcome.bytesRead, f.outcome.linesRead, f.outcome.rowsValid, f.outcome.errorCount, JSON.stringify(f.outcome.errors), JSON.stringify(f.questions ?? [])],
     { transaction },
   );
+}
+
+/** The site's measured channels are compensated with its temperature samples: rebuild them after a change. */
+async function recomputeSiteChannels(siteId: string, reason: string, transaction?: Transaction) {
+  const channels = await sqlRows<{ id: string }>(`SELECT c.id FROM channels c JOIN devices d ON d.id = c.device_id WHERE d.site_id = $1 AND c.asset_id IS NOT NULL`, [siteId], { transaction });
+  for (const c of channels) await requestRecompute({ channelId: c.id, reason }, transaction);
 }
 
 const EMPTY_OUTCOME = { bytesRead: 0, linesRead: 0, rowsValid: 0, errorCount: 0, errors: [] };
@@ -262,6 +321,8 @@ interface Plan<T> {
   complete?: () => Promise<string | null>;
   /** After commit: follow-up work that runs in its own transaction (recomputes, geometry). */
   after?: () => Promise<void>;
+  /** Before commit: questions about rows stored as written, kept with the upload for the operator. */
+  questions?: () => Promise<ImportQuestion[]>;
 }
 
 async function planFor(actor: Actor, upload: UploadJson, transaction: Transaction, now: number): Promise<Plan<unknown>> {
@@ -282,17 +343,17 @@ async function planFor(actor: Actor, upload: UploadJson, transaction: Transactio
     }
     case "dips": {
       const asset = await findAsset(wholeOrganisation(actor.organisationId), id);
-      return { reader: dipRowReader(maxDipLevel(asset), now) as RowReader<unknown>, sink: dipSink(id, actor.userId, transaction) as ImportSink<unknown> };
+      const dates = await dipDateFacts(asset, new Date(now));
+      return { reader: dipRowReader(maxDipLevel(asset), dates) as RowReader<unknown>, sink: dipSink(id, actor.userId, transaction) as ImportSink<unknown> };
     }
     case "temperature": {
+      const stored: { line: number; row: TemperatureRow }[] = [];
       return {
         reader: temperatureRowReader(now) as RowReader<unknown>,
-        sink: temperatureSink(id, transaction) as ImportSink<unknown>,
+        sink: temperatureSink(id, transaction, stored) as ImportSink<unknown>,
+        questions: () => temperatureQuestions(id, stored, transaction),
         // Measurements taken at the site are compensated with these samples: rebuild them.
-        after: async () => {
-          const channels = await sqlRows<{ id: string }>(`SELECT c.id FROM channels c JOIN devices d ON d.id = c.device_id WHERE d.site_id = $1 AND c.asset_id IS NOT NULL`, [id]);
-          for (const c of channels) await requestRecompute({ channelId: c.id, reason: "temperature_import" });
-        },
+        after: () => recomputeSiteChannels(id, "temperature_import"),
       };
     }
     case "strapping": {
@@ -380,16 +441,18 @@ export async function processUpload(actor: Actor, uploadId: string, body: Readab
       return reject("No row could be imported; nothing was imported.", outcome);
     }
     const status: UploadStatus = outcome.errorCount > 0 ? "partial" : "imported";
-    const message =
+    const questions = (await plan.questions?.()) ?? [];
+    const imported =
       status === "partial"
         ? `Imported ${outcome.rowsValid} good row${outcome.rowsValid === 1 ? "" : "s"}; ${outcome.errorCount} line${outcome.errorCount === 1 ? " was" : "s were"} skipped.`
         : `Imported ${outcome.rowsValid} row${outcome.rowsValid === 1 ? "" : "s"}.`;
-    await finishUpload(uploadId, { status, rowsImported: outcome.rowsValid, message, outcome }, transaction);
+    const message = questions.length ? `${imported} ${questions.length} value${questions.length === 1 ? " looks" : "s look"} questionable; see below.` : imported;
+    await finishUpload(uploadId, { status, rowsImported: outcome.rowsValid, message, outcome, questions }, transaction);
     await writeAudit(
       actor,
       `import.${upload.kind}`,
       { type: AUDIT_ENTITY[upload.kind], id: upload.target_id },
-      { upload_id: uploadId, file_name: upload.file_name, status, rows_imported: outcome.rowsValid, skipped: outcome.errorCount },
+      { upload_id: uploadId, file_name: upload.file_name, status, rows_imported: outcome.rowsValid, skipped: outcome.errorCount, questioned: questions.length },
       transaction,
     );
     await transaction.commit();
@@ -403,4 +466,40 @@ export async function processUpload(actor: Actor, uploadId: string, body: Readab
     }
     throw err;
   }
+}
+
+/**
+ * The operator's answer to "looks like °F?": the questioned samples of an imported temperature file are
+ * read as °F and stored in °C, (F − 32) × 5/9; the site's measurements are rebuilt with them.
+ */
+export async function readSamplesAsFahrenheit(actor: Actor, uploadId: string, lines: readonly number[]) {
+  await getSequelize().transaction(async (transaction) => {
+    const [row] = await sqlRows<{ kind: ImportKind; target_id: string; questions: ImportQuestion[] }>(
+      `SELECT kind, target_id, questions FROM uploads WHERE id = $1 AND organisation_id = $2 FOR UPDATE`,
+      [uploadId, actor.organisationId],
+      { transaction },
+    );
+    if (!row) throw notFound("That upload");
+    const chosen = row.questions.filter((q) => q.line !== null && lines.includes(q.line));
+    const open = chosen.filter((q) => !q.converted_at);
+    if (row.kind !== "temperature" || chosen.length !== lines.length) {
+      throw new AppError("invalid", "lines: choose lines this temperature import questioned.", { fields: { lines: "Choose lines this import questioned." } });
+    }
+    if (open.length === 0) throw new AppError("conflict", "Those samples were already read as °F.");
+    for (const q of open) {
+      await sqlRun(`UPDATE temperature_samples SET air_temp_c = $3 WHERE site_id = $1 AND at = $2 AND source = 'import'`, [row.target_id, q.at, q.as_celsius], { transaction });
+    }
+    const now = new Date().toISOString();
+    const questions = row.questions.map((q) => (open.includes(q) ? { ...q, converted_at: now } : q));
+    await sqlRun(`UPDATE uploads SET questions = $2::jsonb WHERE id = $1`, [uploadId, JSON.stringify(questions)], { transaction });
+    await writeAudit(
+      actor,
+      "import.temperature.read_as_fahrenheit",
+      { type: "site", id: row.target_id },
+      { upload_id: uploadId, samples: open.map((q) => ({ line: q.line, at: q.at, written: q.value, stored_c: q.as_celsius })) },
+      transaction,
+    );
+    await recomputeSiteChannels(row.target_id, "temperature_import", transaction);
+  });
+  return findUpload(actor.organisationId, uploadId);
 }

@@ -4,7 +4,10 @@
 // as a whole (DROP TABLE of its partition: no dead rows, no vacuum) once the longest retention of any
 // organisation has passed its end. An organisation that keeps less than the longest has its older rows
 // in the months still kept deleted in bounded batches. A month with readings still waiting for the
-// worker is never dropped. Run once a day by the worker, with the partition upkeep.
+// worker is never dropped. The ingest's idempotency keys (reading_keys, one per (device, channel, seq),
+// a table of its own) go with their readings, in the same transaction: a key without its reading
+// only grows the table, and a reading without its key could be stored twice by a resend. Run once
+// a day by the worker, with the partition upkeep.
 import type { Transaction } from "sequelize";
 import { getSequelize } from "../db/sequelize";
 import { sqlRows, sqlRun } from "../db/sql";
@@ -41,6 +44,22 @@ async function monthlyPartitions(table: string): Promise<Partition[]> {
   );
 }
 
+/**
+ * Deletes the idempotency keys of a monthly readings partition about to be dropped, a device at a time:
+ * each statement finds one device's rows by the readings' (device, channel, at) index and their keys
+ * by the keys' primary key, instead of joining a whole month to the whole key table.
+ */
+async function deleteKeysOfPartition(partition: string, transaction: Transaction): Promise<void> {
+  const devices = await sqlRows<{ id: string }>(`SELECT id FROM devices ORDER BY id`, [], { transaction });
+  for (const d of devices) {
+    await sqlRun(
+      `DELETE FROM reading_keys k USING "${partition}" r WHERE r.device_id = $1 AND k.device_id = $1 AND k.channel = r.channel AND k.seq = r.seq`,
+      [d.id],
+      { transaction },
+    );
+  }
+}
+
 export async function applyRetention(now: Date = new Date()): Promise<RetentionResult> {
   const result: RetentionResult = { droppedPartitions: [], deletedRows: 0 };
   for (const { table, days, key } of RETAINED) {
@@ -55,6 +74,7 @@ export async function applyRetention(now: Date = new Date()): Promise<RetentionR
       }
       await getSequelize().transaction(async (transaction: Transaction) => {
         await sqlRun(`SET LOCAL lock_timeout = '${DROP_LOCK_TIMEOUT}'`, [], { transaction });
+        if (table === "readings") await deleteKeysOfPartition(p.name, transaction);
         await sqlRun(`DROP TABLE "${p.name}"`, [], { transaction });
       });
       result.droppedPartitions.push(p.name);
@@ -70,8 +90,8 @@ export async function applyRetention(now: Date = new Date()): Promise<RetentionR
              ${table === "readings" ? "AND NOT EXISTS (SELECT 1 FROM reading_queue q WHERE q.reading_id = t.id)" : ""}
            LIMIT ${DELETE_BATCH}
          ), gone AS (
-           DELETE FROM ${table} t USING doomed WHERE t.${key} = doomed.key AND t.at = doomed.at RETURNING 1
-         )
+           DELETE FROM ${table} t USING doomed WHERE t.${key} = doomed.key AND t.at = doomed.at RETURNING ${table === "readings" ? "t.device_id, t.channel, t.seq" : "1"}
+         )${table === "readings" ? `, keys AS (DELETE FROM reading_keys k USING gone g WHERE k.device_id = g.device_id AND k.channel = g.channel AND k.seq = g.seq)` : ""}
          SELECT count(*)::int AS n FROM gone`,
         [newestDoomed, now],
       );

@@ -1,10 +1,12 @@
 // Standard uncertainty of the air temperature a distance was converted with, by where it came from
 // (the precedence of PRODUCT.md: the reading's own sensor, the site's samples, the site's fixed value,
-// the 20 °C default). The base values per source are the product's own judgement (PIPELINE_SETTINGS);
-// site samples add what interpolating between them, or reaching to the nearest one, may miss.
+// the 20 °C default). The base values per source are the product's own judgement; site samples add
+// what interpolating between them, or reaching to the nearest one, may miss.
 
-import { PIPELINE_SETTINGS } from "../worker/compute/settings";
 import { rectangularUncertainty } from "./budget";
+
+/** Standard uncertainty of the air temperature by source, kelvin (own choice, engineering judgement). */
+export const AIR_TEMPERATURE_UNCERTAINTY_K = { reading: 0.5, site_samples: 1, site_fixed: 5, default: 10 } as const;
 
 /**
  * How fast air temperature may change, K an hour, when a sample is reached to rather than interpolated:
@@ -26,7 +28,7 @@ export type AirTemperatureDoubt =
   | { source: "default" };
 
 export function airTemperatureUncertaintyK(doubt: AirTemperatureDoubt): number {
-  const base = PIPELINE_SETTINGS.tempUncertaintyK[doubt.source];
+  const base = AIR_TEMPERATURE_UNCERTAINTY_K[doubt.source];
   if (doubt.source !== "site_samples") return base;
   // Between two samples the true course is anywhere within half their difference of the straight line
   // (rectangular); away from the nearest sample it may have drifted by up to rate·age (rectangular).

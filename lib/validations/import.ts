@@ -78,3 +78,8 @@ export const strappingRowSchema = z.object({
   level_m: z.number().min(0, "level_m is 0 m or more.").max(100, "level_m is at most 100 m."),
   volume_l: z.number().min(0, "volume_l is 0 L or more.").max(1e9, "volume_l is at most 1 000 000 000 L."),
 });
+
+/** The lines of a temperature import whose questioned samples are to be read as °F. */
+export const readAsFahrenheitSchema = z
+  .object({ lines: z.array(z.number().int().min(2, "Lines count from the header, 1.")).min(1, "Choose at least one line.").max(MAX_LISTED_ERRORS) })
+  .strict();

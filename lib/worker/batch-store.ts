@@ -11,7 +11,7 @@ import type { FlagChanges } from "./compute/health";
 import type { NewTemperatureSample, SessionRow, StoredChannelState } from "./compute/batch";
 import { PIPELINE_SETTINGS } from "./compute/settings";
 import type { TemperatureSample } from "./compute/air-temperature";
-import type { AssetKind, ChannelConfig, ReadingRow, SignalProfile } from "./compute/types";
+import type { AssetKind, ChannelConfig, Measurement, ReadingRow, SignalProfile } from "./compute/types";
 import { sqlRows, sqlRun } from "../db/sql";
 import { OFFLINE_AFTER_INTERVALS, isGapObservedLive, observedOutages } from "../alarms/late-history";
 
@@ -265,6 +265,56 @@ export async function upsertSessions(sessions: readonly SessionRow[], transactio
      SELECT * FROM unnest($1::uuid[], $2::uuid[], $3::timestamptz[], $4::timestamptz[], $5::float8[])
      ON CONFLICT (channel_id, started_at) DO UPDATE SET ended_at = excluded.ended_at, duration_s = excluded.duration_s`,
     [sessions.map((s) => s.assetId), sessions.map((s) => s.channelId), sessions.map((s) => s.start), sessions.map((s) => s.end), sessions.map((s) => s.durationS)],
+    { transaction },
+  );
+}
+
+/**
+ * Keeps each channel's newest valid measurement (channel_latest) for the live screens: of the given
+ * measurements (those this write stored), each channel's newest with status ok, by (time, reading id).
+ * A late or backfilled older one never replaces a newer value; the same reading measured again does.
+ */
+export async function upsertLatestValues(measurements: readonly Measurement[], subMillis: SubMillis, transaction: Transaction): Promise<void> {
+  const newest = new Map<string, { m: Measurement; micros: number }>();
+  for (const m of measurements) {
+    if (m.status !== "ok" || !m.channel) continue;
+    const micros = exactMicros(m.reading, subMillis);
+    const held = newest.get(m.channel.id);
+    if (!held || micros > held.micros || (micros === held.micros && m.reading.id > held.m.reading.id)) newest.set(m.channel.id, { m, micros });
+  }
+  if (newest.size === 0) return;
+  const rows = [...newest].sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0)).map(([, v]) => v);
+  await sqlRun(
+    `INSERT INTO channel_latest AS l (channel_id, reading_id, at, distance_m, level_m, volume_l, fill_pct, uncertainty_m, occupied)
+     SELECT v.channel_id, v.reading_id, ${MICROS_TO_TIMESTAMPTZ("v.at_us")}, v.distance_m, v.level_m, v.volume_l, v.fill_pct, v.uncertainty_m, v.occupied
+     FROM unnest($1::uuid[], $2::int8[], $3::int8[], $4::float8[], $5::float8[], $6::float8[], $7::float8[], $8::float8[], $9::bool[])
+       AS v(channel_id, reading_id, at_us, distance_m, level_m, volume_l, fill_pct, uncertainty_m, occupied)
+     ON CONFLICT (channel_id) DO UPDATE SET reading_id = excluded.reading_id, at = excluded.at, distance_m = excluded.distance_m, level_m = excluded.level_m,
+       volume_l = excluded.volume_l, fill_pct = excluded.fill_pct, uncertainty_m = excluded.uncertainty_m, occupied = excluded.occupied
+     WHERE (excluded.at, excluded.reading_id) >= (l.at, l.reading_id)`,
+    [
+      rows.map((r) => r.m.channel?.id),
+      rows.map((r) => r.m.reading.id),
+      rows.map((r) => r.micros),
+      rows.map((r) => r.m.distanceM),
+      rows.map((r) => r.m.levelM),
+      rows.map((r) => r.m.volumeL),
+      rows.map((r) => r.m.fillPct),
+      rows.map((r) => r.m.uncertaintyM),
+      rows.map((r) => r.m.occupied),
+    ],
+    { transaction },
+  );
+}
+
+/** After a recompute deleted a channel's measurements: its latest value again from what remains (the replay then moves it on). */
+export async function resetLatestValue(channelId: string, transaction: Transaction): Promise<void> {
+  await sqlRun(`DELETE FROM channel_latest WHERE channel_id = $1`, [channelId], { transaction });
+  await sqlRun(
+    `INSERT INTO channel_latest (channel_id, reading_id, at, distance_m, level_m, volume_l, fill_pct, uncertainty_m, occupied)
+     SELECT m.channel_id, m.reading_id, m.at, m.distance_m, m.level_m, m.volume_l, m.fill_pct, m.uncertainty_m, m.occupied
+     FROM measurements m WHERE m.channel_id = $1 AND m.status = 'ok' ORDER BY m.at DESC, m.reading_id DESC LIMIT 1`,
+    [channelId],
     { transaction },
   );
 }

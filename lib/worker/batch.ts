@@ -1,7 +1,8 @@
 // Batches of the worker: claim waiting readings, run the pipeline stages, write everything and delete
 // the claimed queue rows, all in one transaction per batch. A worker killed mid-batch rolls back and
 // the readings wait for the next; two workers never claim the same reading (FOR UPDATE SKIP LOCKED),
-// and measurements are unique per reading, so nothing is lost or written twice.
+// and measurements are unique per reading, so nothing is lost or written twice. Several workers claim
+// from disjoint lanes of devices (lanes.ts), so their batches touch disjoint channels.
 //
 // One batch, phase by phase: claim (claimBatch) → load channels (claimNextBatch, batch-store.ts) →
 // compute (prepareBatch, compute/batch.ts) → encode (encodeBatch, encode.ts) → write
@@ -19,7 +20,8 @@ import type { ChannelState } from "./compute/channel-state";
 import type { ChannelConfig, ReadingRow } from "./compute/types";
 import { exactMicros, loadChannelsOfDevices, loadTemperatureChannelSites, loadTemperatureSamples, lockChannelStates, fetchReadings, MICROS_TO_TIMESTAMPTZ, readingsAsArrays, type FetchedReadings, type LockedChannelState, type SubMillis } from "./batch-store";
 import { encodeBatch, writeEncodedBatch, type EncodedBatch } from "./encode";
-import { sqlRows, sqlRun } from "../db/sql";
+import { sqlRows, sqlRun, withSession } from "../db/sql";
+import { CLAIMING, LANE_COUNT, LaneOwnership, laneOfDevice } from "./lanes";
 
 /**
  * A step that runs inside the batch's transaction after its measurements and flags are written:
@@ -37,47 +39,54 @@ export interface BatchResult {
   buckets: number;
 }
 
-/** Where a claim starts: after this reading's exact time and id (the queue's order). */
+/** Where a claim starts: after this reading's exact time and id (the queue's order), in these lanes. */
 interface ClaimKey {
   micros: number;
   id: number;
+  lanes: readonly number[];
 }
 
-// Session-level advisory lock held while a worker claims its batch and queues for its channels' state
-// rows, so batches are claimed in time order and each channel's readings are processed in that order.
-const CLAIM_LOCK_KEY = 0x48545743;
+// A claim holds the session-level claim lock of each of its lanes (lanes.ts) until its batch has queued
+// for its channels' state rows, so the batches with readings of one channel are claimed in time order
+// and lock that channel's state in the same order, whichever worker claims them.
+const takeClaimLocks = (lanes: readonly number[], transaction: Transaction) =>
+  sqlRun(`SELECT pg_advisory_lock($1, l) FROM unnest($2::int[]) AS l`, [CLAIMING, [...lanes].sort((a, b) => a - b)], { transaction });
 
 /**
  * Claims the oldest waiting readings this transaction can lock, or the oldest after `after` (the last
  * reading of the batch in flight): the rows of that batch are still in the queue, deleted but not yet
  * committed, and skipping 40 000 locked rows one by one was nearly half of the claim.
  */
-async function claimBatch(batchSize: number, transaction: Transaction, after: ClaimKey | null): Promise<FetchedReadings> {
+async function claimBatch(batchSize: number, transaction: Transaction, lanes: readonly number[], after: ClaimKey | null): Promise<FetchedReadings> {
   // The rows are deleted by the row addresses the locking subquery returns (they cannot move while
   // locked): cheaper than looking each up again by primary key. fetchReadings puts them in time order.
-  const bound = after ? `WHERE (at, reading_id) > (${MICROS_TO_TIMESTAMPTZ("$2")}, $3::bigint)` : "";
+  // A worker that owns every lane claims without a lane filter.
+  const bind: unknown[] = [batchSize];
+  const where: string[] = [];
+  if (after) where.push(`(at, reading_id) > (${MICROS_TO_TIMESTAMPTZ(`$${bind.push(after.micros)}`)}, $${bind.push(after.id)}::bigint)`);
+  if (lanes.length < LANE_COUNT) where.push(`${laneOfDevice("device_id")} = ANY($${bind.push(lanes)}::int[])`);
   return fetchReadings(
     `WITH claimed AS (
        DELETE FROM reading_queue
-       WHERE ctid = ANY(ARRAY(SELECT ctid FROM reading_queue ${bound} ORDER BY at, reading_id LIMIT $1 FOR UPDATE SKIP LOCKED))
+       WHERE ctid = ANY(ARRAY(SELECT ctid FROM reading_queue ${where.length ? `WHERE ${where.join(" AND ")}` : ""} ORDER BY at, reading_id LIMIT $1 FOR UPDATE SKIP LOCKED))
        RETURNING reading_id AS id, at, ${QUEUED_READING_COLUMNS.join(", ")}
      )
      ${readingsAsArrays("claimed r")}`,
-    after ? [batchSize, after.micros, after.id] : [batchSize],
+    bind,
     transaction,
   );
 }
 
 /**
- * Locks state rows the batch in flight holds and releases the claim lock in one statement: the unlock
+ * Locks state rows the batch in flight holds and releases the claim locks in one statement: the unlock
  * is computed only after the locking subquery has its rows, so no other worker can claim in between.
  * Answers the rows' versions only: the states themselves are needed when a version is not the expected one.
  */
 async function lockCarriedAndRelease(channelIds: string[], transaction: Transaction): Promise<Map<string, number>> {
   const [row] = await sqlRows<{ rows: { channel_id: string; version: number }[] | null }>(
-    `SELECT json_agg(x ORDER BY x.channel_id) AS rows, pg_advisory_unlock($2) AS released
+    `SELECT json_agg(x ORDER BY x.channel_id) AS rows, pg_advisory_unlock_all() AS released
      FROM (SELECT channel_id, version FROM channel_state WHERE channel_id = ANY($1::uuid[]) ORDER BY channel_id FOR UPDATE) x`,
-    [[...channelIds].sort(), CLAIM_LOCK_KEY],
+    [[...channelIds].sort()],
     { transaction },
   );
   return new Map((row?.rows ?? []).map((r) => [r.channel_id, Number(r.version)]));
@@ -111,9 +120,11 @@ interface InFlight {
   commit: Promise<BatchResult>;
 }
 
-/** A claimed batch and what computing it needs from the database, its transaction holding the claim lock. */
+/** A claimed batch and what computing it needs from the database, its transaction holding the claim locks. */
 interface Claimed {
   transaction: Transaction;
+  /** The lanes it was claimed from. */
+  lanes: readonly number[];
   readings: ReadingRow[];
   subMillis: SubMillis;
   channelList: ChannelConfig[];
@@ -126,26 +137,30 @@ interface Claimed {
 /** Lets pending database replies be handled before computing goes on. */
 const yieldToIo = () => new Promise<void>((resolve) => setImmediate(resolve));
 
-const releaseClaimLock = (transaction: Transaction) => sqlRun(`SELECT pg_advisory_unlock($1)`, [CLAIM_LOCK_KEY], { transaction });
+// The claim locks are the only session-level advisory locks on a batch's connection.
+const releaseClaimLocks = (transaction: Transaction) => sqlRun(`SELECT pg_advisory_unlock_all()`, [], { transaction });
 
 /**
- * Opens a batch's transaction, takes the claim lock and claims waiting readings (those after `after`
- * first, if given) with what computing them needs but the channel states. The lock is still held when
- * this resolves (until prepareBatch queues for the states), unless the queue was empty: then it
- * resolves to null.
+ * Opens a batch's transaction, takes the lanes this worker owns now and their claim locks, and claims
+ * waiting readings of those lanes (those after `after` first, if given) with what computing them needs
+ * but the channel states. The locks are still held when this resolves (until prepareBatch queues for
+ * the states), unless nothing was waiting in them (or no lane was free): then it resolves to null.
  */
-async function claimNextBatch(batchSize: number, after: ClaimKey | null = null): Promise<Claimed | null> {
+async function claimNextBatch(batchSize: number, ownership: LaneOwnership, previous: ClaimKey | null = null): Promise<Claimed | null> {
+  const lanes = await ownership.rebalance();
+  if (lanes.length === 0) return null;
+  // Starting after the batch in flight is right only in lanes it was claimed from: a lane taken over
+  // since may have readings waiting before that point.
+  const after = previous && lanes.every((l) => previous.lanes.includes(l)) ? previous : null;
   const transaction = await getSequelize().transaction();
-  let locked = false;
   try {
     // A crash of the database can lose only whole batches, which roll back with their queue deletions.
     // JIT compilation would cost more than these short, wide statements take to run.
     await sqlRun(`SET LOCAL synchronous_commit = off; SET LOCAL jit = off`, [], { transaction });
-    await sqlRun(`SELECT pg_advisory_lock($1)`, [CLAIM_LOCK_KEY], { transaction });
-    locked = true;
+    await takeClaimLocks(lanes, transaction);
     // Readings that came in late behind the batch in flight are claimed once those after it are done.
-    let fetched = await claimBatch(batchSize, transaction, after);
-    if (fetched.readings.length === 0 && after) fetched = await claimBatch(batchSize, transaction, null);
+    let fetched = await claimBatch(batchSize, transaction, lanes, after);
+    if (fetched.readings.length === 0 && after) fetched = await claimBatch(batchSize, transaction, lanes, null);
     const { readings, subMillis } = fetched;
     if (readings.length === 0) {
       await abandonClaim({ transaction });
@@ -167,17 +182,17 @@ async function claimNextBatch(batchSize: number, after: ClaimKey | null = null):
     }
     const temperatureSamples = await loadTemperatureSamples([...new Set(channelList.map((c) => c.site.id))], new Date(from), new Date(to), transaction);
     const temperatureChannelSites = await loadTemperatureChannelSites(channelList.map((c) => c.id), transaction);
-    return { transaction, readings, subMillis, channelList, ids, temperatureSamples, temperatureChannelSites };
+    return { transaction, lanes, readings, subMillis, channelList, ids, temperatureSamples, temperatureChannelSites };
   } catch (err) {
-    if (locked) await releaseClaimLock(transaction).catch(() => undefined);
+    await releaseClaimLocks(transaction).catch(() => undefined);
     await transaction.rollback().catch(() => undefined);
     throw err;
   }
 }
 
-/** Gives a claimed batch back: its readings return to the queue and the claim lock is released. */
+/** Gives a claimed batch back: its readings return to the queue and the claim locks are released. */
 async function abandonClaim(claimed: Pick<Claimed, "transaction">): Promise<void> {
-  await releaseClaimLock(claimed.transaction).catch(() => undefined);
+  await releaseClaimLocks(claimed.transaction).catch(() => undefined);
   await claimed.transaction.rollback().catch(() => undefined);
 }
 
@@ -185,7 +200,7 @@ async function abandonClaim(claimed: Pick<Claimed, "transaction">): Promise<void
  * Computes a claimed batch. Channels that the batch in flight (`before`) is writing are computed
  * from the states it will leave, and their rows are locked in the background; the batch is `ready`
  * once those locks are held and the stored versions match (or it has been recomputed). `beforeCompute`
- * runs once this batch has queued for its states (so the claim lock may pass on) and before the
+ * runs once this batch has queued for its states (so the claim locks may pass on) and before the
  * computing starts: the next claim goes to the database then, and runs there meanwhile.
  */
 async function prepareBatch(claimed: Claimed, before: InFlight | null, beforeCompute: () => void): Promise<Prepared> {
@@ -200,7 +215,7 @@ async function prepareBatch(claimed: Claimed, before: InFlight | null, beforeCom
     const expected = before ? before.prepared.written() : null;
     const carried = ids.filter((id) => expected?.has(id));
     const fresh = await lockChannelStates(ids.filter((id) => !expected?.has(id)), transaction);
-    // Queued before the claim lock is released, so no later batch can take these rows first; the lock
+    // Queued before the claim locks are released, so no later batch can take these rows first; the lock
     // is granted when the batch in flight commits, and this connection waits for it meanwhile.
     unlocked = true;
     const carriedLocked = lockCarriedAndRelease(carried, transaction);
@@ -254,7 +269,7 @@ async function prepareBatch(claimed: Claimed, before: InFlight | null, beforeCom
       },
     };
   } catch (err) {
-    if (!unlocked) await releaseClaimLock(transaction).catch(() => undefined);
+    if (!unlocked) await releaseClaimLocks(transaction).catch(() => undefined);
     await transaction.rollback().catch(() => undefined);
     throw err;
   }
@@ -273,6 +288,8 @@ async function commitBatch(p: Prepared, hooks: readonly BatchHook[]): Promise<Ba
   }
 }
 
+const queueIsEmpty = async () => (await sqlRows<{ empty: boolean }>(`SELECT NOT EXISTS (SELECT 1 FROM reading_queue) AS empty`, [], { primary: true }))[0].empty;
+
 export interface DrainResult {
   batches: number;
   readings: number;
@@ -282,10 +299,16 @@ export interface DrainResult {
 }
 
 /**
- * Works through the queue, two batches in flight at a time, until it is empty or `maxMs` has passed.
- * `afterBatch` runs after each commit (the worker uses it to keep its memory in check).
+ * Works through the lanes this worker owns, two batches in flight at a time, until nothing waits in
+ * them or `maxMs` has passed. `afterBatch` runs after each commit (the worker uses it to keep its
+ * memory in check).
  */
 export async function drainQueue(batchSize: number, hooks: readonly BatchHook[] = [], maxMs = Infinity, afterBatch: () => void = () => undefined): Promise<DrainResult> {
+  // The lanes are owned on a session of their own, held for the whole drain.
+  return withSession(async (session) => drainLanes(await LaneOwnership.enter(session), batchSize, hooks, maxMs, afterBatch));
+}
+
+async function drainLanes(ownership: LaneOwnership, batchSize: number, hooks: readonly BatchHook[], maxMs: number, afterBatch: () => void): Promise<DrainResult> {
   const started = Date.now();
   const result: DrainResult = { batches: 0, readings: 0, measurements: 0, drained: false };
   const add = (r: BatchResult) => {
@@ -295,7 +318,7 @@ export async function drainQueue(batchSize: number, hooks: readonly BatchHook[] 
     afterBatch();
   };
   let inFlight: InFlight | null = null;
-  let claiming: Promise<Claimed | null> | null = claimNextBatch(batchSize);
+  let claiming: Promise<Claimed | null> | null = claimNextBatch(batchSize, ownership);
   let next: Prepared | null = null;
   try {
     for (;;) {
@@ -304,14 +327,15 @@ export async function drainQueue(batchSize: number, hooks: readonly BatchHook[] 
       if (claimed === null) {
         if (inFlight) add(await inFlight.commit);
         inFlight = null;
-        result.drained = true;
+        // This worker's lanes are empty; other workers may still be busy with theirs.
+        result.drained = await queueIsEmpty();
         break;
       }
       const more = Date.now() - started <= maxMs;
       next = await prepareBatch(claimed, inFlight, () => {
         if (!more) return;
         const last = claimed.readings[claimed.readings.length - 1];
-        claiming = claimNextBatch(batchSize, { micros: exactMicros(last, claimed.subMillis), id: last.id });
+        claiming = claimNextBatch(batchSize, ownership, { micros: exactMicros(last, claimed.subMillis), id: last.id, lanes: claimed.lanes });
         // Awaited in the next round; a failure meanwhile must not count as unhandled.
         claiming.catch(() => undefined);
       });

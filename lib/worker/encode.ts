@@ -8,7 +8,7 @@ import { binaryArray, binaryColumn, ColumnWriter, decodeBase64Row, decodeBinaryA
 import type { ChannelState } from "./compute/channel-state";
 import type { ProcessedBatch } from "./compute/batch";
 import type { ChannelConfig, Measurement } from "./compute/types";
-import { applyFlagChanges, exactMicros, insertTemperatureSamples, upsertSessions, type SubMillis } from "./batch-store";
+import { applyFlagChanges, exactMicros, insertTemperatureSamples, upsertLatestValues, upsertSessions, type SubMillis } from "./batch-store";
 import { sqlRows, sqlRun } from "../db/sql";
 
 // ── Measurements and rollups ────────────────────────────────────────────────────────────────────
@@ -334,6 +334,7 @@ export interface EncodedBatch {
   batch: ProcessedBatch;
   /** The measurements in channel order, and their columns. */
   ordered: Measurement[];
+  subMillis: SubMillis;
   measurementColumns: Buffer[];
   /** Rollup columns of all the measurements (what is written unless some were measured before). */
   rollupColumns: Buffer[];
@@ -347,6 +348,7 @@ export function encodeBatch(batch: ProcessedBatch, subMillis: SubMillis): Encode
   return {
     batch,
     ordered,
+    subMillis,
     measurementColumns: encodeMeasurements(ordered, subMillis),
     rollupColumns: rollupColumns(rollups),
     buckets: rollups.length,
@@ -367,6 +369,7 @@ export async function writeEncodedBatch(e: EncodedBatch, transaction: Transactio
   await insertTemperatureSamples(batch.newTemperatureSamples, transaction);
   let written = { inserted: e.ordered.length, buckets: e.buckets };
   if (e.ordered.length) {
+    let stored = e.ordered;
     await sqlRun(`SAVEPOINT batch_measurements`, [], { transaction });
     try {
       await sqlRun(WRITE_ALL, [...e.measurementColumns, ...e.rollupColumns, ...e.states], { transaction });
@@ -376,11 +379,13 @@ export async function writeEncodedBatch(e: EncodedBatch, transaction: Transactio
       await sqlRun(`ROLLBACK TO SAVEPOINT batch_measurements`, [], { transaction });
       const [row] = await sqlRows<{ ids: string | null }>(INSERT_NEW_MEASUREMENTS, e.measurementColumns, { transaction });
       const ids = new Set(decodeBinaryArray(row ? decodeBase64Row(row).ids : null, "int8"));
-      const rollups = rollUp(e.ordered.filter((m) => ids.has(m.reading.id)));
+      stored = e.ordered.filter((m) => ids.has(m.reading.id));
+      const rollups = rollUp(stored);
       if (rollups.length) await sqlRun(UPSERT_ROLLUPS, rollupColumns(rollups), { transaction });
       await sqlRun(UPDATE_STATES, e.states, { transaction });
       written = { inserted: ids.size, buckets: rollups.length };
     }
+    await upsertLatestValues(stored, e.subMillis, transaction);
   } else if (batch.states.size) {
     await sqlRun(UPDATE_STATES, e.states, { transaction });
   }

@@ -88,7 +88,7 @@ export async function evaluateManualDips(): Promise<number> {
                           AND m.status IN ('ok', 'noisy', 'suspect') AND m.level_m IS NOT NULL ORDER BY m.at DESC LIMIT 1) b ON true
        LEFT JOIN LATERAL (SELECT at, level_m FROM measurements m WHERE m.channel_id = c.id AND m.at > d.at AND m.at <= d.at + make_interval(secs => $1)
                           AND m.status IN ('ok', 'noisy', 'suspect') AND m.level_m IS NOT NULL ORDER BY m.at ASC LIMIT 1) a ON true
-       WHERE d.evaluated_at IS NULL
+       WHERE d.evaluated_at IS NULL AND d.voided_at IS NULL
        ORDER BY d.at LIMIT 500
        FOR UPDATE OF d SKIP LOCKED`,
       [windowS],
@@ -112,7 +112,7 @@ export async function evaluateManualDips(): Promise<number> {
     }
     for (const channelId of touched) {
       const dips = await sqlRows<{ at: Date; residual_m: number }>(
-        `SELECT at, residual_m FROM (SELECT at, residual_m FROM manual_dips WHERE channel_id = $1 AND residual_m IS NOT NULL ORDER BY at DESC LIMIT 50) x ORDER BY at`,
+        `SELECT at, residual_m FROM (SELECT at, residual_m FROM manual_dips WHERE channel_id = $1 AND residual_m IS NOT NULL AND voided_at IS NULL ORDER BY at DESC LIMIT 50) x ORDER BY at`,
         [channelId],
         { transaction },
       );

@@ -6,7 +6,7 @@
 import { getSequelize } from "../db/sequelize";
 import { processBatch } from "./compute/batch";
 import { initialChannelState, type ChannelState } from "./compute/channel-state";
-import { exactMicros, loadChannel, loadTemperatureChannelSites, loadTemperatureSamples, lockChannelStates, fetchReadings, MICROS_TO_TIMESTAMPTZ, readingsAsArrays } from "./batch-store";
+import { exactMicros, loadChannel, resetLatestValue, loadTemperatureChannelSites, loadTemperatureSamples, lockChannelStates, fetchReadings, MICROS_TO_TIMESTAMPTZ, readingsAsArrays } from "./batch-store";
 import { writeProcessedBatch } from "./encode";
 import { sqlRows, sqlRun } from "../db/sql";
 
@@ -23,6 +23,7 @@ export async function recomputeChannel(channelId: string): Promise<number> {
 
     // Measurements taken while the channel served another asset stay as they were.
     await sqlRun(`DELETE FROM measurements WHERE channel_id = $1 AND asset_id IS NOT DISTINCT FROM $2`, [channelId, assetId], { transaction });
+    await resetLatestValue(channelId, transaction);
     if (assetId) {
       await sqlRun(`DELETE FROM measurement_rollups WHERE channel_id = $1 AND asset_id = $2`, [channelId, assetId], { transaction });
       await sqlRun(`DELETE FROM occupancy_sessions WHERE channel_id = $1 AND asset_id = $2`, [channelId, assetId], { transaction });

@@ -59,7 +59,21 @@ describe("an H alarm from readings to acknowledgement by e-mail and back to norm
     expect(mail.text).toMatch(/At activation: 2\.2\d*\u00a0m( ±\u00a0[\d.]+\u00a0mm)? at \d{1,2} \w{3} \d{4}, \d\d:\d\d (GMT|IST)/);
     expect(mail.text).toMatch(/Latest: 2\.2\d*\u00a0m( ±\u00a0[\d.]+\u00a0mm)? at \d{1,2} \w{3} \d{4}, \d\d:\d\d (GMT|IST)/);
     expect(mail.text).toContain("Setpoint: 2.000\u00a0m");
-    expect(mail.text).toContain(`/assets/${t.tank.id}`);
+    // No digit the uncertainty does not support: the latest level's standard uncertainty, rounded by the
+    // Particle Data Group's rule (Review of Particle Physics, Introduction: three leading digits 100–354 keep two
+    // significant digits, 355–949 one, 950–999 go up to 1000 with two), and the level to the same decimal place.
+    const [latest] = await sql<{ level_m: number; uncertainty_m: number }>(
+      `SELECT level_m, uncertainty_m FROM measurements WHERE asset_id = $1 AND level_m IS NOT NULL ORDER BY at DESC LIMIT 1`,
+      [t.tank.id],
+    );
+    const uMm = latest.uncertainty_m * 1000;
+    const exponent = Math.floor(Math.log10(uMm));
+    const leading = Math.round(uMm / 10 ** (exponent - 2));
+    const mmDecimals = leading >= 950 ? -exponent : (leading <= 354 ? 2 : 1) - 1 - exponent;
+    const uText = (leading >= 950 ? 10 ** (exponent + 1) : uMm).toFixed(Math.max(0, mmDecimals));
+    const levelText = latest.level_m.toFixed(Math.max(0, mmDecimals + 3));
+    expect(mail.text).toContain(`Latest: ${levelText}\u00a0m ±\u00a0${uText}\u00a0mm at `);
+    expect(mail.html).toContain(`${levelText}\u00a0m ±\u00a0${uText}\u00a0mm at `);
     expect(mail.text).toContain("not an overfill-prevention or safety system");
     const token = tokenOf(mail.text);
     expect(raised.events.some((e: { kind: string; cause: string }) => e.kind === "notified" && e.cause.includes("technician@halftrip.test"))).toBe(true);

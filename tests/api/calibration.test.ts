@@ -57,13 +57,55 @@ describe("manual dips", () => {
     expect(audit).toContain("dip.record");
   });
 
-  it("refuses a dip above the tank, in the future, or at a time already dipped", async () => {
+  it("refuses a dip above the tank, in the future, before the tank had data, or at a time already dipped", async () => {
     const url = `/api/assets/${fleet.tank.id}/dips`;
-    expect((await technician.post(url).send({ level_m: 2.9 })).status).toBe(422);
+    const tank = (await technician.get(url).expect(200)).body.asset;
+    // The tank of tests/support/fleet.ts is 2.8 m deep: the message names that figure, as the form's hint does.
+    expect(tank.max_dip_level_m).toBe(2.8);
+    const high = await technician.post(url).send({ level_m: 2.9 });
+    expect(high.status).toBe(422);
+    expect(high.body.fields.level_m).toBe("The tank is 2.800 m deep; a dip reads at most that.");
+    const huge = await technician.post(url).send({ level_m: 99_999 });
+    expect(huge.status).toBe(422);
+    expect(huge.body.fields.level_m).toBe("The tank is 2.800 m deep; a dip reads at most that.");
+    expect(huge.body.message).not.toMatch(/100 m/);
     const future = await technician.post(url).send({ level_m: 1, at: new Date(Date.now() + HOUR).toISOString() });
     expect(future.status).toBe(422);
     expect(future.body.fields.at).toMatch(/future/);
+    // The tank was created a moment ago and its earliest measurement is `start` (8 h ago): a dip before that, and one in 2020, are refused.
+    for (const at of [new Date(start - HOUR), new Date("2020-06-01T08:00:00Z")]) {
+      const early = await technician.post(url).send({ level_m: 1, at: at.toISOString() });
+      expect(early.status).toBe(422);
+      expect(early.body.fields.at).toMatch(/before this tank had any data/);
+    }
     expect((await technician.post(url).send({ level_m: 1, at: new Date(dipTimes[0]).toISOString() })).status).toBe(409);
+  });
+
+  it("voids a wrong dip with a reason: kept in the list with who and why, audited, out of calibration", async () => {
+    const url = `/api/assets/${fleet.tank.id}/dips`;
+    // A dip within the tank's data (90 min ago) that was read wrong.
+    const wrong = await technician.post(url).send({ level_m: 2.5, at: new Date(start + 6.5 * HOUR).toISOString(), note: "read the wrong tape mark" }).expect(201);
+    expect((await technician.post(`/api/dips/${wrong.body.id}/void`).send({})).status).toBe(422);
+    for (const email of ["operator@halftrip.test", "viewer@halftrip.test"]) {
+      expect((await (await signedIn(email)).post(`/api/dips/${wrong.body.id}/void`).send({ reason: "not mine to void" })).status).toBe(403);
+    }
+    const voided = await technician.post(`/api/dips/${wrong.body.id}/void`).send({ reason: "tape read at the wrong mark" });
+    expect(voided.status).toBe(200);
+    expect((await technician.post(`/api/dips/${wrong.body.id}/void`).send({ reason: "again" })).status).toBe(409);
+    const item = (await technician.get(url).expect(200)).body.items.find((d: { id: string }) => d.id === wrong.body.id);
+    expect(item).toMatchObject({ level_m: 2.5, void: { reason: "tape read at the wrong mark", by: expect.any(String), at: expect.any(String) } });
+    const stored = await sql<{ voided_by: string | null; void_reason: string }>(`SELECT voided_by, void_reason FROM manual_dips WHERE id = $1`, [wrong.body.id]);
+    expect(stored[0].voided_by).not.toBeNull();
+    const audit = (await admin.get(`/api/audit?entity_id=${fleet.tank.id}`).expect(200)).body.items;
+    expect(audit.find((a: { action: string }) => a.action === "dip.void")).toMatchObject({ details: { dip_id: wrong.body.id, reason: "tape read at the wrong mark" } });
+    const refused = await technician.post(`/api/channels/${channelId()}/calibration/preview`).send({ dip_ids: [...dipIds, wrong.body.id] });
+    expect(refused.status).toBe(422);
+    expect(refused.body.message).toMatch(/is void/);
+    // The time of a voided dip is free again for the corrected one.
+    expect((await technician.post(url).send({ level_m: 0.9, at: new Date(start + 6.5 * HOUR).toISOString() })).status).toBe(201);
+    const other = await createOtherOrganisation();
+    const { agent } = await signInAgent(other.adminEmail, other.password);
+    expect((await agent.post(`/api/dips/${dipIds[0]}/void`).send({ reason: "not ours" })).status).toBe(404);
   });
 
   it("lets only admins and technicians record dips", async () => {
@@ -89,6 +131,11 @@ describe("calibration", () => {
     expect(p.rms_after_m).toBeLessThan(1e-4);
     expect(p.rms_before_m).toBeGreaterThan(0.02);
     expect(p.residuals).toHaveLength(2);
+    // The dips read 1.8 m and 1.0 m (levelAt at 1 h and 5 h): 0.8 m apart; the sensor's raw distances at
+    // their times, 1.02·true + 0.015, are 1.02 × 0.8 = 0.816 m apart (by hand). Told apart, not mixed.
+    expect(p.spread.dips_m).toBeCloseTo(0.8, 3);
+    expect(p.spread.sensor_m).toBeCloseTo(0.816, 3);
+    expect(p.spread.sentence).toBe("The dips span 800 mm; the sensor's readings at their times lie within 816 mm of each other.");
     expect(p.series.length).toBeGreaterThan(10);
     // The previewed trend after calibration passes through the dips (within the 10-minute buckets' spread).
     for (const dip of p.dips) {
@@ -104,7 +151,8 @@ describe("calibration", () => {
   it("refuses a single dip and a dip the sensor did not see", async () => {
     const one = await technician.post(`/api/channels/${channelId()}/calibration/preview`).send({ dip_ids: [dipIds[0]] });
     expect(one.status).toBe(422);
-    const lonely = await technician.post(`/api/assets/${fleet.tank.id}/dips`).send({ level_m: 1, at: new Date(start - 5 * HOUR).toISOString() }).expect(201);
+    // After the last reading (start + 6 h) by more than the hour a dip is matched within, and still before now.
+    const lonely = await technician.post(`/api/assets/${fleet.tank.id}/dips`).send({ level_m: 1, at: new Date(start + 7.25 * HOUR).toISOString() }).expect(201);
     const unseen = await technician.post(`/api/channels/${channelId()}/calibration/preview`).send({ dip_ids: [...dipIds, lonely.body.id] });
     expect(unseen.status).toBe(422);
     expect(unseen.body.message).toMatch(/No sensor reading within an hour/);

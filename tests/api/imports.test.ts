@@ -9,9 +9,16 @@ import { MAX_UPLOAD_BYTES } from "@/lib/validations/import";
 // file with errors unless the good rows are asked for.
 let admin: Agent;
 let fleet: Awaited<ReturnType<typeof createTankWithDevice>>;
+// Dips are refused before a tank was added (or had data): the tanks these files dip were added two days ago.
+async function tankAddedDaysAgo() {
+  const f = await createTankWithDevice(admin);
+  await sql(`UPDATE assets SET created_at = now() - interval '2 days' WHERE id = $1`, [f.tank.id]);
+  return f;
+}
+
 beforeAll(async () => {
   admin = await signedIn("admin@halftrip.test");
-  fleet = await createTankWithDevice(admin);
+  fleet = await tankAddedDaysAgo();
 });
 
 async function upload(kind: string, targetId: string, csv: string, mode: "all_or_nothing" | "good_rows" = "all_or_nothing", agent = admin) {
@@ -67,7 +74,7 @@ describe("all or nothing", () => {
   ].join("\n");
 
   it("imports nothing from a file with errors and lists each by line", async () => {
-    const { tank } = await createTankWithDevice(admin);
+    const { tank } = await tankAddedDaysAgo();
     const done = await upload("dips", tank.id, bad);
     expect(done.status).toBe("rejected");
     expect(done.rows_imported).toBe(0);
@@ -83,7 +90,7 @@ describe("all or nothing", () => {
   });
 
   it("imports the good rows when asked, and still lists the bad ones", async () => {
-    const { tank } = await createTankWithDevice(admin);
+    const { tank } = await tankAddedDaysAgo();
     const done = await upload("dips", tank.id, bad, "good_rows");
     expect(done.status).toBe("partial");
     expect(done.rows_imported).toBe(2);

@@ -54,6 +54,8 @@ const routes: { method: "post" | "patch" | "put"; path: () => string; label: str
   { method: "post", path: () => "/api/alarms/acknowledge", label: "/api/alarms/acknowledge", keys: ["ids", "comment"] },
   { method: "post", path: () => `/api/alarms/${ALARM}/shelve`, label: "/api/alarms/{id}/shelve", keys: ["reason", "until", "duration_min", "comment"] },
   { method: "post", path: () => `/api/alarms/${ALARM}/out-of-service`, label: "/api/alarms/{id}/out-of-service", keys: ["reason", "comment"] },
+  { method: "post", path: () => `/api/dips/${ALARM}/void`, label: "/api/dips/{id}/void", keys: ["reason"] },
+  { method: "post", path: () => `/api/imports/${ALARM}/read-as-fahrenheit`, label: "/api/imports/{id}/read-as-fahrenheit", keys: ["lines"] },
 ];
 
 describe("management API under arbitrary JSON bodies", () => {

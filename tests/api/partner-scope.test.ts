@@ -101,6 +101,7 @@ function routeCalls(f: Fleet & { alarmId: string }): Record<string, { url: strin
     "assets/[id]/overview": { url: `/api/assets/${f.tank.id}/overview`, viewer: 200 },
     "assets/[id]/series": { url: `/api/assets/${f.tank.id}/series?bucket=5m`, viewer: 200 },
     "assets/[id]/setpoints": { url: `/api/assets/${f.tank.id}/setpoints`, viewer: 200 },
+    "assets/[id]/uncertainty": { url: `/api/assets/${f.tank.id}/uncertainty`, viewer: 200 },
     audit: { url: `/api/audit`, viewer: 403 },
     "auth/[...nextauth]": "public",
     "channels/[id]/calibration": { url: `/api/channels/${channel}/calibration`, viewer: 200 },

@@ -16,12 +16,16 @@ async function deviceOf(organisationId: string): Promise<string> {
   return device.id;
 }
 
-/** One reading and its measurement at `at`, written as the worker would have left them (not queued). */
+/** One reading (with its idempotency key, as the ingest stores it) and its measurement at `at`, written as the worker would have left them (not queued). */
 async function storeMeasured(deviceId: string, seq: number, at: Date): Promise<string> {
+  await sql(`INSERT INTO reading_keys (device_id, channel, seq) VALUES ($1, 0, $2)`, [deviceId, seq]);
   const [reading] = await sql<{ id: string }>(`INSERT INTO readings (device_id, channel, seq, at, echo_us) VALUES ($1, 0, $2, $3, 5831) RETURNING id`, [deviceId, seq, at]);
   await sql(`INSERT INTO measurements (reading_id, at, device_id, channel_index, status) VALUES ($1, $2, $3, 0, 'no_echo')`, [reading.id, at, deviceId]);
   return reading.id;
 }
+
+/** The seqs of a device whose idempotency keys are still stored. */
+const keysOf = async (deviceId: string) => (await sql<{ seq: string }>(`SELECT seq::text FROM reading_keys WHERE device_id = $1 ORDER BY seq`, [deviceId])).map((r) => Number(r.seq));
 
 const kept = async (table: "readings" | "measurements", ids: string[]) =>
   (await sql<{ id: string }>(`SELECT ${table === "readings" ? "id" : "reading_id"}::text AS id FROM ${table} WHERE ${table === "readings" ? "id" : "reading_id"} = ANY($1::bigint[])`, [ids])).map((r) => r.id).sort();
@@ -56,5 +60,9 @@ describe("retention", () => {
     // 31 days of readings and 40 of measurements for the short organisation; 90 and 730 (the defaults) for the other.
     expect(await kept("readings", [shortOld, shortRecent, usualFifty, shortReadingOnly])).toEqual([shortRecent, usualFifty].sort());
     expect(await kept("measurements", [shortOld, shortRecent, usualFifty, shortReadingOnly])).toEqual([shortRecent, usualFifty, shortReadingOnly].sort());
+    // The ingest's keys go with their readings: seq 1 with its dropped month, 2 and 5 with the short
+    // organisation's deleted rows; 3 and 4 stay with their readings.
+    expect(await keysOf(shortDevice)).toEqual([3]);
+    expect(await keysOf(usualDevice)).toEqual([4]);
   });
 });

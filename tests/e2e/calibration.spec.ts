@@ -64,4 +64,15 @@ test("a technician records two dips, previews and applies a calibration", async 
   const history = page.getByRole("region", { name: "Calibration history" });
   await expect(history).toContainText("annual check");
   await expect(history.getByTestId("current-calibration")).toContainText(/scale 0\.980[34]\d/);
+
+  // A wrong dip is voided with a reason: it stays listed, struck through, and can no longer be chosen.
+  await dips.getByRole("button", { name: /^Void the dip of/ }).first().click();
+  await page.getByRole("button", { name: "Void the dip", exact: true }).click();
+  await expect(page.getByText("Say why the dip is void")).toBeVisible();
+  await page.getByLabel("Why is it void?").fill("tape read at the wrong mark");
+  await page.getByRole("button", { name: "Void the dip", exact: true }).click();
+  const voided = dips.locator('tr[data-void="true"]');
+  await expect(voided).toHaveCount(1);
+  await expect(voided).toContainText("Void: tape read at the wrong mark");
+  await expect(voided.getByRole("checkbox")).toBeDisabled();
 });

@@ -6,6 +6,7 @@ export interface SinkMessage {
   to: string[];
   subject: string;
   text: string;
+  html: string | null;
   received_at: string;
 }
 

@@ -5,7 +5,6 @@ import {
   type AlarmSnapshot,
   type AlarmState,
   type AlarmTransition,
-  httpStatusForAlarmError,
   initialAlarmSnapshot,
   isAwaitingReset,
   isHiddenState,
@@ -131,12 +130,6 @@ describe("invalid actions answer a typed error (API: 409)", () => {
       code: "invalid_shelve_expiry",
     });
     expect(transitionAlarm(unack, { type: "shelve", at: T0, until: T0 })).toMatchObject({ ok: false, code: "invalid_shelve_expiry" });
-  });
-
-  it("maps state conflicts to 409 and a bad expiry to 422", () => {
-    expect(httpStatusForAlarmError("not_acknowledgeable")).toBe(409);
-    expect(httpStatusForAlarmError("not_resettable")).toBe(409);
-    expect(httpStatusForAlarmError("invalid_shelve_expiry")).toBe(422);
   });
 
   it("throws on an impossible snapshot instead of guessing", () => {

@@ -9,6 +9,7 @@ import {
   residualsUnder,
   rmsUnder,
   SCALE_BOUNDS,
+  spreadSentence,
   trueDistanceFromDip,
   undoCalibration,
   type CalibrationPoint,
@@ -108,7 +109,10 @@ describe("choosing the fit", () => {
     const result = fitCalibration(pts([[1.5, 1.52], [1.506, 1.553]]), 1);
     expect(result.ok).toBe(true);
     if (!result.ok) return;
-    expect(result.fit.note).toContain("The dips span 33 mm; the sensor's readings at their times lie within 6 mm of each other.");
+    expect(result.fit.dipSpreadM).toBeCloseTo(0.033, 12);
+    expect(result.fit.sensorSpreadM).toBeCloseTo(0.006, 12);
+    expect(spreadSentence(result.fit.dipSpreadM, result.fit.sensorSpreadM)).toBe("The dips span 33 mm; the sensor's readings at their times lie within 6 mm of each other.");
+    expect(result.fit.note).toMatch(/readings at the dips lie within 6 mm of each other, too close to fit a scale\./);
   });
 
   it("refuses one dip and an implausible scale", () => {

@@ -96,9 +96,11 @@ describe("row readers", () => {
   });
 
   it("refuses a dip above the tank and a temperature out of range", () => {
-    const dips = dipRowReader(2.8, now);
+    const dips = dipRowReader(2.8, { now: new Date(now), assetCreatedAt: new Date("2026-03-01T00:00:00Z") });
     const high = dips.read(cells({ at: "2026-03-14T06:30:00Z", level_m: "2.9" }));
-    expect(!high.ok && high.message).toMatch(/above the tank's 2.800 m/);
+    expect(!high.ok && high.message).toMatch(/The tank is 2.800 m deep/);
+    const early = dips.read(cells({ at: "2020-06-01T08:00:00Z", level_m: "1" }));
+    expect(!early.ok && early.message).toMatch(/before this tank had any data/);
     expect(dips.read(cells({ at: "2026-03-14T06:30:00Z", level_m: "2.8", note: " " }))).toMatchObject({ ok: true, row: { level_m: 2.8, note: null } });
     const temps = temperatureRowReader(now);
     expect(temps.read(cells({ at: "2026-03-14T06:30:00Z", air_temp_c: "-61" })).ok).toBe(false);

@@ -16,6 +16,10 @@ describe("dips", () => {
     expect(dipDateQuestion(new Date("2026-12-05T12:00:00Z"), { now, assetCreatedAt: created })).toMatchObject({ field: "at", severity: "refuse", message: expect.stringMatching(/future/) });
     expect(dipDateQuestion(new Date("2020-06-01T08:00:00Z"), { now, assetCreatedAt: created })).toMatchObject({ severity: "refuse", message: expect.stringMatching(/before/) });
     expect(dipDateQuestion(new Date("2026-11-20T08:00:00Z"), { now, assetCreatedAt: created })).toBeNull();
+    // A phone clock a few minutes off either way is not questioned (the 5 min slack); ten minutes is.
+    expect(dipDateQuestion(new Date("2026-11-01T08:57:00Z"), { now, assetCreatedAt: created })).toBeNull();
+    expect(dipDateQuestion(new Date("2026-11-01T08:50:00Z"), { now, assetCreatedAt: created })?.severity).toBe("refuse");
+    expect(dipDateQuestion(new Date("2026-12-04T12:04:00Z"), { now, assetCreatedAt: created })).toBeNull();
     // Backfilled readings reach back further than the asset: a dip of that time is fine.
     expect(dipDateQuestion(new Date("2026-10-01T08:00:00Z"), { now, assetCreatedAt: created, earliestDataAt: new Date("2026-09-01T00:00:00Z") })).toBeNull();
   });

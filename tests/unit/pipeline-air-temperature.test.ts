@@ -1,7 +1,7 @@
 import { describe, it, expect } from "vitest";
 import { buildTemperatureSeries, interpolateTemperature, resolveAirTemperature } from "@/lib/worker/compute/air-temperature";
 import { PIPELINE_SETTINGS } from "@/lib/worker/compute/settings";
-import { AIR_TEMPERATURE_DRIFT_K_PER_H } from "@/lib/uncertainty/air-temperature";
+import { AIR_TEMPERATURE_DRIFT_K_PER_H, AIR_TEMPERATURE_UNCERTAINTY_K } from "@/lib/uncertainty/air-temperature";
 
 const MIN = 60_000;
 const series = buildTemperatureSeries([
@@ -33,7 +33,7 @@ describe("site temperature samples", () => {
 });
 
 describe("air temperature precedence (PRODUCT.md)", () => {
-  const u = PIPELINE_SETTINGS.tempUncertaintyK;
+  const u = AIR_TEMPERATURE_UNCERTAINTY_K;
   it("reading, then samples, then the site's fixed value, then 20 °C, each with its uncertainty", () => {
     expect(resolveAirTemperature({ readingTempC: 7, atMs: 15 * MIN, siteSeries: series, siteFixedC: 3 })).toMatchObject({ tempC: 7, source: "reading", uncertaintyK: u.reading });
     // Between samples of 10 and 14 °C, 15 min from each: the base, half the 4 K spread and 15 min of

@@ -2,7 +2,7 @@ import { describe, it, expect } from "vitest";
 import { median, medianAbsoluteDeviation } from "simple-statistics";
 import { convertReading } from "@/lib/worker/compute/convert";
 import { buildTemperatureSeries } from "@/lib/worker/compute/air-temperature";
-import { PIPELINE_SETTINGS } from "@/lib/worker/compute/settings";
+import { AIR_TEMPERATURE_UNCERTAINTY_K } from "@/lib/uncertainty/air-temperature";
 import { channel, practicalSpeed, reading, T0 } from "./pipeline-fixtures";
 
 const convert = (r: Parameters<typeof reading>[0], c = channel(), siteSeries = null as ReturnType<typeof buildTemperatureSeries> | null) =>
@@ -53,7 +53,7 @@ describe("convert: timer captures", () => {
   it("counts the tick resolution into the uncertainty: 0.686 mm a tick at prescaler 64 (REFERENCES.md §2), q/√12 (GUM §4.3.7)", () => {
     const m = convert({ ticks: 1458, overflows: 0, airTempC: 20 }, capture(64));
     const tick = 0.000686 / Math.sqrt(12);
-    const temperature = ((m.rawDistanceM as number) * PIPELINE_SETTINGS.tempUncertaintyK.reading) / (2 * 293.15);
+    const temperature = ((m.rawDistanceM as number) * AIR_TEMPERATURE_UNCERTAINTY_K.reading) / (2 * 293.15);
     // The transducer's default ±3 mm (from memory, REFERENCES.md §7), rectangular: 3/√3 mm (GUM §4.3.7).
     const transducer = 0.003 / Math.sqrt(3);
     expect(Math.abs((m.uncertaintyM as number) - Math.hypot(tick, temperature, transducer))).toBeLessThan(0.000002);

@@ -11,9 +11,8 @@ import {
   uncertaintyBudget,
   type DistanceUncertaintyInput,
 } from "@/lib/uncertainty/budget";
-import { AIR_TEMPERATURE_DRIFT_K_PER_H, airTemperatureUncertaintyK } from "@/lib/uncertainty/air-temperature";
+import { AIR_TEMPERATURE_DRIFT_K_PER_H, AIR_TEMPERATURE_UNCERTAINTY_K, airTemperatureUncertaintyK } from "@/lib/uncertainty/air-temperature";
 import { speedOfSoundDry } from "@/lib/physics/speed-of-sound";
-import { PIPELINE_SETTINGS } from "@/lib/worker/compute/settings";
 import { mulberry32, seededNormal } from "./seeded-normal";
 
 // Hand-worked example, REFERENCES.md §7 [computed there from the GUM's formulas, JCGM 100:2008 §5.1.2
@@ -125,7 +124,7 @@ describe("uncertainty budget after the GUM", () => {
 });
 
 describe("air temperature doubt by source", () => {
-  const u = PIPELINE_SETTINGS.tempUncertaintyK;
+  const u = AIR_TEMPERATURE_UNCERTAINTY_K;
   it("takes the base value of the reading's own sensor, the site's fixed value and the default", () => {
     expect(airTemperatureUncertaintyK({ source: "reading" })).toBe(u.reading);
     expect(airTemperatureUncertaintyK({ source: "site_fixed" })).toBe(u.site_fixed);

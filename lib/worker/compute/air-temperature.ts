@@ -1,7 +1,7 @@
 // Air temperature at a reading's time, by the precedence of PRODUCT.md: the reading's own value; the
 // site's temperature samples interpolated in time; the site's fixed value; 20 °C.
 
-import { airTemperatureUncertaintyK } from "../../uncertainty/air-temperature";
+import { AIR_TEMPERATURE_UNCERTAINTY_K, airTemperatureUncertaintyK } from "../../uncertainty/air-temperature";
 import { PIPELINE_SETTINGS } from "./settings";
 import type { TempSource } from "./types";
 
@@ -102,7 +102,7 @@ function plausible(t: number): boolean {
 }
 
 export function resolveAirTemperature({ readingTempC, atMs, siteSeries, siteFixedC }: AirTemperatureInput): AirTemperature {
-  const u = PIPELINE_SETTINGS.tempUncertaintyK;
+  const u = AIR_TEMPERATURE_UNCERTAINTY_K;
   let note: string | null = null;
   if (readingTempC !== null) {
     if (plausible(readingTempC)) return { tempC: readingTempC, source: "reading", uncertaintyK: u.reading, note };

@@ -1,6 +1,7 @@
 // The worker's tuning in one place. These are the product's own choices (engineering judgement, not
 // published constants) unless a comment names a source; tests read them from here instead of
-// repeating the numbers.
+// repeating the numbers. The air temperature's uncertainty by source is the uncertainty module's
+// (AIR_TEMPERATURE_UNCERTAINTY_K in lib/uncertainty/air-temperature.ts).
 
 export const PIPELINE_SETTINGS = {
   /** An echo this long means the sensor timed out: hobby-class modules report no echo as a pulse of roughly 36–38 ms (common practice). */
@@ -10,8 +11,6 @@ export const PIPELINE_SETTINGS = {
   readingTempMaxC: 90,
   /** Fallback when a site has no temperature source at all (PRODUCT.md). */
   defaultTempC: 20,
-  /** Standard uncertainty of the air temperature by source, kelvin. */
-  tempUncertaintyK: { reading: 0.5, site_samples: 1, site_fixed: 5, default: 10 },
   /** Site temperature samples: interpolate between two no further apart than this… */
   tempInterpolationMaxGapS: 6 * 3600,
   /** …or take the nearest one when it is at most this far from the reading. */

@@ -9,6 +9,7 @@ import { findOrNotFound } from "@/lib/http/not-found";
 import { PageHeader } from "@/components/ui/page-header";
 import { Loading } from "@/components/ui/data-state";
 import { AssetLive } from "@/components/assets/asset-live";
+import { UncertaintyBudgetTable } from "@/components/assets/uncertainty-budget-table";
 
 export const metadata: Metadata = { title: "Asset" };
 
@@ -35,6 +36,12 @@ export default async function AssetPage({ params }: { params: Promise<{ id: stri
       <Suspense fallback={<Loading />}>
         <AssetLive assetId={id} canAcknowledge={can(user.role, "alarm:acknowledge")} />
       </Suspense>
+      <details className="card mt-6 p-4">
+        <summary className="cursor-pointer font-bold">Uncertainty budget of the latest distance</summary>
+        <div className="mt-3">
+          <UncertaintyBudgetTable assetId={id} zone={site.time_zone} />
+        </div>
+      </details>
     </>
   );
 }
