@@ -12,7 +12,7 @@ import type { SetpointsJson } from "@/lib/services/alarm-setpoints";
 import { putSetpointsSchema } from "@/lib/validations/setpoint";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { applyApiErrors, errorReader, FormAlert, NumberField, SelectField, numberOrNull, textOf } from "@/components/ui/form-fields";
-import { flatErrors, payloadSchema } from "@/components/ui/form-schema";
+import { flatErrors, payloadSchema, quantityIssues } from "@/components/ui/form-schema";
 import { useFigures, useQuantityInput } from "@/components/ui/display-settings";
 import { QuantityField } from "@/components/ui/quantity-field";
 import type { QuantityInput } from "@/lib/units/quantity-input";
@@ -84,7 +84,14 @@ function payloadOf(v: Values, qi: QuantityInput) {
 
 // The schema reads through the form's own quantity input, which remembers the texts it wrote.
 function setpointFormSchema(qi: QuantityInput) {
-  return payloadSchema(valuesSchema, (v) => payloadOf(v, qi), putSetpointsSchema);
+  return payloadSchema(valuesSchema, (v) => payloadOf(v, qi), putSetpointsSchema, (v, payload) => {
+    const boxes: Record<string, string> = { "rate_of_change.limit_m_per_h": v.rate_of_change.limit_m_per_h };
+    for (const k of SETPOINT_KEYS) {
+      if (v.unit === "m") boxes[`setpoints.${k}.value`] = v.setpoints[k].value;
+      boxes[`setpoints.${k}.deadband_m`] = v.setpoints[k].deadband_m;
+    }
+    return quantityIssues(qi, payload, boxes);
+  });
 }
 
 function ModeField({ id, label, hint, ...select }: { id: string; label: string; hint?: string } & React.SelectHTMLAttributes<HTMLSelectElement>) {

@@ -31,7 +31,7 @@ import {
   TextAreaField,
   textOf,
 } from "@/components/ui/form-fields";
-import { flatErrors, payloadSchema, textBoxes, type FormIssue } from "@/components/ui/form-schema";
+import { flatErrors, payloadSchema, quantityIssues, textBoxes, type FormIssue } from "@/components/ui/form-schema";
 
 const SHAPES = { vertical_cylinder: "Vertical cylinder", horizontal_cylinder: "Horizontal cylinder", rectangular: "Rectangular", strapping: "Strapping table" } as const;
 
@@ -129,9 +129,15 @@ function payloadOf(v: Values, creating: boolean, qi: QuantityInput): Record<stri
   return { ...fixed, name: v.name };
 }
 
-/** What the API's schema cannot say about the form: an unchosen site, an unreadable strapping row, and on an edit the rules across fields (the patch schema checks fields alone). */
-function formIssues(v: Values, payload: unknown, creating: boolean): FormIssue[] {
-  const issues: FormIssue[] = [];
+/** What the API's schema cannot say about the form: a length that is no length (in the person's terms), an unchosen site, an unreadable strapping row, and on an edit the rules across fields (the patch schema checks fields alone). */
+function formIssues(v: Values, payload: unknown, creating: boolean, qi: QuantityInput): FormIssue[] {
+  const lengths = ["diameter_m", "height_m", "length_m", "width_m", "bottom_depth_m", "head_depth_m"] as const;
+  const issues: FormIssue[] = quantityIssues(qi, payload, {
+    mount_height_m: v.mount_height_m,
+    floor_distance_m: v.floor_distance_m,
+    occupied_below_m: v.occupied_below_m,
+    ...Object.fromEntries(lengths.map((key) => [`geometry.${key}`, v.geometry[key]])),
+  });
   if (creating && !v.site_id) issues.push({ path: "site_id", message: "Choose the site." });
   const strappingError = v.kind === "tank" && v.geometry.shape === "strapping" ? parseStrapping(v.geometry.points).error : undefined;
   if (strappingError) issues.push({ path: "geometry.points", message: strappingError });
@@ -182,7 +188,7 @@ export function AssetForm({ asset, siteId = "" }: { asset?: AssetJson; siteId?: 
         valuesSchema,
         (v) => payloadOf({ ...v, ...fixed }, creating, qi),
         creating ? createAssetSchema : updateAssetSchema,
-        (v, payload) => formIssues({ ...v, ...fixed }, payload, creating),
+        (v, payload) => formIssues({ ...v, ...fixed }, payload, creating, qi),
       ),
     [creating, fixed, qi],
   );
