@@ -42,6 +42,7 @@ export const NAV_SECTIONS: NavSection[] = [
       { href: "/assets", label: "Assets", permission: "dashboard:read" },
       { href: "/devices", label: "Devices", permission: "dashboard:read" },
       { href: "/device-api", label: "Device API", permission: "dashboard:read" },
+      { href: "/settings", label: "Units and clock", permission: "dashboard:read" },
     ],
   },
   {

@@ -1,6 +1,7 @@
 import { ALARM_STATE_WORDS } from "@/lib/alarms/vocabulary";
 import type { AlarmState } from "@/lib/alarms/state-machine";
 import type { AlarmJson } from "@/lib/services/alarms";
+import type { Figures } from "@/lib/format/figures";
 
 // An alarm's state in words (bold while it waits for someone), its figures and where it is.
 
@@ -14,10 +15,10 @@ export function AlarmStateLabel({ state, awaitingReset = false }: { state: Alarm
   );
 }
 
-/** "2.612 m" or "—", with the unit the alarm carries. */
-export function alarmFigure(v: number | null, unit: string | null, kind?: string): string {
+/** "2.612 m" (or "8.570 ft" in the person's units) or "—", with the unit the alarm carries. */
+export function alarmFigure(fig: Figures, v: number | null, unit: string | null, kind?: string): string {
   if (v === null) return "—";
-  if (unit === "m") return `${v.toFixed(3)} m`;
+  if (unit === "m") return fig.length(v);
   if (!unit && kind) return healthFigure(kind, v);
   return `${Number(v.toFixed(3))}${unit ? ` ${unit}` : ""}`;
 }

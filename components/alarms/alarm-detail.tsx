@@ -12,6 +12,8 @@ import { Loading, LoadError } from "@/components/ui/data-state";
 import { createColumnHelper } from "@tanstack/react-table";
 import { DataTable } from "@/components/ui/data-table";
 import { AlarmStateLabel, alarmFigure, alarmWhere } from "@/components/alarms/alarm-badges";
+import { useFigures } from "@/components/ui/display-settings";
+import type { Figures } from "@/lib/format/figures";
 import { PriorityBadge } from "@/components/ui/priority-badge";
 import { ALARM_STATE_WORDS } from "@/lib/alarms/vocabulary";
 import { SiteTime } from "@/components/ui/site-time";
@@ -47,14 +49,14 @@ const eventColumn = createColumnHelper<AlarmEventJson>();
 const noticeColumn = createColumnHelper<NotificationJson>();
 const instant = (at: string | null) => (at ? Date.parse(at) : undefined);
 
-function eventColumns(alarm: AlarmWithHistory, zone: string) {
+function eventColumns(alarm: AlarmWithHistory, zone: string, fig: Figures) {
   return [
     eventColumn.accessor((e) => instant(e.at), { id: "when", header: "When", cell: (c) => <SiteTime at={c.row.original.at} zone={zone} />, meta: { cellClassName: "figures whitespace-nowrap" } }),
     eventColumn.accessor((e) => e.kind.replaceAll("_", " "), { id: "event", header: "Event" }),
     eventColumn.accessor((e) => (e.from_state && e.to_state ? `${ALARM_STATE_WORDS[e.from_state]} → ${ALARM_STATE_WORDS[e.to_state]}` : "—"), { id: "state", header: "State", enableSorting: false, meta: { cellClassName: "whitespace-nowrap" } }),
     eventColumn.accessor("cause", { header: "Cause" }),
-    eventColumn.accessor((e) => e.value ?? undefined, { id: "value", header: "Value", cell: (c) => alarmFigure(c.row.original.value, alarm.unit, alarm.kind), meta: { cellClassName: "figures whitespace-nowrap" } }),
-    eventColumn.accessor("setpoint", { header: "Setpoint", enableSorting: false, cell: (c) => alarmFigure(c.getValue(), alarm.unit, alarm.kind), meta: { cellClassName: "figures whitespace-nowrap" } }),
+    eventColumn.accessor((e) => e.value ?? undefined, { id: "value", header: "Value", cell: (c) => alarmFigure(fig, c.row.original.value, alarm.unit, alarm.kind), meta: { cellClassName: "figures whitespace-nowrap" } }),
+    eventColumn.accessor("setpoint", { header: "Setpoint", enableSorting: false, cell: (c) => alarmFigure(fig, c.getValue(), alarm.unit, alarm.kind), meta: { cellClassName: "figures whitespace-nowrap" } }),
     eventColumn.accessor((e) => e.actor_label ?? "—", { id: "who", header: "Who" }),
     eventColumn.accessor((e) => e.comment ?? "", { id: "comment", header: "Comment", enableSorting: false }),
   ];
@@ -76,6 +78,7 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
   const [dialog, setDialog] = useState<AlarmDialogMode | null>(null);
   const [problem, setProblem] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
+  const fig = useFigures();
   if (isLoading) return <Loading />;
   if (error) return <LoadError error={error} retry={() => mutate()} />;
   if (!data) return null;
@@ -101,7 +104,7 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
       <section className="card grid gap-4 p-4 sm:grid-cols-4" aria-label="Now">
         <div><p className="label">Priority</p><PriorityBadge priority={data.priority as AlarmPriority} calm={state === "normal"} /></div>
         <div><p className="label">State</p><AlarmStateLabel state={state} awaitingReset={data.awaiting_reset} />{data.shelved_until && <p className="text-sm text-muted">until <SiteTime at={data.shelved_until} zone={zone} /> — {data.shelve_reason}</p>}</div>
-        <div><p className="label">Value / setpoint</p><p className="figures">{alarmFigure(data.value, data.unit, data.kind)}{data.setpoint !== null && <span className="text-muted"> / {alarmFigure(data.setpoint, data.unit, data.kind)}</span>}</p></div>
+        <div><p className="label">Value / setpoint</p><p className="figures">{alarmFigure(fig, data.value, data.unit, data.kind)}{data.setpoint !== null && <span className="text-muted"> / {alarmFigure(fig, data.setpoint, data.unit, data.kind)}</span>}</p></div>
         <div><p className="label">Condition</p><p>{data.condition_active ? "Active" : "Clear"}</p></div>
         <div><p className="label">Began</p><p className="figures"><SiteTime at={data.activated_at} zone={zone} /></p></div>
         <div><p className="label">Cleared</p><p className="figures"><SiteTime at={data.cleared_at} zone={zone} /></p></div>
@@ -125,7 +128,7 @@ export function AlarmDetail({ id, role }: { id: string; role: Role }) {
 
       <DataTable
         data={data.events}
-        columns={eventColumns(data, zone)}
+        columns={eventColumns(data, zone, fig)}
         getRowId={(e) => String(e.id)}
         label="Events"
         title

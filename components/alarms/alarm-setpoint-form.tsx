@@ -1,7 +1,7 @@
 "use client";
 
 import useSWR from "swr";
-import { useState } from "react";
+import { useMemo, useState } from "react";
 import { useForm, useWatch } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { z } from "zod";
@@ -12,7 +12,10 @@ import type { SetpointsJson } from "@/lib/services/alarm-setpoints";
 import { putSetpointsSchema } from "@/lib/validations/setpoint";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { applyApiErrors, errorReader, FormAlert, NumberField, SelectField, numberOrNull, textOf } from "@/components/ui/form-fields";
-import { flatErrors, payloadSchema } from "@/components/ui/form-schema";
+import { flatErrors, payloadSchema, quantityIssues } from "@/components/ui/form-schema";
+import { useFigures, useQuantityInput } from "@/components/ui/display-settings";
+import { QuantityField } from "@/components/ui/quantity-field";
+import type { QuantityInput } from "@/lib/units/quantity-input";
 
 const LABELS: Record<SetpointKey, string> = { hh: "HH", h: "H", l: "L", ll: "LL" };
 // Highest first, as the sounding strip shows them.
@@ -37,7 +40,9 @@ function modeOf(s: { enabled: boolean } | null): Mode {
   return s === null ? "off" : s.enabled ? "on" : "silent";
 }
 
-function initial(d: SetpointsJson, unit: "m" | "pct"): Values {
+// Levels, deadbands and the leak limit are typed in the person's length unit (m or ft; "98 in" is read
+// too) and sent in metres; a fill stays a percentage.
+function initial(d: SetpointsJson, unit: "m" | "pct", qi: QuantityInput): Values {
   const rows = Object.fromEntries(
     SETPOINT_KEYS.map((key) => {
       const s = d.setpoints[key];
@@ -46,8 +51,8 @@ function initial(d: SetpointsJson, unit: "m" | "pct"): Values {
         key,
         {
           mode: modeOf(s),
-          value: value === null ? "" : String(Number(value.toFixed(unit === "pct" ? 1 : 3))),
-          deadband_m: textOf(s?.deadband_m ?? Number(d.defaults.deadband_m.toFixed(3))),
+          value: value === null ? "" : unit === "pct" ? String(Number(value.toFixed(1))) : qi.text(value, "length"),
+          deadband_m: qi.text(s?.deadband_m ?? d.defaults.deadband_m, "length"),
           on_delay_s: textOf(s?.on_delay_s ?? d.defaults.on_delay_s),
           priority: s?.priority ?? d.defaults.priorities[key],
           latching: s?.latching ?? false,
@@ -59,25 +64,35 @@ function initial(d: SetpointsJson, unit: "m" | "pct"): Values {
   return {
     unit,
     setpoints: rows,
-    rate_of_change: { mode: modeOf(r), limit_m_per_h: textOf(r?.limit_m_per_h), priority: r?.priority ?? d.defaults.priorities.rate_of_change },
+    rate_of_change: { mode: modeOf(r), limit_m_per_h: qi.text(r?.limit_m_per_h, "length"), priority: r?.priority ?? d.defaults.priorities.rate_of_change },
   };
 }
 
-function payloadOf(v: Values) {
+function payloadOf(v: Values, qi: QuantityInput) {
   const setpoints = Object.fromEntries(
     SETPOINT_KEYS.filter((k) => v.setpoints[k].mode !== "off").map((k) => {
       const r = v.setpoints[k];
-      return [k, { value: numberOrNull(r.value), deadband_m: numberOrNull(r.deadband_m) ?? undefined, on_delay_s: numberOrNull(r.on_delay_s) ?? undefined, priority: r.priority, enabled: r.mode === "on", latching: r.latching }];
+      return [k, { value: v.unit === "m" ? qi.read(r.value, "length") : numberOrNull(r.value), deadband_m: qi.read(r.deadband_m, "length") ?? undefined, on_delay_s: numberOrNull(r.on_delay_s) ?? undefined, priority: r.priority, enabled: r.mode === "on", latching: r.latching }];
     }),
   );
   return {
     unit: v.unit,
     setpoints,
-    rate_of_change: v.rate_of_change.mode !== "off" ? { limit_m_per_h: numberOrNull(v.rate_of_change.limit_m_per_h), priority: v.rate_of_change.priority, enabled: v.rate_of_change.mode === "on" } : null,
+    rate_of_change: v.rate_of_change.mode !== "off" ? { limit_m_per_h: qi.read(v.rate_of_change.limit_m_per_h, "length"), priority: v.rate_of_change.priority, enabled: v.rate_of_change.mode === "on" } : null,
   };
 }
 
-const setpointFormSchema = payloadSchema(valuesSchema, payloadOf, putSetpointsSchema);
+// The schema reads through the form's own quantity input, which remembers the texts it wrote.
+function setpointFormSchema(qi: QuantityInput) {
+  return payloadSchema(valuesSchema, (v) => payloadOf(v, qi), putSetpointsSchema, (v, payload) => {
+    const boxes: Record<string, string> = { "rate_of_change.limit_m_per_h": v.rate_of_change.limit_m_per_h };
+    for (const k of SETPOINT_KEYS) {
+      if (v.unit === "m") boxes[`setpoints.${k}.value`] = v.setpoints[k].value;
+      boxes[`setpoints.${k}.deadband_m`] = v.setpoints[k].deadband_m;
+    }
+    return quantityIssues(qi, payload, boxes);
+  });
+}
 
 function ModeField({ id, label, hint, ...select }: { id: string; label: string; hint?: string } & React.SelectHTMLAttributes<HTMLSelectElement>) {
   return (
@@ -107,14 +122,16 @@ export function AlarmSetpointForm({ assetId, editable }: { assetId: string; edit
 }
 
 function SetpointFields({ data, editable, saved, setSaved, onSaved }: { data: SetpointsJson; editable: boolean; saved: boolean; setSaved: (v: boolean) => void; onSaved: (d: SetpointsJson) => void }) {
-  const form = useForm<Values, unknown, z.output<typeof setpointFormSchema>>({ resolver: zodResolver(setpointFormSchema), defaultValues: initial(data, "m") });
+  const qi = useQuantityInput();
+  const fig = useFigures();
+  const schema = useMemo(() => setpointFormSchema(qi), [qi]);
+  const form = useForm<Values, unknown, z.output<typeof schema>>({ resolver: zodResolver(schema), defaultValues: initial(data, "m", qi) });
   const { register, control, formState } = form;
   const [unit, rows, rocMode] = useWatch({ control, name: ["unit", "setpoints", "rate_of_change.mode"] });
   const errors = flatErrors(formState.errors);
   const busy = formState.isSubmitting;
   const { read, rest } = errorReader(errors);
-  const unitWord = unit === "m" ? "m" : "% fill";
-
+  
   const onSubmit = form.handleSubmit(async (body) => {
     setSaved(false);
     try {
@@ -128,15 +145,15 @@ function SetpointFields({ data, editable, saved, setSaved, onSaved }: { data: Se
   return (
     <form onSubmit={onSubmit} noValidate className="card space-y-4 p-4">
       <p className="text-sm text-muted">
-        Tank height <span className="figures">{data.tank_height_m.toFixed(3)} m</span>, capacity <span className="figures">{Math.round(data.capacity_l).toLocaleString("en-GB").replace(/,/g, " ")} L</span>.
+        Tank height <span className="figures">{fig.length(data.tank_height_m)}</span>, capacity <span className="figures">{fig.volume(data.capacity_l)}</span>.
         Levels are measured from the tank bottom; the order must be LL &lt; L &lt; H &lt; HH.
       </p>
       <fieldset className="flex gap-4 text-sm" disabled={!editable}>
         <legend className="label">Enter setpoints as</legend>
         {(["m", "pct"] as const).map((u) => (
           <label key={u} className="flex items-center gap-2">
-            <input type="radio" name="setpoint-unit" value={u} checked={unit === u} onChange={() => form.reset(initial(data, u))} />
-            {u === "m" ? "level (m)" : "fill (% of capacity)"}
+            <input type="radio" name="setpoint-unit" value={u} checked={unit === u} onChange={() => form.reset(initial(data, u, qi))} />
+            {u === "m" ? `level (${qi.symbolOf("length")})` : "fill (% of capacity)"}
           </label>
         ))}
       </fieldset>
@@ -150,8 +167,12 @@ function SetpointFields({ data, editable, saved, setSaved, onSaved }: { data: Se
             <div className="hidden sm:col-span-4 sm:block" />
             {r.mode !== "off" && (
               <>
-                <NumberField id={id("value")} label={LABELS[key]} unit={unitWord} {...register(`setpoints.${key}.value`)} error={read(`setpoints.${key}.value`)} />
-                <NumberField id={id("deadband")} label="Deadband" unit="m" {...register(`setpoints.${key}.deadband_m`)} error={read(`setpoints.${key}.deadband_m`)} />
+                {unit === "m" ? (
+                  <QuantityField id={id("value")} label={LABELS[key]} input={qi} quantity="length" {...register(`setpoints.${key}.value`)} error={read(`setpoints.${key}.value`)} />
+                ) : (
+                  <NumberField id={id("value")} label={LABELS[key]} unit="% fill" {...register(`setpoints.${key}.value`)} error={read(`setpoints.${key}.value`)} />
+                )}
+                <QuantityField id={id("deadband")} label="Deadband" input={qi} quantity="length" {...register(`setpoints.${key}.deadband_m`)} error={read(`setpoints.${key}.deadband_m`)} />
                 <NumberField id={id("delay")} label="On-delay" unit="s" {...register(`setpoints.${key}.on_delay_s`)} error={read(`setpoints.${key}.on_delay_s`)} />
                 <SelectField id={id("priority")} label="Priority" {...register(`setpoints.${key}.priority`)} error={read(`setpoints.${key}.priority`)}>
                   {ALARM_PRIORITIES.map((p) => <option key={p} value={p}>{p}</option>)}
@@ -170,7 +191,7 @@ function SetpointFields({ data, editable, saved, setSaved, onSaved }: { data: Se
         <div className="hidden sm:col-span-4 sm:block" />
         {rocMode !== "off" && (
           <>
-            <NumberField id="setpoint-roc-limit" label="Limit" unit="m/h" {...register("rate_of_change.limit_m_per_h")} error={read("rate_of_change.limit_m_per_h")} hint="Judged on the trend of the last hour (at least 30 min of readings)." className="sm:col-span-2" />
+            <NumberField id="setpoint-roc-limit" label="Limit" unit={`${qi.symbolOf("length")}/h`} {...register("rate_of_change.limit_m_per_h")} error={read("rate_of_change.limit_m_per_h")} hint="Judged on the trend of the last hour (at least 30 min of readings)." className="sm:col-span-2" />
             <SelectField id="setpoint-roc-priority" label="Priority" {...register("rate_of_change.priority")}>
               {ALARM_PRIORITIES.map((p) => <option key={p} value={p}>{p}</option>)}
             </SelectField>

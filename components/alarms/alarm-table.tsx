@@ -16,6 +16,7 @@ import { DataTableView } from "@/components/ui/data-table";
 import { useListParams } from "@/components/ui/list-params";
 import { ClearFilters } from "@/components/ui/clear-filters";
 import { AlarmStateLabel, alarmFigure, alarmWhere } from "@/components/alarms/alarm-badges";
+import { useFigures } from "@/components/ui/display-settings";
 import { PriorityBadge } from "@/components/ui/priority-badge";
 import { ALARM_STATE_WORDS } from "@/lib/alarms/vocabulary";
 import { SiteTime } from "@/components/ui/site-time";
@@ -98,6 +99,7 @@ export function AlarmTable({ role }: { role: Role }) {
   const [selection, setSelection] = useState<RowSelectionState>({});
   const [dialog, setDialog] = useState<{ mode: AlarmDialogMode; ids: string[]; title: string } | null>(null);
   const [note, setNote] = useState<string | null>(null);
+  const fig = useFigures();
   const mayAck = can(role, "alarm:acknowledge");
   const mayShelve = can(role, "alarm:shelve");
 
@@ -160,8 +162,8 @@ export function AlarmTable({ role }: { role: Role }) {
         enableSorting: false,
         cell: ({ row }) => (
           <span className="figures whitespace-nowrap">
-            {alarmFigure(row.original.value, row.original.unit, row.original.kind)}
-            {row.original.setpoint !== null && <span className="text-muted"> / {alarmFigure(row.original.setpoint, row.original.unit, row.original.kind)}</span>}
+            {alarmFigure(fig, row.original.value, row.original.unit, row.original.kind)}
+            {row.original.setpoint !== null && <span className="text-muted"> / {alarmFigure(fig, row.original.setpoint, row.original.unit, row.original.kind)}</span>}
           </span>
         ),
       },
@@ -218,7 +220,7 @@ export function AlarmTable({ role }: { role: Role }) {
       });
     }
     return cols;
-  }, [mayAck, mayShelve]);
+  }, [mayAck, mayShelve, fig]);
 
   // TanStack Table keeps its own state and hands out fresh functions each render; the compiler skips this component, as intended.
   // eslint-disable-next-line react-hooks/incompatible-library

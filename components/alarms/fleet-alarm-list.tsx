@@ -4,7 +4,8 @@ import Link from "next/link";
 import { useState } from "react";
 import type { AlarmJson } from "@/lib/services/alarms";
 import { fetchJson } from "@/lib/fetcher";
-import { formatMetres } from "@/components/fleet/fleet-figures";
+import { useFigures } from "@/components/ui/display-settings";
+import type { Figures } from "@/lib/format/figures";
 import { sinceText } from "@/components/fleet/fleet-status";
 import { PriorityBadge } from "@/components/ui/priority-badge";
 import { SiteTime } from "@/components/ui/site-time";
@@ -15,9 +16,9 @@ import { alarmStateWord } from "@/lib/alarms/vocabulary";
 // actions the role may take (acknowledge here; shelving, with its reason and expiry, on the alarms page).
 
 // A health alarm's value has no unit (a count, a duration, a spread): its label and state say enough.
-function valueText(a: AlarmJson): string {
+function valueText(a: AlarmJson, fig: Figures): string {
   if (!a.unit) return "";
-  const fmt = (v: number) => (a.unit === "m" ? formatMetres(v) : `${Number(v.toPrecision(4))}\u00a0${a.unit}`);
+  const fmt = (v: number) => (a.unit === "m" ? fig.length(v) : `${Number(v.toPrecision(4))}\u00a0${a.unit}`);
   if (a.value == null) return "—";
   if (a.setpoint == null) return fmt(a.value);
   return `${fmt(a.value)} against ${fmt(a.setpoint)}`;
@@ -52,6 +53,7 @@ export function FleetAlarmList({
   alarmsHref: string;
 }) {
   const [busy, setBusy] = useState<string | null>(null);
+  const fig = useFigures();
   const [problem, setProblem] = useState<string | null>(null);
 
   async function acknowledge(id: string) {
@@ -95,7 +97,7 @@ export function FleetAlarmList({
               </span>
             </span>
             <span className="flex flex-wrap gap-x-3 md:shrink-0 md:flex-nowrap md:gap-x-4">
-              {valueText(a) && <span className="figures whitespace-nowrap">{valueText(a)}</span>}
+              {valueText(a, fig) && <span className="figures whitespace-nowrap">{valueText(a, fig)}</span>}
               <span className="whitespace-nowrap">{alarmStateWord(a.state)}</span>
               <span className="figures whitespace-nowrap text-muted">
                 for {sinceText(a.activated_at)}{a.activated_at && <> · since <SiteTime at={a.activated_at} zone={a.site.time_zone} show="time" /></>}

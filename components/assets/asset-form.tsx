@@ -13,7 +13,9 @@ import { ASSET_KINDS, assetConsistencyIssues, createAssetSchema, geometrySchema,
 import type { AssetJson, AssetWarning } from "@/lib/services/assets";
 import type { SiteJson } from "@/lib/services/sites";
 import { Loading, LoadError } from "@/components/ui/data-state";
-import { formatLitres, formatMetres } from "@/components/fleet/fleet-figures";
+import { useFigures, useQuantityInput } from "@/components/ui/display-settings";
+import { QuantityField } from "@/components/ui/quantity-field";
+import type { QuantityInput } from "@/lib/units/quantity-input";
 import {
   applyApiErrors,
   useSelectsFollowOptions,
@@ -29,7 +31,7 @@ import {
   TextAreaField,
   textOf,
 } from "@/components/ui/form-fields";
-import { flatErrors, payloadSchema, textBoxes, type FormIssue } from "@/components/ui/form-schema";
+import { flatErrors, payloadSchema, quantityIssues, textBoxes, type FormIssue } from "@/components/ui/form-schema";
 
 const SHAPES = { vertical_cylinder: "Vertical cylinder", horizontal_cylinder: "Horizontal cylinder", rectangular: "Rectangular", strapping: "Strapping table" } as const;
 
@@ -40,14 +42,14 @@ type GeometryValues = Record<(typeof GEOMETRY_FIELDS)[number], string>;
 type Values = Record<(typeof ASSET_FIELDS)[number], string> & { geometry: GeometryValues };
 const valuesSchema = textBoxes(ASSET_FIELDS).extend({ geometry: textBoxes(GEOMETRY_FIELDS) });
 
-function initialValues(asset: AssetJson | undefined, siteId: string): Values {
+function initialValues(asset: AssetJson | undefined, siteId: string, qi: QuantityInput): Values {
   const g = (asset?.geometry ?? {}) as Partial<Record<string, unknown>> & { points?: StrappingPoint[] };
-  const t = (key: string) => textOf(g[key] as number | undefined);
+  const t = (key: string) => qi.text(g[key] as number | undefined, "length");
   return {
     site_id: asset?.site_id ?? siteId,
     kind: asset?.kind ?? "tank",
     name: asset?.name ?? "",
-    mount_height_m: textOf(asset?.mount_height_m),
+    mount_height_m: qi.text(asset?.mount_height_m, "length"),
     safe_fill_pct: textOf(asset?.safe_fill_pct),
     reorder_pct: textOf(asset?.reorder_pct),
     geometry: {
@@ -62,8 +64,8 @@ function initialValues(asset: AssetJson | undefined, siteId: string): Values {
       head_depth_m: t("head_depth_m"),
       points: (g.points ?? []).map((p) => `${p.level_m},${p.volume_l}`).join("\n"),
     },
-    floor_distance_m: textOf(asset?.floor_distance_m),
-    occupied_below_m: textOf(asset?.occupied_below_m),
+    floor_distance_m: qi.text(asset?.floor_distance_m, "length"),
+    occupied_below_m: qi.text(asset?.occupied_below_m, "length"),
     bay_level: asset?.bay_level ?? "",
     bay_row: textOf(asset?.bay_row),
     bay_col: textOf(asset?.bay_col),
@@ -87,8 +89,9 @@ function parseStrapping(text: string): { points: StrappingPoint[]; error?: strin
   return { points };
 }
 
-function geometryOf(v: GeometryValues): unknown {
-  const n = (key: keyof GeometryValues) => numberOrNull(v[key]);
+// Every number of a geometry is a length, typed in the person's unit and read back in metres.
+function geometryOf(v: GeometryValues, qi: QuantityInput): unknown {
+  const n = (key: keyof GeometryValues) => qi.read(v[key], "length");
   switch (v.shape) {
     case "vertical_cylinder":
       return { shape: v.shape, diameter_m: n("diameter_m"), height_m: n("height_m"), bottom: v.bottom, bottom_depth_m: v.bottom === "flat" ? 0 : (n("bottom_depth_m") ?? undefined) };
@@ -115,19 +118,26 @@ function capacityFormula(g: TankGeometry): string {
   }
 }
 
-function payloadOf(v: Values, creating: boolean): Record<string, unknown> {
+function payloadOf(v: Values, creating: boolean, qi: QuantityInput): Record<string, unknown> {
   const n = (key: keyof Values) => numberOrNull(v[key] as string);
+  const len = (key: keyof Values) => qi.read(v[key] as string, "length");
   const fixed = creating ? { site_id: v.site_id, kind: v.kind } : {};
-  if (v.kind === "tank") return { ...fixed, name: v.name, mount_height_m: n("mount_height_m"), safe_fill_pct: n("safe_fill_pct"), reorder_pct: n("reorder_pct"), geometry: geometryOf(v.geometry) };
+  if (v.kind === "tank") return { ...fixed, name: v.name, mount_height_m: len("mount_height_m"), safe_fill_pct: n("safe_fill_pct"), reorder_pct: n("reorder_pct"), geometry: geometryOf(v.geometry, qi) };
   if (v.kind === "bay") {
-    return { ...fixed, name: v.name, floor_distance_m: n("floor_distance_m"), occupied_below_m: n("occupied_below_m"), bay_level: v.bay_level.trim() || null, bay_row: n("bay_row"), bay_col: n("bay_col") };
+    return { ...fixed, name: v.name, floor_distance_m: len("floor_distance_m"), occupied_below_m: len("occupied_below_m"), bay_level: v.bay_level.trim() || null, bay_row: n("bay_row"), bay_col: n("bay_col") };
   }
   return { ...fixed, name: v.name };
 }
 
-/** What the API's schema cannot say about the form: an unchosen site, an unreadable strapping row, and on an edit the rules across fields (the patch schema checks fields alone). */
-function formIssues(v: Values, payload: unknown, creating: boolean): FormIssue[] {
-  const issues: FormIssue[] = [];
+/** What the API's schema cannot say about the form: a length that is no length (in the person's terms), an unchosen site, an unreadable strapping row, and on an edit the rules across fields (the patch schema checks fields alone). */
+function formIssues(v: Values, payload: unknown, creating: boolean, qi: QuantityInput): FormIssue[] {
+  const lengths = ["diameter_m", "height_m", "length_m", "width_m", "bottom_depth_m", "head_depth_m"] as const;
+  const issues: FormIssue[] = quantityIssues(qi, payload, {
+    mount_height_m: v.mount_height_m,
+    floor_distance_m: v.floor_distance_m,
+    occupied_below_m: v.occupied_below_m,
+    ...Object.fromEntries(lengths.map((key) => [`geometry.${key}`, v.geometry[key]])),
+  });
   if (creating && !v.site_id) issues.push({ path: "site_id", message: "Choose the site." });
   const strappingError = v.kind === "tank" && v.geometry.shape === "strapping" ? parseStrapping(v.geometry.points).error : undefined;
   if (strappingError) issues.push({ path: "geometry.points", message: strappingError });
@@ -138,9 +148,10 @@ function formIssues(v: Values, payload: unknown, creating: boolean): FormIssue[]
   return issues;
 }
 
-function LiveCapacity({ control }: { control: Control<Values, unknown, unknown> }) {
+function LiveCapacity({ control, qi }: { control: Control<Values, unknown, unknown>; qi: QuantityInput }) {
+  const fig = useFigures();
   const [geometry, safeFillText] = useWatch({ control, name: ["geometry", "safe_fill_pct"] });
-  const parsed = geometrySchema.safeParse(geometryOf(geometry));
+  const parsed = geometrySchema.safeParse(geometryOf(geometry, qi));
   const safeFill = numberOrNull(safeFillText);
   return (
     <div className="rounded border border-rule bg-paper p-3 sm:col-span-2" aria-live="polite" data-testid="live-capacity">
@@ -148,12 +159,12 @@ function LiveCapacity({ control }: { control: Control<Values, unknown, unknown> 
         <>
           <p>
             <span className="font-bold">Capacity </span>
-            <span className="figures text-lg">{formatLitres(tankCapacity(parsed.data))}</span>
+            <span className="figures text-lg">{fig.volume(tankCapacity(parsed.data))}</span>
             <span className="text-sm text-muted"> — computed: {capacityFormula(parsed.data)}</span>
           </p>
           <p className="text-sm">
-            Total height <span className="figures">{formatMetres(tankHeight(parsed.data))}</span>
-            {safeFill != null && Number.isFinite(safeFill) && <> · safe fill {safeFill} % is <span className="figures">{formatLitres((tankCapacity(parsed.data) * safeFill) / 100)}</span></>}
+            Total height <span className="figures">{fig.length(tankHeight(parsed.data))}</span>
+            {safeFill != null && Number.isFinite(safeFill) && <> · safe fill {safeFill} % is <span className="figures">{fig.volume((tankCapacity(parsed.data) * safeFill) / 100)}</span></>}
           </p>
         </>
       ) : (
@@ -170,17 +181,18 @@ export function AssetForm({ asset, siteId = "" }: { asset?: AssetJson; siteId?: 
   const creating = !asset;
   // An asset keeps its site and kind: on an edit they come from the asset, whatever the disabled boxes hold.
   const fixed = useMemo(() => (asset ? { site_id: asset.site_id, kind: asset.kind } : {}), [asset]);
+  const qi = useQuantityInput();
   const schema = useMemo(
     () =>
       payloadSchema(
         valuesSchema,
-        (v) => payloadOf({ ...v, ...fixed }, creating),
+        (v) => payloadOf({ ...v, ...fixed }, creating, qi),
         creating ? createAssetSchema : updateAssetSchema,
-        (v, payload) => formIssues({ ...v, ...fixed }, payload, creating),
+        (v, payload) => formIssues({ ...v, ...fixed }, payload, creating, qi),
       ),
-    [creating, fixed],
+    [creating, fixed, qi],
   );
-  const form = useForm<Values, unknown, z.output<typeof schema>>({ resolver: zodResolver(schema), defaultValues: initialValues(asset, siteId) });
+  const form = useForm<Values, unknown, z.output<typeof schema>>({ resolver: zodResolver(schema), defaultValues: initialValues(asset, siteId, qi) });
   const { register, handleSubmit, control, formState } = form;
   const [chosenKind, shape, bottom, heads] = useWatch({ control, name: ["kind", "geometry.shape", "geometry.bottom", "geometry.heads"] });
   const kind = asset?.kind ?? chosenKind;
@@ -195,8 +207,11 @@ export function AssetForm({ asset, siteId = "" }: { asset?: AssetJson; siteId?: 
   const num = (key: (typeof ASSET_FIELDS)[number], label: string, unit: string, hint?: string) => (
     <NumberField id={id(key)} label={label} unit={unit} {...register(key)} error={read(key)} hint={hint} />
   );
+  const len = (key: (typeof ASSET_FIELDS)[number], label: string, hint?: string) => (
+    <QuantityField id={id(key)} label={label} input={qi} quantity="length" {...register(key)} error={read(key)} hint={hint} />
+  );
   const g = (key: keyof GeometryValues, label: string, hint?: string) => (
-    <NumberField id={id(key)} label={label} unit="m" {...register(`geometry.${key}`)} error={read(`geometry.${key}`)} hint={hint} />
+    <QuantityField id={id(key)} label={label} input={qi} quantity="length" {...register(`geometry.${key}`)} error={read(`geometry.${key}`)} hint={hint} />
   );
 
   const onSubmit = handleSubmit(async (payload) => {
@@ -280,8 +295,8 @@ export function AssetForm({ asset, siteId = "" }: { asset?: AssetJson; siteId?: 
               className="sm:col-span-2"
             />
           )}
-          <LiveCapacity control={control} />
-          {num("mount_height_m", "Sensor mounting height", "m", "The sensor face above the tank bottom.")}
+          <LiveCapacity control={control} qi={qi} />
+          {len("mount_height_m", "Sensor mounting height", "The sensor face above the tank bottom.")}
           <div className="hidden sm:block" />
           {num("safe_fill_pct", "Safe fill", "%")}
           {num("reorder_pct", "Reorder level", "%")}
@@ -296,8 +311,8 @@ export function AssetForm({ asset, siteId = "" }: { asset?: AssetJson; siteId?: 
       {kind === "bay" && (
         <fieldset className="grid gap-4 sm:col-span-2 sm:grid-cols-2">
           <legend className="mb-2 text-lg font-bold">Bay</legend>
-          {num("floor_distance_m", "Floor distance", "m", "From the sensor face to the empty floor.")}
-          {num("occupied_below_m", "Occupied below", "m", "A distance nearer than this counts as a car.")}
+          {len("floor_distance_m", "Floor distance", "From the sensor face to the empty floor.")}
+          {len("occupied_below_m", "Occupied below", "A distance nearer than this counts as a car.")}
           <InputField id={id("bay_level")} label="Level name" {...register("bay_level")} error={read("bay_level")} hint="Such as P1 or Roof." className="sm:col-span-2" />
           {num("bay_row", "Row", "")}
           {num("bay_col", "Column", "")}

@@ -3,7 +3,8 @@
 import { createColumnHelper } from "@tanstack/react-table";
 import type { AssetOverviewJson } from "@/lib/read-models/overview-asset";
 import { isAlarmKind, isLevelAlarmKind } from "@/lib/alarms/engine";
-import { formatDuration, formatMetres } from "@/components/fleet/fleet-figures";
+import { formatDuration } from "@/components/fleet/fleet-figures";
+import { useFigures } from "@/components/ui/display-settings";
 import { FlagTag } from "@/components/fleet/fleet-status";
 import { PriorityBadge } from "@/components/ui/priority-badge";
 import { alarmStateWord } from "@/lib/alarms/vocabulary";
@@ -30,6 +31,7 @@ function changeOf(e: AlarmEvent): string {
 }
 
 export function AlarmHistory({ events, zone }: { events: AlarmEvent[]; zone: string }) {
+  const fig = useFigures();
   const columns = [
     alarmColumn.accessor((e) => instant(e.at), { id: "when", header: "When", cell: (c) => <SiteTime at={c.row.original.at} zone={zone} />, meta: TIME_CELL }),
     alarmColumn.accessor("alarm_label", { header: "Alarm", cell: (c) => <>{c.row.original.priority && <PriorityBadge priority={c.row.original.priority} />} {c.getValue()}</> }),
@@ -44,8 +46,8 @@ export function AlarmHistory({ events, zone }: { events: AlarmEvent[]; zone: str
       header: "Value",
       cell: ({ row: { original: e } }) => (
         <>
-          {e.value != null && isLevel(e.alarm_kind) ? formatMetres(e.value) : "—"}
-          {e.setpoint != null && isLevel(e.alarm_kind) && <span className="text-muted"> / {formatMetres(e.setpoint)}</span>}
+          {e.value != null && isLevel(e.alarm_kind) ? fig.length(e.value) : "—"}
+          {e.setpoint != null && isLevel(e.alarm_kind) && <span className="text-muted"> / {fig.length(e.setpoint)}</span>}
         </>
       ),
       meta: { cellClassName: "figures" },
@@ -77,10 +79,11 @@ export function FlagHistory({ flags, now, zone }: { flags: Flag[]; now: number; 
 const dipColumn = createColumnHelper<Dip>();
 
 export function DipList({ dips, zone }: { dips: Dip[]; zone: string }) {
+  const fig = useFigures();
   const columns = [
     dipColumn.accessor((d) => instant(d.at), { id: "when", header: "When", cell: (c) => <SiteTime at={c.row.original.at} zone={zone} />, meta: TIME_CELL }),
-    dipColumn.accessor("level_m", { header: "Dipped level", cell: (c) => formatMetres(c.getValue()), meta: { cellClassName: "figures" } }),
-    dipColumn.accessor((d) => d.measured_level_m ?? undefined, { id: "sensor", header: "Sensor then", cell: (c) => formatMetres(c.getValue()), meta: { cellClassName: "figures" } }),
+    dipColumn.accessor("level_m", { header: "Dipped level", cell: (c) => fig.length(c.getValue()), meta: { cellClassName: "figures" } }),
+    dipColumn.accessor((d) => d.measured_level_m ?? undefined, { id: "sensor", header: "Sensor then", cell: (c) => fig.length(c.getValue()), meta: { cellClassName: "figures" } }),
     dipColumn.accessor((d) => d.residual_m ?? undefined, {
       id: "residual",
       header: "Sensor − dip",
@@ -95,9 +98,10 @@ export function DipList({ dips, zone }: { dips: Dip[]; zone: string }) {
 const calibrationColumn = createColumnHelper<CalibrationChange>();
 
 export function CalibrationList({ changes, zone }: { changes: CalibrationChange[]; zone: string }) {
+  const fig = useFigures();
   const columns = [
     calibrationColumn.accessor((c) => instant(c.at), { id: "when", header: "When", cell: (c) => <SiteTime at={c.row.original.at} zone={zone} />, meta: TIME_CELL }),
-    calibrationColumn.display({ id: "offset", header: "Offset", cell: ({ row: { original: c } }) => `${formatMetres(c.before_offset_m)} → ${formatMetres(c.after_offset_m)}`, meta: { cellClassName: "figures" } }),
+    calibrationColumn.display({ id: "offset", header: "Offset", cell: ({ row: { original: c } }) => `${fig.length(c.before_offset_m)} → ${fig.length(c.after_offset_m)}`, meta: { cellClassName: "figures" } }),
     calibrationColumn.display({ id: "scale", header: "Scale", cell: ({ row: { original: c } }) => `${c.before_scale.toFixed(5)} → ${c.after_scale.toFixed(5)}`, meta: { cellClassName: "figures" } }),
     calibrationColumn.accessor("rms_after_m", { header: "Residual after (RMS)", cell: (c) => `${(c.getValue() * 1000).toFixed(1)}\u00a0mm`, meta: { cellClassName: "figures" } }),
     calibrationColumn.accessor("by_label", { header: "By", cell: (c) => <>{c.getValue()}{c.row.original.note && <span className="block text-xs text-muted">{c.row.original.note}</span>}</> }),

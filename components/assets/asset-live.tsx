@@ -11,7 +11,8 @@ import { AlarmHistory, CalibrationList, DipList, FlagHistory } from "@/component
 import { periodFromParams, RangePicker, windowOf, type Period } from "@/components/assets/asset-live-range";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { FleetAlarmList } from "@/components/alarms/fleet-alarm-list";
-import { formatDuration, formatLitres, formatMetres, formatPercent } from "@/components/fleet/fleet-figures";
+import { formatDuration } from "@/components/fleet/fleet-figures";
+import { useFigures } from "@/components/ui/display-settings";
 import { LIVE_REFRESH_MS } from "@/components/fleet/fleet-overview";
 import { FlagTag, OverdueAge, TankCaution, type Priority } from "@/components/fleet/fleet-status";
 import { LevelTrend } from "@/components/assets/level-trend";
@@ -67,6 +68,7 @@ async function fetchSeries(assetId: string, channelId: string, period: Period, c
 }
 
 function NowPanel({ o, now }: { o: Overview; now: number }) {
+  const fig = useFigures();
   const s = o.state;
   const latest = s?.latest ?? null;
   const expected = s?.channel?.expected_interval_s;
@@ -83,14 +85,14 @@ function NowPanel({ o, now }: { o: Overview; now: number }) {
         />
         <dl className="grid grid-cols-[auto_1fr] content-start gap-x-4 gap-y-1 text-sm">
           <dt className="text-muted">Level</dt>
-          <dd className="figures" data-testid="asset-level">{formatMetres(latest?.level_m, latest?.uncertainty_m)}<OverdueAge at={latest?.at} expectedIntervalS={expected} now={now} /></dd>
+          <dd className="figures" data-testid="asset-level">{fig.length(latest?.level_m, latest?.uncertainty_m)}<OverdueAge at={latest?.at} expectedIntervalS={expected} now={now} /></dd>
           <dt className="text-muted">Fill</dt>
-          <dd className="figures">{formatPercent(latest?.fill_pct)}</dd>
+          <dd className="figures">{fig.percent(latest?.fill_pct)}</dd>
           <dt className="text-muted">Volume</dt>
-          <dd className="figures">{formatLitres(latest?.volume_l)}{o.asset.capacity_l != null && <span className="text-muted"> of {formatLitres(o.asset.capacity_l)}</span>}</dd>
+          <dd className="figures">{fig.volume(latest?.volume_l)}{o.asset.capacity_l != null && <span className="text-muted"> of {fig.volume(o.asset.capacity_l)}</span>}</dd>
           <dt className="text-muted">Ullage to safe fill</dt>
           <dd className="figures">
-            {latest?.volume_l != null && o.asset.capacity_l != null && o.asset.safe_fill_pct != null ? formatLitres(Math.max(0, (o.asset.capacity_l * o.asset.safe_fill_pct) / 100 - latest.volume_l)) : "—"}
+            {latest?.volume_l != null && o.asset.capacity_l != null && o.asset.safe_fill_pct != null ? fig.volume(Math.max(0, (o.asset.capacity_l * o.asset.safe_fill_pct) / 100 - latest.volume_l)) : "—"}
           </dd>
           <dt className="text-muted">{s?.plan ? PLAN_LABELS[s.plan.purpose] : "Plan"}</dt>
           <dd><TankPlanVerdict plan={s?.plan ?? null} zone={o.asset.site_time_zone} detail /></dd>
@@ -111,11 +113,11 @@ function NowPanel({ o, now }: { o: Overview; now: number }) {
         </>
       )}
       <dt className="text-muted">Distance</dt>
-      <dd className="figures">{formatMetres(latest?.distance_m, latest?.uncertainty_m)}<OverdueAge at={latest?.at} expectedIntervalS={expected} now={now} /></dd>
+      <dd className="figures">{fig.length(latest?.distance_m, latest?.uncertainty_m)}<OverdueAge at={latest?.at} expectedIntervalS={expected} now={now} /></dd>
       {o.asset.kind === "bay" && (
         <>
           <dt className="text-muted">Floor / occupied below</dt>
-          <dd className="figures">{formatMetres(o.asset.floor_distance_m)} / {formatMetres(o.asset.occupied_below_m)}</dd>
+          <dd className="figures">{fig.length(o.asset.floor_distance_m)} / {fig.length(o.asset.occupied_below_m)}</dd>
         </>
       )}
     </dl>
@@ -128,6 +130,7 @@ function Trend({ o, period }: { o: Overview; period: Period }) {
   const compensated = channel ? channel.device_profile === "echo" || channel.device_profile === "capture" : false;
   const key = channel ? ["asset-series", o.asset.id, channel.id, JSON.stringify(period)] : null;
   const time = useTimeDisplay(o.asset.site_time_zone);
+  const fig = useFigures();
   const series = useSWR(key, () => fetchSeries(o.asset.id, channel.id, period, compensated), { refreshInterval: period.kind === "relative" ? SERIES_REFRESH_MS : 0, keepPreviousData: true });
   if (!channel) return <p className="text-sm text-muted">No channel measures this asset yet; a device must be assigned to it first.</p>;
   if (series.isLoading && !series.data) return <Loading label="Loading the trend…" />;
@@ -144,11 +147,11 @@ function Trend({ o, period }: { o: Overview; period: Period }) {
   const marks = {
     setpoints: isTank ? o.setpoints.filter((s) => s.enabled).map((s) => ({ key: s.key, value_m: s.value_m })) : [],
     forecast: period.kind === "relative" ? forecast : [],
-    dips: o.dips.map((d) => ({ atMs: Date.parse(d.at), levelM: d.level_m, label: `Dip ${formatMetres(d.level_m)}` })),
+    dips: o.dips.map((d) => ({ atMs: Date.parse(d.at), levelM: d.level_m, label: `Dip ${fig.length(d.level_m)}` })),
     calibrations: o.calibrations.map((c) => ({ atMs: Date.parse(c.at), label: "Calibration" })),
   };
   const n = trend.compensated.filter(([, v]) => v != null).length;
-  const description = `${isTank ? "Level" : "Distance"} of ${o.asset.name} from ${formatDateTime(series.data.fromMs, time)} to ${formatDateTime(series.data.toMs, time)}, ${n} points (${series.data.source})${marks.setpoints.length ? `; setpoints ${marks.setpoints.map((s) => `${s.key.toUpperCase()} ${formatMetres(s.value_m)}`).join(", ")}` : ""}${marks.dips.length ? `; ${marks.dips.length} manual dips` : ""}${marks.calibrations.length ? `; ${marks.calibrations.length} calibration changes` : ""}.`;
+  const description = `${isTank ? "Level" : "Distance"} of ${o.asset.name} from ${formatDateTime(series.data.fromMs, time)} to ${formatDateTime(series.data.toMs, time)}, ${n} points (${series.data.source})${marks.setpoints.length ? `; setpoints ${marks.setpoints.map((s) => `${s.key.toUpperCase()} ${fig.length(s.value_m)}`).join(", ")}` : ""}${marks.dips.length ? `; ${marks.dips.length} manual dips` : ""}${marks.calibrations.length ? `; ${marks.calibrations.length} calibration changes` : ""}.`;
   return (
     <>
       {n === 0 ? (

@@ -8,7 +8,8 @@ import { swrFetcher } from "@/lib/fetcher";
 import { ASSET_KINDS, assetListQuerySchema } from "@/lib/validations/asset";
 import type { AssetJson } from "@/lib/services/assets";
 import type { SiteJson } from "@/lib/services/sites";
-import { formatLitres, formatMetres, formatPercent } from "@/components/fleet/fleet-figures";
+import { useFigures } from "@/components/ui/display-settings";
+import type { Figures } from "@/lib/format/figures";
 import { DataTable } from "@/components/ui/data-table";
 import { useListParams } from "@/components/ui/list-params";
 import { ClearFilters } from "@/components/ui/clear-filters";
@@ -16,11 +17,11 @@ import { ClearFilters } from "@/components/ui/clear-filters";
 const FILTERS = ["site_id", "kind"] as const;
 const column = createColumnHelper<AssetJson>();
 
-function describeAsset(a: AssetJson): string {
-  if (a.kind === "tank") return [a.geometry?.shape.replace("_", " "), a.mount_height_m != null && `sensor at ${formatMetres(a.mount_height_m)}`].filter(Boolean).join(", ");
+function describeAsset(a: AssetJson, fig: Figures): string {
+  if (a.kind === "tank") return [a.geometry?.shape.replace("_", " "), a.mount_height_m != null && `sensor at ${fig.length(a.mount_height_m)}`].filter(Boolean).join(", ");
   if (a.kind === "bay") {
     const place = [a.bay_level, a.bay_row != null && `row ${a.bay_row}`, a.bay_col != null && `column ${a.bay_col}`].filter(Boolean).join(" ");
-    return `floor ${formatMetres(a.floor_distance_m)}, occupied below ${formatMetres(a.occupied_below_m)}${place ? `; ${place}` : ""}`;
+    return `floor ${fig.length(a.floor_distance_m)}, occupied below ${fig.length(a.occupied_below_m)}${place ? `; ${place}` : ""}`;
   }
   return "distance point";
 }
@@ -35,15 +36,16 @@ export function AssetTable({ role }: { role: Role }) {
   const { data, error, isLoading, mutate } = useSWR<{ items: AssetJson[] }>(`/api/assets${query ? `?${query}` : ""}`, swrFetcher);
   const siteName = (id: string) => sites.data?.items.find((s) => s.id === id)?.name ?? "…";
   const manage = can(role, "asset:manage");
+  const fig = useFigures();
 
   const columns = [
     column.accessor("name", { header: "Name", cell: (c) => <Link href={`/assets/${c.row.original.id}`} className="font-bold underline">{c.getValue()}</Link> }),
     column.accessor("kind", { header: "Kind" }),
     column.accessor((a) => siteName(a.site_id), { id: "site", header: "Site" }),
-    column.accessor("capacity_l", { header: "Capacity", cell: (c) => formatLitres(c.getValue()), meta: { cellClassName: "figures" } }),
-    column.accessor("tank_height_m", { header: "Height", cell: (c) => formatMetres(c.getValue()), meta: { cellClassName: "figures" } }),
-    column.accessor("safe_fill_pct", { header: "Safe fill", cell: (c) => formatPercent(c.getValue()), meta: { cellClassName: "figures" } }),
-    column.display({ id: "details", header: "Details", cell: (c) => describeAsset(c.row.original), meta: { cellClassName: "text-muted" } }),
+    column.accessor("capacity_l", { header: "Capacity", cell: (c) => fig.volume(c.getValue()), meta: { cellClassName: "figures" } }),
+    column.accessor("tank_height_m", { header: "Height", cell: (c) => fig.length(c.getValue()), meta: { cellClassName: "figures" } }),
+    column.accessor("safe_fill_pct", { header: "Safe fill", cell: (c) => fig.percent(c.getValue()), meta: { cellClassName: "figures" } }),
+    column.display({ id: "details", header: "Details", cell: (c) => describeAsset(c.row.original, fig), meta: { cellClassName: "text-muted" } }),
     ...(manage
       ? [column.display({ id: "actions", header: () => <span className="sr-only">Actions</span>, cell: (c) => <Link className="btn-quiet" href={`/assets/${c.row.original.id}/edit`} aria-label={`Edit ${c.row.original.name}`}>Edit</Link>, meta: { cellClassName: "text-right" } })]
       : []),

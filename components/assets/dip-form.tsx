@@ -6,8 +6,11 @@ import { zodResolver } from "@hookform/resolvers/zod";
 import { z } from "zod";
 import { fetchJson } from "@/lib/fetcher";
 import { recordDipSchema, type RecordDipInput } from "@/lib/validations/dip";
-import { applyApiErrors, InputField, NumberField, TextAreaField } from "@/components/ui/form-fields";
-import { parseDecimal } from "@/components/ui/decimal";
+import { applyApiErrors, InputField, TextAreaField } from "@/components/ui/form-fields";
+import { useFigures, useQuantityInput } from "@/components/ui/display-settings";
+import { QuantityField } from "@/components/ui/quantity-field";
+import type { Figures } from "@/lib/format/figures";
+import type { QuantityInput } from "@/lib/units/quantity-input";
 import { dipLevelQuestion } from "@/lib/input-checks/questions";
 
 /** The moment now as a datetime-local value in the browser's zone (YYYY-MM-DDTHH:mm). */
@@ -27,18 +30,26 @@ export function DipCaution() {
   );
 }
 
-/** The dip form's boxes read through the API's own schema: the level with the user's decimal separator, the local time as an instant. */
-function dipFormSchema(maxLevelM: number | null) {
+/** The dip form's boxes read through the API's own schema: the level in the user's unit and decimal separator, the local time as an instant. */
+function dipFormSchema(maxLevelM: number | null, qi: QuantityInput, fig: Figures) {
   return z
-    .object({ level: z.string(), at: z.string(), note: z.string() })
+    .object({
+      // What is not a length says why in the person's terms ("8 ft 3.5 in"), before the API's schema sees NaN.
+      level: z.string().superRefine((text, ctx) => {
+        const problem = qi.problem(text, "length");
+        if (problem) ctx.addIssue({ code: "custom", message: problem });
+      }),
+      at: z.string(),
+      note: z.string(),
+    })
     .transform((v): z.input<typeof recordDipSchema> => ({
-      level_m: v.level.trim() === "" ? Number.NaN : parseDecimal(v.level),
+      level_m: qi.read(v.level, "length") ?? Number.NaN,
       at: Number.isNaN(new Date(v.at).getTime()) ? v.at : new Date(v.at).toISOString(),
       note: v.note.trim() || undefined,
     }))
     .pipe(recordDipSchema)
     .superRefine((d, ctx) => {
-      const question = dipLevelQuestion(d.level_m, maxLevelM);
+      const question = dipLevelQuestion(d.level_m, maxLevelM, (m) => fig.length(m));
       if (question) ctx.addIssue({ code: "custom", path: ["level"], message: question.message });
     });
 }
@@ -46,7 +57,9 @@ function dipFormSchema(maxLevelM: number | null) {
 type DipFormValues = { level: string; at: string; note: string };
 
 export function DipForm({ assetId, maxLevelM, onRecorded }: { assetId: string; maxLevelM: number | null; onRecorded: () => void }) {
-  const schema = useMemo(() => dipFormSchema(maxLevelM), [maxLevelM]);
+  const qi = useQuantityInput();
+  const fig = useFigures();
+  const schema = useMemo(() => dipFormSchema(maxLevelM, qi, fig), [maxLevelM, qi, fig]);
   const form = useForm<DipFormValues, unknown, RecordDipInput>({ resolver: zodResolver(schema), defaultValues: { level: "", at: localNow(), note: "" } });
   const { register, handleSubmit, formState: { errors, isSubmitting } } = form;
   const [saved, setSaved] = useState<string | null>(null);
@@ -58,7 +71,7 @@ export function DipForm({ assetId, maxLevelM, onRecorded }: { assetId: string; m
     try {
       await fetchJson(`/api/assets/${assetId}/dips`, { method: "POST", body: JSON.stringify(dip) });
       form.reset({ level: "", at: localNow(), note: "" });
-      setSaved(`Recorded a dip of ${dip.level_m.toFixed(3)} m.`);
+      setSaved(`Recorded a dip of ${fig.length(dip.level_m)}.`);
       onRecorded();
     } catch (err) {
       applyApiErrors(form, err);
@@ -70,13 +83,14 @@ export function DipForm({ assetId, maxLevelM, onRecorded }: { assetId: string; m
       <h2 id="dip-form-title" className="scroll-mt-4 text-lg font-bold">Record a dip</h2>
       <DipCaution />
       <div className="grid gap-4 sm:grid-cols-2">
-        <NumberField
+        <QuantityField
           id="dip-level"
           label="Dipped level"
-          unit="m"
+          input={qi}
+          quantity="length"
           {...register("level")}
           error={levelError}
-          hint={maxLevelM !== null ? `From the tank bottom; at most ${maxLevelM.toFixed(3)} m.` : "From the tank bottom."}
+          hint={maxLevelM !== null ? `From the tank bottom; at most ${fig.length(maxLevelM)}.` : "From the tank bottom."}
           required
         />
         <InputField id="dip-at" label="Time of the dip" type="datetime-local" {...register("at")} error={errors.at?.message} hint="Your device's local time." required />

@@ -2,7 +2,7 @@
 
 import { useState } from "react";
 import type { DipJson } from "@/lib/services/dips";
-import { formatMetres } from "@/components/fleet/fleet-figures";
+import { useFigures } from "@/components/ui/display-settings";
 import { createColumnHelper } from "@tanstack/react-table";
 import { SiteTime, useTimeDisplay } from "@/components/ui/site-time";
 import { formatDateTime } from "@/lib/format/time";
@@ -27,6 +27,7 @@ const column = createColumnHelper<DipJson>();
 
 /** Asks why, then voids one dip: it stays in the list, struck through with the reason. */
 function VoidDipForm({ dip, label, onDone, onCancel }: { dip: DipJson; label: string; onDone: () => void; onCancel: () => void }) {
+  const fig = useFigures();
   const form = useForm<VoidDipInput>({ resolver: zodResolver(voidDipSchema), defaultValues: { reason: "" } });
   const { register, handleSubmit, formState: { errors, isSubmitting } } = form;
   const onSubmit = handleSubmit(async (input) => {
@@ -40,7 +41,7 @@ function VoidDipForm({ dip, label, onDone, onCancel }: { dip: DipJson; label: st
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-3 border-t border-rule px-3 py-3" aria-label={`Void the dip of ${label}`}>
       <p className="text-sm">
-        Void the dip of <span className="figures">{label}</span> ({formatMetres(dip.level_m)})? It stays listed, struck through, and no longer counts for
+        Void the dip of <span className="figures">{label}</span> ({fig.length(dip.level_m)})? It stays listed, struck through, and no longer counts for
         calibration or drift.
       </p>
       <InputField id="void-reason" label="Why is it void?" {...register("reason")} error={errors.reason?.message} hint="Wrong tank, wrong time, misread tape…" required />
@@ -72,6 +73,7 @@ export function DipTable({
   onVoided?: () => void;
 }) {
   const time = useTimeDisplay(zone);
+  const fig = useFigures();
   const [voiding, setVoiding] = useState<DipJson | null>(null);
   const struck = (d: DipJson) => (d.void ? "line-through text-muted" : undefined);
   const columns = [
@@ -87,18 +89,18 @@ export function DipTable({
                 checked={selected.has(d.id)}
                 disabled={d.sensor === null || d.void !== null}
                 onChange={() => onToggle(d.id)}
-                aria-label={`Use the dip of ${formatDateTime(d.at, time)} (${d.level_m.toFixed(3)} m)`}
+                aria-label={`Use the dip of ${formatDateTime(d.at, time)} (${fig.length(d.level_m)})`}
               />
             ),
           }),
         ]
       : []),
     column.accessor((d) => new Date(d.at).getTime(), { id: "time", header: "Time", cell: (c) => <span className={struck(c.row.original)}><SiteTime at={c.row.original.at} zone={zone} /></span>, meta: { cellClassName: "figures" } }),
-    column.accessor("level_m", { header: "Dipped level", cell: (c) => <span className={struck(c.row.original)}>{formatMetres(c.getValue())}</span>, meta: { cellClassName: "figures" } }),
+    column.accessor("level_m", { header: "Dipped level", cell: (c) => <span className={struck(c.row.original)}>{fig.length(c.getValue())}</span>, meta: { cellClassName: "figures" } }),
     column.accessor((d) => d.sensor?.level_m, {
       id: "sensor",
       header: "Sensor level then",
-      cell: (c) => (c.row.original.sensor ? formatMetres(c.row.original.sensor.level_m) : <span className="font-sans text-muted">no reading within an hour</span>),
+      cell: (c) => (c.row.original.sensor ? fig.length(c.row.original.sensor.level_m) : <span className="font-sans text-muted">no reading within an hour</span>),
       meta: { cellClassName: "figures" },
     }),
     column.accessor("difference_m", { header: "Sensor − dip", cell: (c) => <span className={struck(c.row.original)}>{formatSignedMm(c.getValue())}</span>, meta: { cellClassName: "figures" } }),

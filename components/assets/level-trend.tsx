@@ -6,6 +6,8 @@ import { Loading } from "@/components/ui/data-state";
 import type { TrendData } from "@/components/assets/asset-live-series";
 import { axisZoneTitle, formatAxisLabel, formatDate, formatDateTime, type TimeDisplay } from "@/lib/format/time";
 import { useTimeDisplay } from "@/components/ui/site-time";
+import { useFigures } from "@/components/ui/display-settings";
+import type { Figures } from "@/lib/format/figures";
 
 // The trend of LOOK.md in echarts: compensated as a thin ink line, raw as a dashed muted line, air
 // temperature on a right axis, setpoints as dashed horizontals labelled at the right edge, the
@@ -27,13 +29,25 @@ export interface TrendMarks {
   calibrations: { atMs: number; label: string }[];
 }
 
-export function trendOption(trend: TrendData, marks: TrendMarks, window: { fromMs: number; toMs: number }, time: TimeDisplay): EChartsOption {
+type Points = [number, number | null][];
+
+/** Series in the person's units: levels in m or ft, air temperature in °C or °F. */
+function inDisplayUnits(trend: TrendData, marks: TrendMarks, fig: Figures): { trend: TrendData; marks: TrendMarks } {
+  const map = (points: Points, f: (v: number) => number): Points => points.map(([t, v]) => [t, v == null ? null : f(v)]);
+  const L = fig.levelFromSi;
+  return {
+    trend: { ...trend, compensated: map(trend.compensated, L), raw: map(trend.raw, L), bandLow: map(trend.bandLow, L), bandWidth: map(trend.bandWidth, L), temperature: map(trend.temperature, fig.temperatureFromSi) },
+    marks: { ...marks, forecast: marks.forecast.map(([t, v]) => [t, L(v)]), dips: marks.dips.map((d) => ({ ...d, levelM: L(d.levelM) })) },
+  };
+}
+
+export function trendOption(siTrend: TrendData, siMarks: TrendMarks, window: { fromMs: number; toMs: number }, time: TimeDisplay, fig: Figures): EChartsOption {
+  const { trend, marks } = inDisplayUnits(siTrend, siMarks, fig);
   const label = trend.quantity === "level" ? "Level" : "Distance";
   const endMs = Math.max(window.toMs, marks.forecast.length ? marks.forecast[marks.forecast.length - 1][0] : 0);
   const hasTemperature = trend.temperature.some(([, v]) => v != null);
   const hasRaw = trend.raw.some(([, v]) => v != null);
   const hasBand = trend.bandWidth.some(([, v]) => v != null);
-  const metres = (v: number) => `${v.toFixed(3)} m`;
   return {
     animation: false,
     aria: { enabled: true },
@@ -44,7 +58,7 @@ export function trendOption(trend: TrendData, marks: TrendMarks, window: { fromM
     tooltip: {
       trigger: "axis",
       axisPointer: { label: { formatter: (p) => (typeof p.value === "number" ? formatDateTime(p.value, time) : String(p.value)) } },
-      valueFormatter: (v) => (typeof v === "number" ? v.toFixed(3) : String(v ?? "—")),
+      valueFormatter: (v) => (typeof v === "number" ? fig.number(v, 3) : String(v ?? "—")),
     },
     xAxis: {
       type: "time",
@@ -59,9 +73,9 @@ export function trendOption(trend: TrendData, marks: TrendMarks, window: { fromM
       splitLine: { show: false },
     },
     yAxis: [
-      { type: "value", name: `${label} (m)`, nameTextStyle: { color: MUTED }, scale: true, axisLabel: { color: MUTED, formatter: (v: number) => v.toFixed(2) }, splitLine: { lineStyle: { color: RULE } } },
+      { type: "value", name: `${label} (${fig.levelSymbol})`, nameTextStyle: { color: MUTED }, scale: true, axisLabel: { color: MUTED, formatter: (v: number) => fig.number(v, 2) }, splitLine: { lineStyle: { color: RULE } } },
       ...(hasTemperature
-        ? [{ type: "value" as const, name: "Air (°C)", nameTextStyle: { color: MUTED }, scale: true, position: "right" as const, offset: 36, axisLabel: { color: MUTED, formatter: (v: number) => v.toFixed(0) }, splitLine: { show: false } }]
+        ? [{ type: "value" as const, name: `Air (${fig.temperatureSymbol})`, nameTextStyle: { color: MUTED }, scale: true, position: "right" as const, offset: 36, axisLabel: { color: MUTED, formatter: (v: number) => v.toFixed(0) }, splitLine: { show: false } }]
         : []),
     ],
     series: [
@@ -95,9 +109,9 @@ export function trendOption(trend: TrendData, marks: TrendMarks, window: { fromM
           silent: true,
           data: [
             ...marks.setpoints.map((s) => ({
-              yAxis: s.value_m,
+              yAxis: fig.levelFromSi(s.value_m),
               lineStyle: { color: INK, type: "dashed" as const, width: 1 },
-              label: { position: "end" as const, formatter: `${s.key.toUpperCase()} ${metres(s.value_m)}`, color: INK },
+              label: { position: "end" as const, formatter: `${s.key.toUpperCase()} ${fig.length(s.value_m)}`, color: INK },
             })),
             ...marks.calibrations.map((c) => ({
               xAxis: c.atMs,
@@ -141,7 +155,7 @@ export function trendOption(trend: TrendData, marks: TrendMarks, window: { fromM
 }
 
 export function LevelTrend({ trend, marks, fromMs, toMs, description, timeZone }: { trend: TrendData; marks: TrendMarks; fromMs: number; toMs: number; description: string; timeZone: string }) {
-  const option = trendOption(trend, marks, { fromMs, toMs }, useTimeDisplay(timeZone));
+  const option = trendOption(trend, marks, { fromMs, toMs }, useTimeDisplay(timeZone), useFigures());
   // The legend's "band-base" is the band's invisible floor; hide it from the legend.
   const legend = { ...(option.legend as object), data: (option.series as { name: string }[]).map((s) => s.name).filter((n) => n !== "band-base") };
   return (

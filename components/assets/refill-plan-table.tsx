@@ -7,7 +7,8 @@ import { swrFetcher } from "@/lib/fetcher";
 import type { RefillPlanJson } from "@/lib/read-models/refill-plan";
 import { MAX_HORIZON_DAYS } from "@/lib/validations/export";
 import { createColumnHelper } from "@tanstack/react-table";
-import { formatDaysToReorder, formatLitres, formatPercent } from "@/components/fleet/fleet-figures";
+import { formatDaysToReorder } from "@/components/fleet/fleet-figures";
+import { Figure } from "@/components/ui/display-settings";
 import { RelativeTime } from "@/components/ui/site-time";
 import { PURPOSE_NAMES, TankPlanVerdict } from "@/components/assets/tank-plan";
 import { DataTable } from "@/components/ui/data-table";
@@ -35,8 +36,8 @@ const columns = [
     ),
   }),
   column.accessor("site_name", { header: "Site" }),
-  column.accessor("fill_pct", { header: "Fill now", cell: (c) => formatPercent(c.getValue()), meta: { cellClassName: "figures" } }),
-  column.accessor("current_volume_l", { header: "Volume now", cell: (c) => formatLitres(c.getValue()), meta: { cellClassName: "figures" } }),
+  column.accessor("fill_pct", { header: "Fill now", cell: (c) => <Figure kind="percent" value={c.getValue()} />, meta: { cellClassName: "figures" } }),
+  column.accessor("current_volume_l", { header: "Volume now", cell: (c) => <Figure kind="volume" value={c.getValue()} />, meta: { cellClassName: "figures" } }),
   column.accessor("volume_l", {
     header: "To move",
     meta: { cellClassName: "figures" },
@@ -48,8 +49,8 @@ const columns = [
       ) : (
         <>
           <span className="font-sans">{ACTION_WORDS[r.action]} </span>
-          {formatLitres(r.volume_l)}
-          {r.action === "deliver" && r.safe_fill_pct !== null && <span className="font-sans text-xs text-muted"> to {formatPercent(r.safe_fill_pct)}</span>}
+          <Figure kind="volume" value={r.volume_l} />
+          {r.action === "deliver" && r.safe_fill_pct !== null && <span className="font-sans text-xs text-muted"> to <Figure kind="percent" value={r.safe_fill_pct} /></span>}
         </>
       ),
   }),

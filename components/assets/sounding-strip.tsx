@@ -1,4 +1,4 @@
-import { formatMetres } from "@/components/fleet/fleet-figures";
+import { useFigures } from "@/components/ui/display-settings";
 import type { Priority } from "@/components/fleet/fleet-status";
 import { priorityGlyph } from "@/components/ui/priority-badge";
 
@@ -37,7 +37,7 @@ function labelRows(ys: number[]): number[] {
   return out;
 }
 
-// Scale marks every 0.1 … 10 m, whichever leaves at most five intervals on the strip.
+// Scale marks every 0.1 … 10 m (or ft), whichever leaves at most five intervals on the strip.
 const STEPS = [0.1, 0.2, 0.25, 0.5, 1, 2, 5, 10];
 function scaleStep(span: number): number {
   return STEPS.find((s) => span / s <= 5) ?? Math.ceil(span / 5);
@@ -58,16 +58,19 @@ export function SoundingStrip({
   dayRange?: [number, number] | null;
   name: string;
 }) {
+  const fig = useFigures();
   const span = heightM > 0 ? heightM : 1;
   const y = (m: number) => BOTTOM - (Math.min(Math.max(m, 0), span) / span) * (BOTTOM - TOP);
   const surface = levelM == null ? null : y(levelM);
   const band = levelM != null && uncertaintyM ? { top: y(levelM + uncertaintyM), bottom: y(levelM - uncertaintyM) } : null;
-  const step = scaleStep(span);
-  const ticks = Array.from({ length: Math.floor(span / step + 1e-9) + 1 }, (_, i) => Number((i * step).toFixed(2)));
+  // The scale is marked in the person's unit (m or ft): ticks are round numbers of it.
+  const perMetre = fig.levelFromSi(1);
+  const step = scaleStep(span * perMetre);
+  const ticks = Array.from({ length: Math.floor((span * perMetre) / step + 1e-9) + 1 }, (_, i) => Number((i * step).toFixed(2)));
   const description = [
-    levelM == null ? "No level yet" : `Level ${formatMetres(levelM, uncertaintyM)} on a ${formatMetres(span)} scale`,
-    ...setpoints.map((s) => `${s.key.toUpperCase()} at ${formatMetres(s.value_m)}${s.alarm ? ` (${s.alarm} alarm)` : ""}`),
-    dayRange ? `last 24 h between ${formatMetres(dayRange[0])} and ${formatMetres(dayRange[1])}` : "",
+    levelM == null ? "No level yet" : `Level ${fig.length(levelM, uncertaintyM)} on a ${fig.length(span)} scale`,
+    ...setpoints.map((s) => `${s.key.toUpperCase()} at ${fig.length(s.value_m)}${s.alarm ? ` (${s.alarm} alarm)` : ""}`),
+    dayRange ? `last 24 h between ${fig.length(dayRange[0])} and ${fig.length(dayRange[1])}` : "",
   ].filter(Boolean);
 
   const labelYs = labelRows(setpoints.map((s) => y(s.value_m)));
@@ -77,10 +80,10 @@ export function SoundingStrip({
       {surface != null && <rect x={SCALE_X + 0.5} y={surface} width={SCALE_W - 1} height={BOTTOM - surface} className="fill-liquid" />}
       {ticks.map((m, i) => (
         <g key={m}>
-          <line x1={SCALE_X} x2={SCALE_X + 4} y1={y(m)} y2={y(m)} className="stroke-muted" strokeWidth={1} />
-          <text x={SCALE_X - 11} y={y(m) + 4} className="fill-muted font-mono text-[11px]" textAnchor="end" aria-hidden="true">
-            {m}
-            {i === ticks.length - 1 ? " m" : ""}
+          <line x1={SCALE_X} x2={SCALE_X + 4} y1={y(m / perMetre)} y2={y(m / perMetre)} className="stroke-muted" strokeWidth={1} />
+          <text x={SCALE_X - 11} y={y(m / perMetre) + 4} className="fill-muted font-mono text-[11px]" textAnchor="end" aria-hidden="true">
+            {fig.number(m, m % 1 === 0 ? 0 : (m * 10) % 1 === 0 ? 1 : 2)}
+            {i === ticks.length - 1 ? ` ${fig.levelSymbol}` : ""}
           </text>
         </g>
       ))}

@@ -1,6 +1,7 @@
 import type { TankPlanJson } from "@/lib/read-models/forecasts";
 import type { TankPurpose } from "@/lib/forecast/purpose";
-import { formatDaysToReorder, formatLitres } from "@/components/fleet/fleet-figures";
+import { formatDaysToReorder } from "@/components/fleet/fleet-figures";
+import { Figure } from "@/components/ui/display-settings";
 import { SiteTime } from "@/components/ui/site-time";
 
 // A tank's plan verdict in words, the same on the overview, site, asset and refill-plan screens: they
@@ -66,7 +67,7 @@ export function TankPlanVerdict({ plan, zone, detail = false }: { plan: PlanWord
       )}
       {detail && plan.days_to_limit !== null && <span className="font-normal text-muted"> · {limit} {formatDaysToReorder(plan.days_to_limit)}</span>}
       {detail && plan.volume_l !== null && plan.status !== "needs_check" && (
-        <span className="font-normal text-muted"> · <span className="figures">{formatLitres(plan.volume_l)}</span> to {plan.action === "pump_out" ? "pump out" : plan.action === "top_up" ? "top up" : "deliver"}</span>
+        <span className="font-normal text-muted"> · <span className="figures"><Figure kind="volume" value={plan.volume_l} /></span> to {plan.action === "pump_out" ? "pump out" : plan.action === "top_up" ? "top up" : "deliver"}</span>
       )}
     </span>
   );

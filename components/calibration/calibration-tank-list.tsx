@@ -8,13 +8,14 @@ import { isUuid } from "@/lib/validations/common";
 import type { AssetJson } from "@/lib/services/assets";
 import type { SiteJson } from "@/lib/services/sites";
 import { createColumnHelper } from "@tanstack/react-table";
-import { formatMetres } from "@/components/fleet/fleet-figures";
+import { useFigures } from "@/components/ui/display-settings";
 import { DataTable } from "@/components/ui/data-table";
 
 const column = createColumnHelper<AssetJson>();
 
 /** The tanks a technician can dip and calibrate, filtered by site (kept in the URL). */
 export function CalibrationTankList() {
+  const fig = useFigures();
   const router = useRouter();
   const pathname = usePathname();
   const params = useSearchParams();
@@ -42,8 +43,8 @@ export function CalibrationTankList() {
         columns={[
           column.accessor("name", { header: "Tank", cell: (c) => <Link href={`/calibration/${c.row.original.id}`} className="font-bold underline">{c.getValue()}</Link> }),
           column.accessor((a) => siteName(a.site_id), { id: "site", header: "Site" }),
-          column.accessor("mount_height_m", { header: "Sensor height", cell: (c) => formatMetres(c.getValue()), meta: { cellClassName: "figures" } }),
-          column.accessor("tank_height_m", { header: "Tank height", cell: (c) => formatMetres(c.getValue()), meta: { cellClassName: "figures" } }),
+          column.accessor("mount_height_m", { header: "Sensor height", cell: (c) => fig.length(c.getValue()), meta: { cellClassName: "figures" } }),
+          column.accessor("tank_height_m", { header: "Tank height", cell: (c) => fig.length(c.getValue()), meta: { cellClassName: "figures" } }),
         ]}
         getRowId={(a) => a.id}
         initialSorting={[{ id: "name", desc: false }]}

@@ -8,7 +8,8 @@ import type { SiteJson } from "@/lib/services/sites";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { DeviceKeyActions } from "@/components/devices/device-key-actions";
 import { isOffline, PROFILE_LABELS } from "@/components/devices/device-table";
-import { formatCount, formatDbm, formatMetres, formatVolts } from "@/components/fleet/fleet-figures";
+import { useFigures } from "@/components/ui/display-settings";
+import type { Figures } from "@/lib/format/figures";
 import { RelativeTime, SiteTime } from "@/components/ui/site-time";
 import { createColumnHelper } from "@tanstack/react-table";
 import { DataTable } from "@/components/ui/data-table";
@@ -21,7 +22,7 @@ type Channel = DeviceJson["channels"][number];
 const channelColumn = createColumnHelper<Channel>();
 const keyColumn = createColumnHelper<DeviceKeyRow>();
 
-function channelColumns(assetOf: (assetId: string | null) => AssetJson | undefined) {
+function channelColumns(assetOf: (assetId: string | null) => AssetJson | undefined, figures: Figures) {
   const assetName = (c: Channel) => {
     const asset = assetOf(c.asset_id);
     return c.asset_id ? (asset ? `${asset.name} (${asset.kind})` : "…") : "none";
@@ -29,9 +30,9 @@ function channelColumns(assetOf: (assetId: string | null) => AssetJson | undefin
   return [
     channelColumn.accessor("index", { header: "Index", meta: { cellClassName: "figures" } }),
     channelColumn.accessor(assetName, { id: "asset", header: "Asset" }),
-    channelColumn.accessor("min_range_m", { header: "Min range", cell: (c) => formatMetres(c.getValue()), meta: { cellClassName: "figures" } }),
-    channelColumn.accessor("max_range_m", { header: "Max range", cell: (c) => formatMetres(c.getValue()), meta: { cellClassName: "figures" } }),
-    channelColumn.accessor("face_offset_m", { header: "Face offset", cell: (c) => formatMetres(c.getValue()), meta: { cellClassName: "figures" } }),
+    channelColumn.accessor("min_range_m", { header: "Min range", cell: (c) => figures.length(c.getValue()), meta: { cellClassName: "figures" } }),
+    channelColumn.accessor("max_range_m", { header: "Max range", cell: (c) => figures.length(c.getValue()), meta: { cellClassName: "figures" } }),
+    channelColumn.accessor("face_offset_m", { header: "Face offset", cell: (c) => figures.length(c.getValue()), meta: { cellClassName: "figures" } }),
     channelColumn.display({
       id: "calibration",
       header: "Calibration",
@@ -70,16 +71,16 @@ function Facts({ items }: { items: [string, React.ReactNode][] }) {
   );
 }
 
-function profileFacts(d: DeviceJson): [string, React.ReactNode][] {
+function profileFacts(d: DeviceJson, figures: Figures): [string, React.ReactNode][] {
   const profile: [string, React.ReactNode] = ["Signal profile", `${PROFILE_LABELS[d.profile] ?? d.profile} (${d.profile})`];
   const rate: [string, React.ReactNode][] = [
     ["Expected interval", fig(`${d.expected_interval_s} s`)],
     ["Max requests a minute", fig(String(d.max_requests_per_min))],
     ["Firmware", d.firmware ?? "—"],
   ];
-  if (d.profile === "capture") return [profile, ["Timer clock", fig(`${formatCount(d.clock_hz ?? 0)} Hz`)], ["Prescaler", fig(String(d.prescaler))], ["Timer width", fig(`${d.timer_bits} bits`)], ...rate];
+  if (d.profile === "capture") return [profile, ["Timer clock", fig(`${figures.count(d.clock_hz ?? 0)} Hz`)], ["Prescaler", fig(String(d.prescaler))], ["Timer width", fig(`${d.timer_bits} bits`)], ...rate];
   if (d.profile === "pulse_coded") return [profile, ["Scale", fig(`${d.us_per_mm} µs per mm`)], ...rate];
-  if (d.profile === "duty_coded") return [profile, ["Zero", fig(formatMetres(d.zero_m))], ["Span", fig(formatMetres(d.span_m))], ...rate];
+  if (d.profile === "duty_coded") return [profile, ["Zero", fig(figures.length(d.zero_m))], ["Span", fig(figures.length(d.span_m))], ...rate];
   return [profile, ...rate];
 }
 
@@ -93,6 +94,7 @@ function Warning({ children }: { children: React.ReactNode }) {
 
 /** The device page: what is wrong, its state now, its profile and timing, channels and keys. */
 export function DeviceDetail({ id, canManage }: { id: string; canManage: boolean }) {
+  const figures = useFigures();
   const { data, error, isLoading, mutate } = useSWR<DeviceDetailJson>(`/api/devices/${id}`, swrFetcher, { refreshInterval: 30000 });
   const site = useSWR<SiteJson>(data ? `/api/sites/${data.site_id}` : null, swrFetcher);
   const assets = useSWR<{ items: AssetJson[] }>(data ? `/api/assets?site_id=${data.site_id}` : null, swrFetcher);
@@ -109,7 +111,7 @@ export function DeviceDetail({ id, canManage }: { id: string; canManage: boolean
       <div className="space-y-2">
         {t?.tanks_beyond_wrap.map((tank) => (
           <Warning key={tank.asset_id}>
-            High: {tank.name} is {formatMetres(tank.height_m)} tall, more than the {formatMetres(t.wrap_range_m)} the timer covers before it wraps. Send the overflow
+            High: {tank.name} is {figures.length(tank.height_m)} tall, more than the {figures.length(t.wrap_range_m)} the timer covers before it wraps. Send the overflow
             count with each reading, or use a larger prescaler.
           </Warning>
         ))}
@@ -122,15 +124,15 @@ export function DeviceDetail({ id, canManage }: { id: string; canManage: boolean
           items={[
             ["Site", site.data?.name ?? "…"],
             ["Last seen", <>{data.last_seen_at ? <RelativeTime at={data.last_seen_at} /> : "never"}{isOffline(data) && " · offline (no reading for three expected intervals)"}</>],
-            ["Battery", fig(formatVolts(data.battery_v))],
-            ["Signal", fig(formatDbm(data.rssi_dbm))],
+            ["Battery", fig(figures.volts(data.battery_v))],
+            ["Signal", fig(figures.dbm(data.rssi_dbm))],
           ]}
         />
       </section>
 
       <section className="card" aria-labelledby="device-profile">
         <h2 id="device-profile" className="px-4 pt-4 text-lg font-bold">Profile and parameters</h2>
-        <Facts items={profileFacts(data)} />
+        <Facts items={profileFacts(data, figures)} />
         {t && (
           <>
             <h3 className="px-4 font-bold">Timing</h3>
@@ -138,14 +140,14 @@ export function DeviceDetail({ id, canManage }: { id: string; canManage: boolean
               items={[
                 ["Resolution", <>{fig(`${t.mm_per_tick.toPrecision(3)} mm`)} a tick ({fig(`${t.tick_us.toPrecision(4)} µs`)} a tick)</>],
                 ["Timer wraps after", fig(`${(t.wrap_us / 1000).toPrecision(4)} ms`)],
-                ["Range before the wrap", <>{fig(formatMetres(t.wrap_range_m))} at {fig(`${t.at_temp_c} °C`)}</>],
+                ["Range before the wrap", <>{fig(figures.length(t.wrap_range_m))} at {fig(figures.temperature(t.at_temp_c))}</>],
               ]}
             />
           </>
         )}
       </section>
 
-      <DataTable data={data.channels} columns={channelColumns(assetOf)} getRowId={(c) => c.id} label="Channels" title empty="This device has no channels." />
+      <DataTable data={data.channels} columns={channelColumns(assetOf, figures)} getRowId={(c) => c.id} label="Channels" title empty="This device has no channels." />
 
       <DataTable
         data={data.keys}

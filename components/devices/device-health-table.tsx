@@ -10,7 +10,7 @@ import type { DeviceHealthPage, DeviceHealthRow } from "@/lib/read-models/overvi
 import type { SiteJson } from "@/lib/services/sites";
 import { swrFetcher } from "@/lib/fetcher";
 import { DEVICE_HEALTH_FLAGS, deviceHealthQuerySchema, type DeviceHealthSort } from "@/lib/validations/overview";
-import { formatDbm, formatVolts } from "@/components/fleet/fleet-figures";
+import { Figure } from "@/components/ui/display-settings";
 import { LIVE_REFRESH_MS } from "@/components/fleet/fleet-overview";
 import { FlagTag, flagLabel } from "@/components/fleet/fleet-status";
 import { DataTableView } from "@/components/ui/data-table";
@@ -65,8 +65,8 @@ const columns = [
       </span>
     ),
   }),
-  column.accessor("battery_v", { id: "battery", header: "Battery", cell: (c) => <span className="figures">{formatVolts(c.getValue())}</span> }),
-  column.accessor("rssi_dbm", { id: "signal", header: "Signal", cell: (c) => <span className="figures">{formatDbm(c.getValue())}</span> }),
+  column.accessor("battery_v", { id: "battery", header: "Battery", cell: (c) => <span className="figures"><Figure kind="volts" value={c.getValue()} /></span> }),
+  column.accessor("rssi_dbm", { id: "signal", header: "Signal", cell: (c) => <span className="figures"><Figure kind="dbm" value={c.getValue()} /></span> }),
   column.accessor("open_flags", { id: "flags", header: "Channels and flags", cell: (c) => <ChannelFlags row={c.row.original} /> }),
   column.accessor("firmware", { id: "firmware", header: "Firmware", cell: (c) => <span className="figures">{c.getValue() ?? "—"}</span> }),
 ];

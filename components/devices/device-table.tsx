@@ -9,7 +9,7 @@ import { swrFetcher } from "@/lib/fetcher";
 import { deviceListQuerySchema } from "@/lib/validations/device";
 import type { DeviceJson } from "@/lib/services/devices";
 import type { SiteJson } from "@/lib/services/sites";
-import { formatDbm, formatVolts } from "@/components/fleet/fleet-figures";
+import { useFigures } from "@/components/ui/display-settings";
 import { DataTable } from "@/components/ui/data-table";
 import { useListParams } from "@/components/ui/list-params";
 import { ClearFilters } from "@/components/ui/clear-filters";
@@ -27,6 +27,7 @@ const FILTERS = ["site_id"] as const;
 export function DeviceTable() {
   const list = useListParams(deviceListQuerySchema, FILTERS, FILTERS);
   const siteId = list.values.site_id ?? "";
+  const fig = useFigures();
   const sites = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
   const { data, error, isLoading, mutate } = useSWR<{ items: DeviceJson[] }>(siteId ? `/api/devices?site_id=${siteId}` : "/api/devices", swrFetcher, { refreshInterval: 30000 });
   const siteName = (id: string) => sites.data?.items.find((s) => s.id === id)?.name ?? "…";
@@ -47,8 +48,8 @@ export function DeviceTable() {
         </>
       ),
     }),
-    column.accessor("battery_v", { header: "Battery", cell: (c) => formatVolts(c.getValue()), meta: { cellClassName: "figures" } }),
-    column.accessor("rssi_dbm", { header: "Signal", cell: (c) => formatDbm(c.getValue()), meta: { cellClassName: "figures" } }),
+    column.accessor("battery_v", { header: "Battery", cell: (c) => fig.volts(c.getValue()), meta: { cellClassName: "figures" } }),
+    column.accessor("rssi_dbm", { header: "Signal", cell: (c) => fig.dbm(c.getValue()), meta: { cellClassName: "figures" } }),
   ];
 
   return (

@@ -8,6 +8,25 @@ import type { SiteJson } from "@/lib/services/sites";
 import { MAX_EXPORT_ASSETS, MAX_EXPORT_DAYS, rangeIssues } from "@/lib/validations/export";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { HORIZON_CHOICES } from "@/components/assets/refill-plan-table";
+import { useDisplaySettings } from "@/components/ui/display-settings";
+import type { UnitSystem } from "@/lib/units/units";
+
+const UNIT_CHOICES: Record<UnitSystem, string> = { si: "SI: level_m, volume_l, air_temp_c", us: "US customary: level_ft, volume_gal, air_temp_f" };
+
+/** Which units the files' figures are in; each column's name says its unit. */
+function UnitsChoice({ units, setUnits }: { units: UnitSystem; setUnits: (u: UnitSystem) => void }) {
+  return (
+    <fieldset className="card flex flex-wrap gap-x-6 gap-y-2 p-4 text-sm lg:col-span-2">
+      <legend className="label">Units of the files</legend>
+      {(Object.keys(UNIT_CHOICES) as UnitSystem[]).map((u) => (
+        <label key={u} className="flex items-center gap-2">
+          <input type="radio" name="export-units" value={u} checked={units === u} onChange={() => setUnits(u)} />
+          {UNIT_CHOICES[u]}
+        </label>
+      ))}
+    </fieldset>
+  );
+}
 
 const DAY_MS = 86_400_000;
 
@@ -72,7 +91,7 @@ function Download({ href, label, why }: { href: string | null; label: string; wh
   );
 }
 
-function MeasurementsExport() {
+function MeasurementsExport({ units }: { units: UnitSystem }) {
   const sites = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
   const assets = useSWR<{ items: AssetJson[] }>("/api/assets", swrFetcher);
   const [siteId, setSiteId] = useState("");
@@ -83,7 +102,7 @@ function MeasurementsExport() {
   const siteName = (id: string) => sites.data?.items.find((s) => s.id === id)?.name ?? "";
   const tooMany = chosen.size > MAX_EXPORT_ASSETS ? `Choose at most ${MAX_EXPORT_ASSETS} assets.` : null;
   const why = chosen.size === 0 ? "Choose at least one asset." : tooMany;
-  const href = !why && range.query ? `/api/exports/measurements?asset_ids=${[...chosen].join(",")}&${range.query}${fullPrecision ? "&precision=full" : ""}` : null;
+  const href = !why && range.query ? `/api/exports/measurements?asset_ids=${[...chosen].join(",")}&${range.query}${fullPrecision ? "&precision=full" : ""}&units=${units}` : null;
 
   function toggle(id: string) {
     setChosen((prev) => {
@@ -134,19 +153,19 @@ function MeasurementsExport() {
   );
 }
 
-function AlarmsExport() {
+function AlarmsExport({ units }: { units: UnitSystem }) {
   const range = useRange(30);
   return (
     <section aria-labelledby="export-alarms" className="card space-y-4 p-4">
       <h2 id="export-alarms" className="text-lg font-bold">Alarm events</h2>
       <p className="text-sm text-muted">Every activation, acknowledgement, shelving, return to normal and notification in the range, with who and when.</p>
       <RangeFields idPrefix="alarms" {...range} />
-      <Download href={range.query ? `/api/exports/alarms?${range.query}` : null} label="Download alarm events CSV" why={null} />
+      <Download href={range.query ? `/api/exports/alarms?${range.query}&units=${units}` : null} label="Download alarm events CSV" why={null} />
     </section>
   );
 }
 
-function RefillExport() {
+function RefillExport({ units }: { units: UnitSystem }) {
   const [horizon, setHorizon] = useState<number>(14);
   return (
     <section aria-labelledby="export-refill" className="card space-y-4 p-4">
@@ -157,18 +176,20 @@ function RefillExport() {
           {HORIZON_CHOICES.map((d) => <option key={d} value={d}>the next {d} days</option>)}
         </select>
       </div>
-      <Download href={`/api/exports/refill-plan?horizon_days=${horizon}`} label="Download refill plan CSV" why={null} />
+      <Download href={`/api/exports/refill-plan?horizon_days=${horizon}&units=${units}`} label="Download refill plan CSV" why={null} />
     </section>
   );
 }
 
 export function ExportForms() {
+  const [units, setUnits] = useState<UnitSystem>(useDisplaySettings().unit_system);
   return (
     <div className="grid gap-6 lg:grid-cols-2">
-      <MeasurementsExport />
+      <UnitsChoice units={units} setUnits={setUnits} />
+      <MeasurementsExport units={units} />
       <div className="space-y-6">
-        <AlarmsExport />
-        <RefillExport />
+        <AlarmsExport units={units} />
+        <RefillExport units={units} />
       </div>
     </div>
   );

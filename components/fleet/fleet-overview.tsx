@@ -5,7 +5,8 @@ import useSWR from "swr";
 import type { FleetOverviewJson } from "@/lib/read-models/overview";
 import { swrFetcher } from "@/lib/fetcher";
 import { Loading, LoadError } from "@/components/ui/data-state";
-import { formatLitres, formatMetres, formatPercent } from "@/components/fleet/fleet-figures";
+import { useFigures } from "@/components/ui/display-settings";
+import type { Figures } from "@/lib/format/figures";
 import { plural } from "@/lib/format/number";
 import { AlarmCounts, FlagTag, OverdueAge, PRIORITIES, TankCaution } from "@/components/fleet/fleet-status";
 import { TankPlanVerdict } from "@/components/assets/tank-plan";
@@ -40,7 +41,7 @@ function FillBar({ pct }: { pct: number | null }) {
 
 const tankColumn = createColumnHelper<TankSummary>();
 
-function tankColumns(now: number, zone: string) {
+function tankColumns(now: number, zone: string, fig: Figures) {
   return [
     tankColumn.accessor("name", {
       header: "Tank",
@@ -55,16 +56,16 @@ function tankColumns(now: number, zone: string) {
     tankColumn.accessor((t) => t.fill_pct ?? undefined, {
       id: "fill",
       header: "Fill",
-      cell: (c) => <><FillBar pct={c.row.original.fill_pct} /> {formatPercent(c.row.original.fill_pct)}</>,
+      cell: (c) => <><FillBar pct={c.row.original.fill_pct} /> {fig.percent(c.row.original.fill_pct)}</>,
       meta: { headerClassName: "md:w-[16%]", cellClassName: "figures whitespace-nowrap" },
     }),
-    tankColumn.accessor((t) => t.volume_l ?? undefined, { id: "volume", header: "Volume", cell: (c) => formatLitres(c.row.original.volume_l), meta: { headerClassName: "md:w-[14%]", cellClassName: "figures whitespace-nowrap" } }),
+    tankColumn.accessor((t) => t.volume_l ?? undefined, { id: "volume", header: "Volume", cell: (c) => fig.volume(c.row.original.volume_l), meta: { headerClassName: "md:w-[14%]", cellClassName: "figures whitespace-nowrap" } }),
     tankColumn.accessor((t) => t.level_m ?? undefined, {
       id: "level",
       header: "Level",
       cell: ({ row: { original: tank } }) => (
         <>
-          {formatMetres(tank.level_m, tank.uncertainty_m)}
+          {fig.length(tank.level_m, tank.uncertainty_m)}
           <OverdueAge at={tank.at} expectedIntervalS={tank.expected_interval_s} now={now} />
         </>
       ),
@@ -82,6 +83,7 @@ function tankColumns(now: number, zone: string) {
 function SiteCard({ site, now }: { site: SiteSummary; now: number }) {
   // The server sends every tank of a small site by name, and the emptiest of a large one.
   const tanks = site.tanks;
+  const fig = useFigures();
   return (
     <section className="card" aria-labelledby={`site-${site.id}`} data-testid="site-card">
       <header className="flex flex-wrap items-baseline gap-x-4 gap-y-1 border-b border-rule px-4 py-3">
@@ -98,7 +100,7 @@ function SiteCard({ site, now }: { site: SiteSummary; now: number }) {
         </span>
       </header>
       {tanks.length > 0 && (
-        <DataTable data={tanks} columns={tankColumns(now, site.time_zone)} getRowId={(t) => t.id} label={`Tanks at ${site.name}`} bare tableClassName="md:table-fixed" empty="No tanks." />
+        <DataTable data={tanks} columns={tankColumns(now, site.time_zone, fig)} getRowId={(t) => t.id} label={`Tanks at ${site.name}`} bare tableClassName="md:table-fixed" empty="No tanks." />
       )}
       {site.tank_count > site.tanks.length && (
         <p className="px-4 py-2 text-sm text-muted">

@@ -4,11 +4,13 @@ import { navFor } from "@/lib/navigation";
 import { Wordmark } from "@/components/shell/wordmark";
 import { NavLinks } from "@/components/shell/nav-links";
 import { SignOutButton } from "@/components/shell/sign-out-button";
-import { TimeViewProvider, TimeViewToggle } from "@/components/ui/site-time";
+import { TimeViewToggle } from "@/components/ui/site-time";
+import { DisplaySettingsProvider } from "@/components/ui/display-settings";
+import type { DisplaySettings } from "@/lib/format/display";
 
-export function AppShell({ user, children }: { user: SessionUser; children: React.ReactNode }) {
+export function AppShell({ user, display, children }: { user: SessionUser; display: DisplaySettings; children: React.ReactNode }) {
   return (
-    <TimeViewProvider>
+    <DisplaySettingsProvider settings={display}>
       <div className="min-h-screen">
         <header className="border-b border-rule bg-card">
           <div className="mx-auto flex max-w-screen-2xl items-center gap-6 px-4 py-2">
@@ -29,6 +31,6 @@ export function AppShell({ user, children }: { user: SessionUser; children: Reac
           <main className="min-w-0 flex-1">{children}</main>
         </div>
       </div>
-    </TimeViewProvider>
+    </DisplaySettingsProvider>
   );
 }

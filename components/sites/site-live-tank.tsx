@@ -1,7 +1,7 @@
 import Link from "next/link";
 import type { AlarmJson } from "@/lib/services/alarms";
 import type { SiteAssetJson } from "@/lib/read-models/overview-site";
-import { formatLitres, formatMetres, formatPercent } from "@/components/fleet/fleet-figures";
+import { useFigures } from "@/components/ui/display-settings";
 import { FlagTag, OverdueAge, type Priority } from "@/components/fleet/fleet-status";
 import { PriorityBadge } from "@/components/ui/priority-badge";
 import { Sparkline } from "@/components/sites/site-live-sparkline";
@@ -14,6 +14,7 @@ import { SoundingStrip } from "@/components/assets/sounding-strip";
 const LEVEL_KINDS = new Set(["hh", "h", "l", "ll"]);
 
 export function TankCard({ tank, zone, alarms, now }: { tank: SiteAssetJson; zone: string; alarms: AlarmJson[]; now: number }) {
+  const fig = useFigures();
   const mine = alarms.filter((a) => a.asset?.id === tank.id);
   const setpointAlarm = new Map(mine.filter((a) => LEVEL_KINDS.has(a.kind)).map((a) => [a.kind, a.priority as Priority]));
   const latest = tank.latest;
@@ -43,26 +44,26 @@ export function TankCard({ tank, zone, alarms, now }: { tank: SiteAssetJson; zon
         <dl className="grid flex-1 grid-cols-[auto_1fr] content-start gap-x-3 gap-y-1 text-sm">
           <dt className="text-muted">Level</dt>
           <dd className="figures" data-testid="tank-level">
-            {formatMetres(latest?.level_m, latest?.uncertainty_m)}
+            {fig.length(latest?.level_m, latest?.uncertainty_m)}
             <OverdueAge at={latest?.at} expectedIntervalS={tank.channel?.expected_interval_s} now={now} />
           </dd>
           <dt className="text-muted">Fill</dt>
-          <dd className="figures">{formatPercent(latest?.fill_pct)}</dd>
+          <dd className="figures">{fig.percent(latest?.fill_pct)}</dd>
           <dt className="text-muted">Volume</dt>
           <dd className="figures">
-            {formatLitres(latest?.volume_l)}
-            {tank.capacity_l != null && <span className="text-muted"> of {formatLitres(tank.capacity_l)}</span>}
+            {fig.volume(latest?.volume_l)}
+            {tank.capacity_l != null && <span className="text-muted"> of {fig.volume(tank.capacity_l)}</span>}
           </dd>
           <dt className="text-muted">{tank.plan ? PLAN_LABELS[tank.plan.purpose] : "Plan"}</dt>
           <dd>
             <TankPlanVerdict plan={tank.plan} zone={zone} />
-            {tank.plan?.purpose === "supply" && tank.reorder_pct != null && <span className="text-muted"> (at <span className="figures">{formatPercent(tank.reorder_pct)}</span>)</span>}
+            {tank.plan?.purpose === "supply" && tank.reorder_pct != null && <span className="text-muted"> (at <span className="figures">{fig.percent(tank.reorder_pct)}</span>)</span>}
           </dd>
         </dl>
       </div>
       <div>
         <p className="mb-1 text-xs text-muted">
-          Last 24 h{range && <>: <span className="figures">{formatMetres(range[0])}</span> to <span className="figures">{formatMetres(range[1])}</span></>}
+          Last 24 h{range && <>: <span className="figures">{fig.length(range[0])}</span> to <span className="figures">{fig.length(range[1])}</span></>}
         </p>
         <Sparkline points={tank.day.trend} from={dayFrom} to={now} label={`${tank.name}, level over the last 24 hours`} />
       </div>

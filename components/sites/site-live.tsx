@@ -7,7 +7,7 @@ import { swrFetcher } from "@/lib/fetcher";
 import { BayPlan } from "@/components/sites/bay-plan";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { FleetAlarmList } from "@/components/alarms/fleet-alarm-list";
-import { formatMetres } from "@/components/fleet/fleet-figures";
+import { useFigures } from "@/components/ui/display-settings";
 import { plural } from "@/lib/format/number";
 import { LIVE_REFRESH_MS } from "@/components/fleet/fleet-overview";
 import { FlagTag, OverdueAge, TankCaution } from "@/components/fleet/fleet-status";
@@ -23,6 +23,7 @@ type Point = SiteOverviewJson["points"][number];
 const pointColumn = createColumnHelper<Point>();
 
 function PointTable({ points, now }: { points: Point[]; now: number }) {
+  const fig = useFigures();
   const columns = [
     pointColumn.accessor("name", { header: "Point", cell: (c) => <Link href={`/assets/${c.row.original.id}`} className="font-bold underline">{c.getValue()}</Link> }),
     pointColumn.accessor((p) => p.latest?.distance_m ?? undefined, {
@@ -30,13 +31,13 @@ function PointTable({ points, now }: { points: Point[]; now: number }) {
       header: "Distance",
       cell: ({ row: { original: p } }) => (
         <>
-          {formatMetres(p.latest?.distance_m, p.latest?.uncertainty_m)}
+          {fig.length(p.latest?.distance_m, p.latest?.uncertainty_m)}
           <OverdueAge at={p.latest?.at} expectedIntervalS={p.channel?.expected_interval_s} now={now} />
         </>
       ),
       meta: { cellClassName: "figures" },
     }),
-    pointColumn.display({ id: "day", header: "Last 24 h", cell: ({ row: { original: p } }) => (p.day.range ? `${formatMetres(p.day.range[0])} to ${formatMetres(p.day.range[1])}` : "—"), meta: { cellClassName: "figures" } }),
+    pointColumn.display({ id: "day", header: "Last 24 h", cell: ({ row: { original: p } }) => (p.day.range ? `${fig.length(p.day.range[0])} to ${fig.length(p.day.range[1])}` : "—"), meta: { cellClassName: "figures" } }),
     pointColumn.accessor((p) => p.flags.length, {
       id: "sensor",
       header: "Sensor",

@@ -8,7 +8,7 @@ import type { SiteJson } from "@/lib/services/sites";
 import type { AssetJson } from "@/lib/services/assets";
 import type { DeviceJson } from "@/lib/services/devices";
 import { createColumnHelper } from "@tanstack/react-table";
-import { formatCelsius, formatPercent } from "@/components/fleet/fleet-figures";
+import { useFigures } from "@/components/ui/display-settings";
 import { DataTable } from "@/components/ui/data-table";
 
 function countBySite(items: { site_id: string }[] | undefined): Map<string, number> {
@@ -20,6 +20,7 @@ function countBySite(items: { site_id: string }[] | undefined): Map<string, numb
 const column = createColumnHelper<SiteJson>();
 
 export function SiteTable({ role }: { role: Role }) {
+  const fig = useFigures();
   const { data, error, isLoading, mutate } = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
   // Counts come from the two lists the other screens load anyway; no extra endpoint needed.
   const assets = useSWR<{ items: AssetJson[] }>("/api/assets", swrFetcher);
@@ -32,8 +33,8 @@ export function SiteTable({ role }: { role: Role }) {
   const columns = [
     column.accessor("name", { header: "Name", cell: (c) => <Link href={`/sites/${c.row.original.id}`} className="font-bold underline">{c.getValue()}</Link> }),
     column.accessor("time_zone", { header: "Time zone" }),
-    column.accessor("air_temp_c", { header: "Fallback air temperature", cell: (c) => (c.getValue() == null ? "none (20 °C)" : formatCelsius(c.getValue())), meta: { cellClassName: "figures" } }),
-    column.accessor("humidity_pct", { header: "Humidity", cell: (c) => formatPercent(c.getValue()), meta: { cellClassName: "figures" } }),
+    column.accessor("air_temp_c", { header: "Fallback air temperature", cell: (c) => (c.getValue() == null ? `none (${fig.temperature(20)})` : fig.temperature(c.getValue())), meta: { cellClassName: "figures" } }),
+    column.accessor("humidity_pct", { header: "Humidity", cell: (c) => fig.percent(c.getValue()), meta: { cellClassName: "figures" } }),
     column.accessor("escalation_delay_min", { header: "Escalation delay", cell: (c) => `${c.getValue()} min`, meta: { cellClassName: "figures" } }),
     column.accessor((s) => assetCounts.get(s.id) ?? 0, { id: "assets", header: "Assets", cell: (c) => <Link className="underline" href={`/assets?site_id=${c.row.original.id}`}>{count(assetCounts, !!assets.data, c.row.original.id)}</Link>, meta: { cellClassName: "figures" } }),
     column.accessor((s) => deviceCounts.get(s.id) ?? 0, { id: "devices", header: "Devices", cell: (c) => <Link className="underline" href={`/devices?site_id=${c.row.original.id}`}>{count(deviceCounts, !!devices.data, c.row.original.id)}</Link>, meta: { cellClassName: "figures" } }),

@@ -1,6 +1,8 @@
 import { z } from "zod";
 import type { FieldErrors as HookFormErrors, FieldValues } from "react-hook-form";
 import type { FieldErrors } from "@/components/ui/form-fields";
+import type { QuantityInput } from "@/lib/units/quantity-input";
+import type { Quantity } from "@/lib/units/units";
 
 // Forms keep what people typed (text, the decimal separator they use) and send what the API takes. The
 // schema a form validates with reads its text into the API's payload and checks that payload with the
@@ -43,6 +45,17 @@ export function payloadSchema<V extends object, S extends z.ZodType>(
       ctx.addIssue({ code: "custom", path: issue.path as PropertyKey[], message });
     }
     return z.NEVER;
+  });
+}
+
+/**
+ * Quantity boxes (payload path → text typed) whose text read as no quantity say why in the person's
+ * terms ("8 ft 3.5 in"), ahead of NOT_A_NUMBER: a `check` for payloadSchema.
+ */
+export function quantityIssues(qi: QuantityInput, payload: unknown, boxes: Record<string, string | undefined>, quantity: Quantity = "length"): FormIssue[] {
+  return Object.entries(boxes).flatMap(([path, text]) => {
+    const problem = Number.isNaN(valueAt(payload, path.split("."))) ? qi.problem(text, quantity) : null;
+    return problem ? [{ path, message: problem }] : [];
   });
 }
 

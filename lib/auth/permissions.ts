@@ -6,6 +6,7 @@ export const PERMISSIONS = {
   "dashboard:read": ["admin", "operator", "technician", "viewer"],
   "export:read": ["admin", "operator", "technician", "viewer"],
   "user:manage": ["admin"],
+  "organisation:manage": ["admin"],
   "mail:read": ["admin"],
   "audit:read": ["admin"],
   "site:manage": ["admin"],

@@ -1,12 +1,14 @@
 // The alarm e-mail: one alarm's own message, or a summary when several at one site fall due together.
 // Plain text first (a phone in the field), a simple HTML twin; times in the site's own time zone,
 // labelled with it; the state the alarm is in when the e-mail goes out, never the state it was queued in.
+// Figures and the clock follow the recipient's display settings (lib/services/display-settings.ts).
 
 import { ALARM_CAUTION } from "../alarms/engine";
 import { priorityText } from "../alarms/vocabulary";
 import type { AlarmPriority } from "../alarms/state-machine";
 import { formatDateTime } from "../format/time";
 import { formatLength, formatNumber } from "../format/number";
+import { DEFAULT_DISPLAY_SETTINGS, figureOptionsOf, hourCycleOf, type DisplaySettings } from "../format/display";
 
 /** A value the alarm was judged on, when it was measured, and its standard uncertainty when known. */
 export interface AlarmMailValue {
@@ -43,6 +45,8 @@ export interface AlarmMailInput {
   items: readonly AlarmMailItem[];
   alarmsUrl: string;
   ackTtlHours: number;
+  /** The recipient's units, decimal separator and clock. */
+  display: DisplaySettings;
 }
 
 export interface ComposedMail {
@@ -51,28 +55,29 @@ export interface ComposedMail {
   html: string;
 }
 
-const DISPLAY = { locale: "en-GB", hourCycle: "h23" } as const;
+const LOCALE = "en-GB";
 
 /** A time as people at the site read it, with the zone: "14 Mar 2026, 06:30 GMT", "1 Jul 2026, 13:00 BST". */
-export function formatSiteTime(at: Date, timeZone: string): string {
-  return formatDateTime(at, { ...DISPLAY, timeZone });
+export function formatSiteTime(at: Date, timeZone: string, display: DisplaySettings = DEFAULT_DISPLAY_SETTINGS): string {
+  return formatDateTime(at, { locale: LOCALE, hourCycle: hourCycleOf(display.clock), timeZone });
 }
 
-/** A level in metres to the precision its uncertainty allows ("2.61 m ± 8 mm"); other units as stored. */
-function figure(v: number | null, unit: string | null, uncertainty: number | null = null): string {
+/** A level to the precision its uncertainty allows ("2.61 m ± 8 mm", "8.570 ft ± 0.31 in"); other units as stored. */
+function figure(v: number | null, unit: string | null, display: DisplaySettings, uncertainty: number | null = null): string {
   if (v === null) return "—";
-  if (unit === "m") return formatLength(v, uncertainty, { system: "si", locale: DISPLAY.locale });
-  return `${formatNumber(v, 3, DISPLAY.locale)}${unit ? ` ${unit}` : ""}`;
+  const options = figureOptionsOf(display);
+  if (unit === "m") return formatLength(v, uncertainty, options);
+  return `${formatNumber(v, 3, options.locale)}${unit ? ` ${unit}` : ""}`;
 }
 
-function valueAt(v: AlarmMailValue, unit: string | null, timeZone: string): string {
-  return `${figure(v.value, unit, v.uncertainty)} at ${formatSiteTime(v.at, timeZone)}`;
+function valueAt(v: AlarmMailValue, unit: string | null, input: AlarmMailInput): string {
+  return `${figure(v.value, unit, input.display, v.uncertainty)} at ${formatSiteTime(v.at, input.timeZone, input.display)}`;
 }
 
-function stateWords(item: AlarmMailItem, timeZone: string): string {
+function stateWords(item: AlarmMailItem, input: AlarmMailInput): string {
   return item.state === "active"
     ? "ACTIVE now, not acknowledged"
-    : `CLEARED${item.clearedAt ? ` at ${formatSiteTime(item.clearedAt, timeZone)}` : ""}, not acknowledged`;
+    : `CLEARED${item.clearedAt ? ` at ${formatSiteTime(item.clearedAt, input.timeZone, input.display)}` : ""}, not acknowledged`;
 }
 
 function where(item: AlarmMailItem): string {
@@ -85,12 +90,12 @@ function escapeHtml(s: string): string {
 
 function itemRows(item: AlarmMailItem, input: AlarmMailInput): [string, string][] {
   return [
-    ["State", stateWords(item, input.timeZone)],
+    ["State", stateWords(item, input)],
     ["Site", input.siteName],
     ["Asset", where(item)],
-    ["At activation", valueAt(item.activation, item.unit, input.timeZone)],
-    ...(item.latest ? ([["Latest", valueAt(item.latest, item.unit, input.timeZone)]] as [string, string][]) : []),
-    ["Setpoint", figure(item.setpoint, item.unit)],
+    ["At activation", valueAt(item.activation, item.unit, input)],
+    ...(item.latest ? ([["Latest", valueAt(item.latest, item.unit, input)]] as [string, string][]) : []),
+    ["Setpoint", figure(item.setpoint, item.unit, input.display)],
   ];
 }
 

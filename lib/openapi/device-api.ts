@@ -16,6 +16,16 @@ function errorResponse(description: string, retryAfter = false) {
   };
 }
 
+/**
+ * The APIs speak SI whatever a person reads: the organisation's and users' units, decimal separator and
+ * clock (lib/format/display.ts) change only screens, e-mails and exports.
+ */
+export const SI_ONLY =
+  "Units: every quantity this API (and the management API) takes or answers is SI, named by its suffix: times in microseconds (_us), " +
+  "lengths in metres (_m), volumes in litres (_l), temperatures in degrees Celsius (_c), speeds in metres per second (_ms). Numbers are JSON " +
+  "numbers with a decimal point. An organisation's or user's choice of US customary units, decimal comma or 12-hour clock changes only what " +
+  "screens, e-mails and exports show, never what an API takes or answers.";
+
 export function buildDeviceApiDocument(serverUrl: string) {
   const reading = z.toJSONSchema(readingSchema, { target: "openapi-3.0", unrepresentable: "any" });
   return {
@@ -25,7 +35,8 @@ export function buildDeviceApiDocument(serverUrl: string) {
       version: "1.0.0",
       description:
         "Field units post raw echo timings. Each device authenticates with its own key and writes only its own readings. " +
-        "The pair (device, channel, seq) makes a resend harmless: resend a batch with the same seq values after any error or timeout.",
+        "The pair (device, channel, seq) makes a resend harmless: resend a batch with the same seq values after any error or timeout. " +
+        SI_ONLY,
     },
     servers: [{ url: serverUrl }],
     components: {

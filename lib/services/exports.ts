@@ -1,7 +1,9 @@
 // CSV exports as streams of row batches: each batch is one keyset-paged query (a cursor that survives
 // between pulls without holding a connection), so a year of measurements never sits in memory.
 // Times are ISO 8601 in the site's own zone with its offset (the instant is exact, the clock is the
-// site's), beside a column naming that zone.
+// site's), beside a column naming that zone. Figures are in the unit system asked for (the person's by
+// default, SI with units=si); each column's name says its unit (level_m or level_ft), and rows keep the
+// SI names internally.
 
 import { personLabel, siteScope, textFor, type Scope } from "../db/site-scope";
 import { AppError } from "../errors";
@@ -11,7 +13,9 @@ import { refillPlan } from "../read-models/refill-plan";
 import { formatIsoWithOffset } from "../format/time";
 import { roundMeasurement, roundToDecimals, roundUncertainty } from "../format/precision";
 import { COVERAGE_FACTOR } from "../uncertainty/budget";
+import type { ExportUnits } from "../format/export-units";
 import { sqlRows } from "../db/sql";
+import { UNIT_SYMBOLS } from "../units/units";
 
 export const EXPORT_BATCH_ROWS = 5000;
 
@@ -39,6 +43,11 @@ export const MEASUREMENT_COLUMNS = [
   "occupied",
   "uncertainty_m",
 ] as const;
+
+/** The header of a measurement export in a unit system: level_ft, volume_gal, air_temp_f… */
+export function measurementColumns(units: ExportUnits): string[] {
+  return MEASUREMENT_COLUMNS.map(units.column);
+}
 
 interface ExportAsset {
   id: string;
@@ -80,26 +89,40 @@ interface MeasurementRow {
   uncertainty_m: number | null;
 }
 
-const asComputed = (m: MeasurementRow) => m;
+/** Lengths, volumes and the air temperature in the export's units (the speed of sound stays in m/s), as computed. */
+function inUnits(m: MeasurementRow, units: ExportUnits): MeasurementRow {
+  return {
+    ...m,
+    raw_distance_m: units.length(m.raw_distance_m),
+    distance_m: units.length(m.distance_m),
+    level_m: units.length(m.level_m),
+    air_temp_c: units.celsius(m.air_temp_c),
+    volume_l: units.litres(m.volume_l),
+    ullage_l: units.litres(m.ullage_l),
+    uncertainty_m: units.fine(m.uncertainty_m),
+  };
+}
 
 const roundOrNull = (x: number | null, decimals: number) => (x === null ? null : roundToDecimals(x, decimals));
 
-/** Four significant figures, never finer than a litre (as the screens write a volume without its uncertainty). */
-function roundLitres(l: number | null): number | null {
-  if (l === null) return null;
-  const magnitude = l === 0 ? 0 : Math.floor(Math.log10(Math.abs(l)));
-  return roundToDecimals(l, Math.min(0, 3 - magnitude));
+/** Four significant figures, never finer than 1 L or 0.1 US gal (as the screens write a volume without its uncertainty). */
+function roundVolume(v: number | null, units: ExportUnits): number | null {
+  if (v === null) return null;
+  const magnitude = v === 0 ? 0 : Math.floor(Math.log10(Math.abs(v)));
+  return roundToDecimals(v, Math.min(units.volume === "L" ? 0 : 1, 3 - magnitude));
 }
 
 /**
- * A measurement with no digit its uncertainty does not support: lengths to the decimal place of
- * U = 2u (GUM §7.2.6), the standard uncertainty itself to two significant digits, the speed of
- * sound to 0.01 m/s and the air temperature to 0.1 K (finer than their own doubt: common practice),
- * volumes as on the screens.
+ * A measurement with no digit its uncertainty does not support: the uncertainty is converted to the
+ * export's units first, then lengths go to the decimal place of U = 2u (GUM §7.2.6), the standard
+ * uncertainty itself to two significant digits, the speed of sound to 0.01 m/s and the air temperature
+ * to 0.1 degree (finer than their own doubt: common practice), volumes as on the screens.
  */
-function toMeasuredPrecision(m: MeasurementRow): MeasurementRow {
+function toMeasuredPrecision(si: MeasurementRow, units: ExportUnits): MeasurementRow {
+  const m = inUnits(si, units);
+  const uLevel = units.length(si.uncertainty_m);
+  const length = (x: number | null) => (x === null || uLevel === null || !(uLevel > 0) ? x : roundMeasurement(x, COVERAGE_FACTOR * uLevel).value);
   const u = m.uncertainty_m;
-  const length = (x: number | null) => (x === null || u === null || !(u > 0) ? x : roundMeasurement(x, COVERAGE_FACTOR * u).value);
   return {
     ...m,
     raw_distance_m: length(m.raw_distance_m),
@@ -107,16 +130,16 @@ function toMeasuredPrecision(m: MeasurementRow): MeasurementRow {
     level_m: length(m.level_m),
     speed_of_sound_ms: roundOrNull(m.speed_of_sound_ms, 2),
     air_temp_c: roundOrNull(m.air_temp_c, 1),
-    volume_l: roundLitres(m.volume_l),
-    ullage_l: roundLitres(m.ullage_l),
+    volume_l: roundVolume(m.volume_l, units),
+    ullage_l: roundVolume(m.ullage_l, units),
     fill_pct: roundOrNull(m.fill_pct, 1),
     uncertainty_m: u === null || !(u > 0) ? u : roundUncertainty(u, { significantDigits: 2 }).value,
   };
 }
 
 /** Measurements of each asset in [from, to), asset by asset and channel by channel in time order. */
-export async function* measurementBatches(assets: readonly ExportAsset[], range: ExportRange & { precision?: "measured" | "full" }): Batches {
-  const shown = range.precision === "full" ? asComputed : toMeasuredPrecision;
+export async function* measurementBatches(assets: readonly ExportAsset[], range: ExportRange & { precision?: "measured" | "full"; units: ExportUnits }): Batches {
+  const shown = range.precision === "full" ? (m: MeasurementRow) => inUnits(m, range.units) : (m: MeasurementRow) => toMeasuredPrecision(m, range.units);
   for (const asset of assets) {
     // Channels measuring the asset now, and any that did in the past (a replaced device).
     const channels = await sqlRows<{ id: string }>(
@@ -207,7 +230,9 @@ interface AlarmEventRow {
 }
 
 /** Every alarm event (activations, acknowledgements, shelving, notifications…) in [from, to), in time order. */
-export async function* alarmEventBatches(scope: Scope, range: ExportRange): Batches {
+export async function* alarmEventBatches(scope: Scope, range: ExportRange, units: ExportUnits): Batches {
+  // Level alarms are judged in metres; their value and setpoint go out in the export's length unit.
+  const inLength = (e: AlarmEventRow) => e.unit === "m";
   let after: { at: Date; id: string } = { at: new Date(range.from.getTime() - 1), id: "0" };
   for (;;) {
     const rows = await sqlRows<AlarmEventRow>(
@@ -231,9 +256,9 @@ export async function* alarmEventBatches(scope: Scope, range: ExportRange): Batc
       e.from_state,
       e.to_state,
       textFor(scope, e.cause),
-      e.value,
-      e.setpoint,
-      e.unit,
+      inLength(e) ? units.length(e.value) : e.value,
+      inLength(e) ? units.length(e.setpoint) : e.setpoint,
+      inLength(e) ? UNIT_SYMBOLS[units.level] : e.unit,
       personLabel(scope, e.actor_label, e.actor_name),
       e.comment,
       e.alarm_id,
@@ -270,7 +295,12 @@ const round = (x: number | null, digits: number) => (x === null ? null : Math.ro
  * The refill plan is short (one row a tank): one batch. A tank that needs a check has no due date and
  * says why; tanks without a ready forecast are not in the export (the screen lists them apart).
  */
-export async function* refillPlanBatches(scope: Scope, options: { horizonDays: number; siteId?: string }): Batches {
+export function refillPlanColumns(units: ExportUnits): string[] {
+  return REFILL_PLAN_COLUMNS.map(units.column);
+}
+
+export async function* refillPlanBatches(scope: Scope, options: { horizonDays: number; siteId?: string; units: ExportUnits }): Batches {
+  const volume = (l: number | null) => round(options.units.litres(l), 1);
   const plan = await refillPlan(scope, options);
   yield plan.items.map((r) => [
     r.due_at === null ? null : formatIsoWithOffset(r.due_at, r.site_time_zone),
@@ -282,11 +312,11 @@ export async function* refillPlanBatches(scope: Scope, options: { horizonDays: n
     r.action,
     round(r.days_to_due, 2),
     round(r.days_to_limit, 2),
-    round(r.volume_l, 1),
+    volume(r.volume_l),
     r.checks.map((c) => c.text).join("; ") || null,
-    round(r.current_volume_l, 1),
+    volume(r.current_volume_l),
     round(r.fill_pct, 1),
-    round(r.capacity_l, 1),
+    volume(r.capacity_l),
     r.safe_fill_pct,
     r.measured_at === null ? null : formatIsoWithOffset(r.measured_at, r.site_time_zone),
     r.asset_id,

@@ -17,6 +17,8 @@ import { alarmKindLabel, applyAlarmInput, needsAcknowledgement, type AlarmKind }
 import { firstNoticeHold, groupIntoMails, planNotifications, type OnCallPerson, NOTIFY_MAX_AGE_HOURS } from "../alarms/engine-notify";
 import { ALARM_PRIORITIES, type AlarmPriority } from "../alarms/state-machine";
 import { composeAlarmMail, type AlarmMailItem } from "../mail/alarm-mail";
+import { DEFAULT_DISPLAY_SETTINGS } from "../format/display";
+import { effectiveDisplaySettingsOfUsers } from "./display-settings";
 import { appUrl, sendMail } from "../mail/send-mail";
 import { type AlarmDbRow, insertAlarmEvents, saveAlarm, toRecord } from "./alarm-store";
 import { sqlRows } from "../db/sql";
@@ -305,6 +307,7 @@ export async function sendQueuedAlarmMail(notificationIds: readonly string[], at
         a.activation.at.getTime() - b.activation.at.getTime(),
     );
     const first = alarms.get(outgoing[0].alarm_id) as MailAlarmRow;
+    const display = (await effectiveDisplaySettingsOfUsers([outgoing[0].user_id], transaction)).get(outgoing[0].user_id) ?? DEFAULT_DISPLAY_SETTINGS;
     const mail = composeAlarmMail({
       siteName: first.site_name,
       timeZone: first.time_zone,
@@ -312,6 +315,7 @@ export async function sendQueuedAlarmMail(notificationIds: readonly string[], at
       items,
       alarmsUrl: `${appUrl()}/alarms`,
       ackTtlHours: ACK_LINK_TTL_HOURS,
+      display,
     });
     let error: string | null = null;
     try {

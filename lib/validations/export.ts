@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { INSTANT_RANGE_MESSAGE, isSaneInstant, text, uuidSchema } from "./common";
+import { UNIT_SYSTEMS } from "../format/display";
 
 // CSV exports: a time range (a date means that day in UTC; a "to" date includes its whole day) no longer
 // than MAX_EXPORT_DAYS, and what to export.
@@ -31,7 +32,10 @@ export function rangeIssues(range: ExportRange): { path: "from" | "to"; message:
   return [];
 }
 
-const rangeFields = { from: instant, to: instant };
+/** The unit system of an export's figures and column names; absent: the person's own (si keeps SI columns). */
+const units = z.enum(UNIT_SYSTEMS, { message: "units is si (level_m, volume_l, air_temp_c) or us (level_ft, volume_gal, air_temp_f)." }).optional();
+
+const rangeFields = { from: instant, to: instant, units };
 
 function withRange<T extends { from: string; to: string }>(value: T, ctx: z.RefinementCtx) {
   for (const issue of rangeIssues({ from: toInstant(value.from, false), to: toInstant(value.to, true) })) {
@@ -70,4 +74,5 @@ export const refillPlanQuery = z.object({
     .min(1, "The horizon is at least 1 day.")
     .max(MAX_HORIZON_DAYS, `The horizon is at most ${MAX_HORIZON_DAYS} days.`)
     .default(14),
+  units,
 });

@@ -18,6 +18,11 @@ describe("GET /api/v1/openapi.json", () => {
     expect(doc.openapi).toMatch(/^3\./);
   });
 
+  it("says that the APIs speak SI whatever units people read (issue 15)", () => {
+    expect(doc.info.description).toMatch(/every quantity this API \(and the management API\) takes or answers is SI/);
+    expect(doc.info.description).toMatch(/metres \(_m\).*litres \(_l\).*degrees Celsius \(_c\)/);
+  });
+
   it("documents the route and every status code it answers", () => {
     const op = doc.paths["/api/v1/readings"].post;
     expect(Object.keys(op.responses).sort()).toEqual(["202", "400", "401", "413", "415", "429", "503"]);

@@ -1,6 +1,7 @@
 import { describe, it, expect } from "vitest";
 import { groupIntoMails, planNotifications, type NotificationFacts, type OnCallPerson } from "@/lib/alarms/engine-notify";
 import { composeAlarmMail, formatSiteTime, type AlarmMailItem } from "@/lib/mail/alarm-mail";
+import { DEFAULT_DISPLAY_SETTINGS } from "@/lib/format/display";
 import { putSetpointsSchema, setpointIssues, setpointToLevelM } from "@/lib/validations/setpoint";
 import { shelveExpiry, shelveSchema } from "@/lib/validations/alarm";
 import type { TankGeometry } from "@/lib/geometry/tank-volume";
@@ -85,7 +86,7 @@ describe("composeAlarmMail", () => {
     ackUrl: "http://app.test/ack/token-1",
     escalation: false,
   };
-  const input = { siteName: "North Works", timeZone: "Europe/London", recipientName: "Tess", items: [item], alarmsUrl: "http://app.test/alarms", ackTtlHours: 24 };
+  const input = { siteName: "North Works", timeZone: "Europe/London", recipientName: "Tess", items: [item], alarmsUrl: "http://app.test/alarms", ackTtlHours: 24, display: DEFAULT_DISPLAY_SETTINGS };
   const nb = "\u00a0";
 
   it("says the state at sending, where, the value at activation and the latest, each with its time in the site's zone", () => {
@@ -103,6 +104,22 @@ describe("composeAlarmMail", () => {
     expect(mail.text).toContain("Acknowledge: http://app.test/ack/token-1");
     expect(mail.text).toContain("not an overfill-prevention or safety system");
     expect(mail.html).toContain('href="http://app.test/ack/token-1"');
+  });
+
+  it("writes a US-customary recipient's figures in ft and in, and times on a 12-hour clock", () => {
+    const mail = composeAlarmMail({ ...input, display: { unit_system: "us", decimal_separator: ".", clock: "12h" } });
+    // 2.612 m = 8.5696 ft (1 ft = 0.3048 m exactly, NIST SP 811 Appendix B); u = 8 mm = 0.0262 ft (leading 262:
+    // two digits, 0.026 ft → the value to 0.001 ft) and 0.315 in (two digits: 0.31 in). Computed by hand.
+    expect(mail.text).toContain(`At activation: 8.570${nb}ft ±${nb}0.31${nb}in at 1 Jul 2026, 1:00`);
+    // 13:00 BST on a 12-hour clock (the space before "pm" is the runtime's ICU's choice).
+    expect(mail.text).toMatch(/at 1 Jul 2026, 1:00\spm BST/);
+    // 2.5 m = 8.2021 ft; without an uncertainty to 0.01 ft.
+    expect(mail.text).toContain(`Setpoint: 8.20${nb}ft`);
+  });
+
+  it("writes a decimal comma for a recipient who reads one", () => {
+    const mail = composeAlarmMail({ ...input, display: { unit_system: "si", decimal_separator: ",", clock: "24h" } });
+    expect(mail.text).toContain(`At activation: 2,612${nb}m ±${nb}8${nb}mm at 1 Jul 2026, 13:00 BST`);
   });
 
   it("says cleared, with the time it cleared, and never that the alarm is active", () => {

@@ -1,6 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { z } from "zod";
-import { flatErrors, NOT_A_NUMBER, payloadSchema } from "@/components/ui/form-schema";
+import { flatErrors, NOT_A_NUMBER, payloadSchema, quantityIssues } from "@/components/ui/form-schema";
+import { unit as mathUnit } from "mathjs";
+import { quantityInputFor } from "@/lib/units/quantity-input";
 import { numberOrNull } from "@/components/ui/decimal";
 import { createSiteSchema } from "@/lib/validations/site";
 import { createAssetSchema } from "@/lib/validations/asset";
@@ -57,5 +59,29 @@ describe("flatErrors", () => {
       points: "A strapping table needs at least two rows.",
       _: "The server answered 500.",
     });
+  });
+});
+
+describe("quantityIssues", () => {
+  // A form in US units: one length box read into metres, checked by a schema that wants a positive length.
+  const qi = quantityInputFor({ unit_system: "us", decimal_separator: ".", clock: "12h" });
+  const text = z.object({ height: z.string() });
+  const toPayload = (v: z.infer<typeof text>) => ({ height_m: qi.read(v.height, "length") });
+  const form = payloadSchema(text, toPayload, z.object({ height_m: z.number().positive().nullable() }), (v, payload) => quantityIssues(qi, payload, { height_m: v.height }));
+
+  it("lets a length typed in feet and inches through, in metres", () => {
+    // 8 ft 3.5 in in metres by mathjs, not by the code under test.
+    expect(form.parse({ height: "8 ft 3.5 in" }).height_m).toBeCloseTo(mathUnit(8, "ft").toNumber("m") + mathUnit(3.5, "inch").toNumber("m"), 12);
+  });
+
+  it("says why a box holds no length ahead of the schema's 'not a number'", () => {
+    const issues = form.safeParse({ height: "tall" }).error!.issues.filter((i) => i.path.join(".") === "height_m").map((i) => i.message);
+    expect(issues[0]).not.toBe(NOT_A_NUMBER);
+    expect(issues[0]).toMatch(/number/);
+    expect(issues).toContain(NOT_A_NUMBER);
+  });
+
+  it("says nothing of a box that reads, nor of an empty one", () => {
+    expect(quantityIssues(qi, { a: 2.5, b: null }, { a: "8 ft 2.4 in", b: "" })).toEqual([]);
   });
 });

@@ -10,6 +10,9 @@ import { formatSiteTime } from "@/lib/mail/alarm-mail";
 import { Wordmark } from "@/components/shell/wordmark";
 import { AlarmCaution } from "@/components/alarms/alarm-caution";
 import { AlarmStateLabel, alarmFigure } from "@/components/alarms/alarm-badges";
+import { effectiveDisplaySettingsOfUsers } from "@/lib/services/display-settings";
+import { DEFAULT_DISPLAY_SETTINGS, figureOptionsOf } from "@/lib/format/display";
+import { figuresFor } from "@/lib/format/figures";
 import { PriorityBadge } from "@/components/ui/priority-badge";
 import { AlarmAckConfirm, AlarmFacts } from "@/components/alarms/alarm-ack-confirm";
 import { alarmStateWord } from "@/lib/alarms/vocabulary";
@@ -24,6 +27,9 @@ export default async function AckPage({ params }: { params: Promise<{ token: str
   const viewer = await currentUser();
   const link = await lookUpAckLink(token, viewer?.organisationId ?? null);
   const alarm = link.ok ? await findAlarm(wholeOrganisation(link.organisationId), link.alarmId) : null;
+  // The figures as the link's recipient reads them (their e-mail used the same settings).
+  const display = link.ok ? (await effectiveDisplaySettingsOfUsers([link.recipient.id])).get(link.recipient.id) : undefined;
+  const fig = figuresFor(figureOptionsOf(display ?? DEFAULT_DISPLAY_SETTINGS));
   const details = alarm && (
     <>
       <dt className="font-bold">Alarm</dt>
@@ -33,7 +39,7 @@ export default async function AckPage({ params }: { params: Promise<{ token: str
       <dt className="font-bold">Asset</dt>
       <dd>{alarm.asset?.name ?? (alarm.channel ? `${alarm.channel.device_name}, channel ${alarm.channel.index}` : "—")}</dd>
       <dt className="font-bold">Value / setpoint</dt>
-      <dd className="figures">{alarmFigure(alarm.value, alarm.unit, alarm.kind)}{alarm.setpoint !== null && ` / ${alarmFigure(alarm.setpoint, alarm.unit, alarm.kind)}`}</dd>
+      <dd className="figures">{alarmFigure(fig, alarm.value, alarm.unit, alarm.kind)}{alarm.setpoint !== null && ` / ${alarmFigure(fig, alarm.setpoint, alarm.unit, alarm.kind)}`}</dd>
       <dt className="font-bold">Since</dt>
       <dd className="figures">{alarm.activated_at ? formatSiteTime(new Date(alarm.activated_at), alarm.site.time_zone) : "—"}</dd>
     </>

@@ -1,6 +1,8 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
 import { getSequelize } from "../sequelize";
 import type { Role } from "../../auth/permissions";
+import type { Clock, DecimalSeparator } from "../../format/display";
+import type { UnitSystem } from "../../units/units";
 import { initFleetModels } from "./fleet";
 
 export { Asset, Channel, Device, DeviceKey, Site, type AssetKind } from "./fleet";
@@ -8,6 +10,9 @@ export { Asset, Channel, Device, DeviceKey, Site, type AssetKind } from "./fleet
 export class Organisation extends Model<InferAttributes<Organisation>, InferCreationAttributes<Organisation>> {
   declare id: CreationOptional<string>;
   declare name: string;
+  declare unit_system: CreationOptional<UnitSystem>;
+  declare decimal_separator: CreationOptional<DecimalSeparator>;
+  declare clock: CreationOptional<Clock>;
 }
 
 export type UserStatus = "invited" | "active" | "deactivated";
@@ -23,6 +28,10 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare session_version: CreationOptional<number>;
   /** A viewer's sites (partner scope); null is every site of the organisation. */
   declare site_ids: CreationOptional<string[] | null>;
+  /** Own display settings; null follows the organisation's. */
+  declare unit_system: CreationOptional<UnitSystem | null>;
+  declare decimal_separator: CreationOptional<DecimalSeparator | null>;
+  declare clock: CreationOptional<Clock | null>;
   declare created_at: CreationOptional<Date>;
 }
 
@@ -49,7 +58,16 @@ export class AuditEntry extends Model<InferAttributes<AuditEntry>, InferCreation
 function defineModels(sequelize: Sequelize) {
   const uuidPk = () => ({ type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 });
 
-  Organisation.init({ id: uuidPk(), name: { type: DataTypes.TEXT, allowNull: false } }, { sequelize, tableName: "organisations" });
+  Organisation.init(
+    {
+      id: uuidPk(),
+      name: { type: DataTypes.TEXT, allowNull: false },
+      unit_system: { type: DataTypes.TEXT, allowNull: false, defaultValue: "si" },
+      decimal_separator: { type: DataTypes.TEXT, allowNull: false, defaultValue: "." },
+      clock: { type: DataTypes.TEXT, allowNull: false, defaultValue: "24h" },
+    },
+    { sequelize, tableName: "organisations" },
+  );
 
   User.init(
     {
@@ -62,6 +80,9 @@ function defineModels(sequelize: Sequelize) {
       password_hash: { type: DataTypes.TEXT, allowNull: true },
       session_version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
       site_ids: { type: DataTypes.ARRAY(DataTypes.UUID), allowNull: true },
+      unit_system: { type: DataTypes.TEXT, allowNull: true },
+      decimal_separator: { type: DataTypes.TEXT, allowNull: true },
+      clock: { type: DataTypes.TEXT, allowNull: true },
       created_at: DataTypes.DATE,
     },
     {

@@ -1,5 +1,6 @@
 import { requirePermission } from "@/lib/auth/session";
-import { exportAssets, measurementBatches, MEASUREMENT_COLUMNS } from "@/lib/services/exports";
+import { exportAssets, measurementBatches, measurementColumns } from "@/lib/services/exports";
+import { exportUnitsOf } from "@/lib/services/display-settings";
 import { attachmentName, csvStream } from "@/lib/csv/write";
 import { parseQuery } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
@@ -12,5 +13,6 @@ export const GET = route(async (req) => {
   const query = parseQuery(req.url, measurementsExportQuery);
   const assets = await exportAssets(user.scope, query.asset_ids);
   const name = attachmentName(`measurements-${assets.length === 1 ? assets[0].name : `${assets.length}-assets`}-${query.from.toISOString().slice(0, 10)}-${query.to.toISOString().slice(0, 10)}`);
-  return csvResponse(csvStream(MEASUREMENT_COLUMNS, measurementBatches(assets, query)), name);
+  const units = await exportUnitsOf(user, query.units);
+  return csvResponse(csvStream(measurementColumns(units), measurementBatches(assets, { ...query, units })), name);
 });

@@ -1,5 +1,6 @@
 import { requirePermission } from "@/lib/auth/session";
-import { refillPlanBatches, REFILL_PLAN_COLUMNS } from "@/lib/services/exports";
+import { refillPlanBatches, refillPlanColumns } from "@/lib/services/exports";
+import { exportUnitsOf } from "@/lib/services/display-settings";
 import { attachmentName, csvStream } from "@/lib/csv/write";
 import { parseQuery } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
@@ -14,5 +15,6 @@ export const GET = route(async (req) => {
   const user = await requirePermission("export:read");
   const q = parseQuery(req.url, query);
   const name = attachmentName(`refill-plan-${q.horizon_days}-days-${new Date().toISOString().slice(0, 10)}`);
-  return csvResponse(csvStream(REFILL_PLAN_COLUMNS, refillPlanBatches(user.scope, { horizonDays: q.horizon_days, siteId: q.site_id })), name);
+  const units = await exportUnitsOf(user, q.units);
+  return csvResponse(csvStream(refillPlanColumns(units), refillPlanBatches(user.scope, { horizonDays: q.horizon_days, siteId: q.site_id, units })), name);
 });
