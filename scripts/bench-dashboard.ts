@@ -21,6 +21,7 @@ import path from "node:path";
 import bcrypt from "bcryptjs";
 import { quantileSorted } from "simple-statistics";
 import { adminUrl, dbUrl, ensureBenchPostgres, withClient } from "./bench/pg";
+import { statFields } from "./bench/pg-cpu";
 
 // autocannon ships no types; the little of it used here, typed.
 interface AutocannonInstance extends PromiseLike<{ requests: { average: number }; non2xx: number; errors: number }> {
@@ -296,15 +297,6 @@ function wireBytes(url: string, cookie: string, encoding: "identity" | "gzip"): 
 // database), read from /proc: a cost per request that a busy machine slows down far less than latency.
 const MS_PER_TICK = 1000 / Number(execFileSync("getconf", ["CLK_TCK"], { encoding: "utf8" }).trim() || 100);
 
-function procStat(pid: number): string[] | null {
-  try {
-    const stat = fs.readFileSync(`/proc/${pid}/stat`, "utf8");
-    return stat.slice(stat.lastIndexOf(")") + 2).split(" ");
-  } catch {
-    return null;
-  }
-}
-
 interface CpuSnapshot {
   web: Map<number, number>;
   db: Map<number, number>;
@@ -314,13 +306,13 @@ async function cpuSnapshot(serverGroup: number, url: string, dbName: string): Pr
   const ticks = (f: string[]) => Number(f[11]) + Number(f[12]);
   const web = new Map<number, number>();
   for (const entry of fs.readdirSync("/proc")) {
-    const f = /^\d+$/.test(entry) ? procStat(Number(entry)) : null;
+    const f = /^\d+$/.test(entry) ? statFields(Number(entry)) : null;
     if (f && Number(f[2]) === serverGroup) web.set(Number(entry), ticks(f));
   }
   const pids = await withClient(url, async (c) => (await c.query(`SELECT pid FROM pg_stat_activity WHERE datname = $1 AND pid <> pg_backend_pid()`, [dbName])).rows as { pid: number }[]);
   const db = new Map<number, number>();
   for (const { pid } of pids) {
-    const f = procStat(pid);
+    const f = statFields(pid);
     if (f) db.set(pid, ticks(f));
   }
   return { web, db };

@@ -10,7 +10,7 @@ import type pg from "pg";
 const CLOCK_TICKS = 100; // USER_HZ on Linux (sysconf(_SC_CLK_TCK))
 
 /** Fields after the command name of /proc/<pid>/stat: [0] state, [1] ppid, [11] utime, [12] stime, [13] cutime, [14] cstime. */
-function statFields(pid: number): string[] | null {
+export function statFields(pid: number): string[] | null {
   try {
     const raw = fs.readFileSync(`/proc/${pid}/stat`, "utf8");
     return raw.slice(raw.lastIndexOf(")") + 2).split(" ");
