@@ -7,13 +7,13 @@ import { alarmHealthQuerySchema } from "@/lib/validations/alarm";
 import type { BenchmarkedMetric, BenchmarkVerdict } from "@/lib/alarms/alarm-health";
 import type { AlarmPriority } from "@/lib/alarms/state-machine";
 import type { AlarmHealthJson } from "@/lib/read-models/alarm-health";
-import type { SiteJson } from "@/lib/services/sites";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { SiteTime, useTimeDisplay } from "@/components/ui/site-time";
 import { formatDateTime, formatTime } from "@/lib/format/time";
 import { DataTable } from "@/components/ui/data-table";
 import { useListParams } from "@/components/ui/list-params";
 import { ClearFilters } from "@/components/ui/clear-filters";
+import { SiteFilter, useSites } from "@/components/ui/site-filter";
 
 const METRICS: { key: keyof AlarmHealthJson["metrics"]; label: string }[] = [
   { key: "averagePer10Min", label: "Alarms per 10 min, average" },
@@ -83,7 +83,7 @@ export function AlarmHealthReport() {
   if (to) q.set("to", new Date(new Date(`${to}T00:00:00`).getTime() + 86_400_000).toISOString());
   if (siteId) q.set("site_id", siteId);
   const { data, error, isLoading, mutate } = useSWR<AlarmHealthJson>(`/api/alarm-health?${q.toString()}`, swrFetcher, { keepPreviousData: true });
-  const sites = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
+  const sites = useSites();
   // One site chosen: its clock; all sites: the viewer's.
   const zone = sites.data?.items.find((s) => s.id === siteId)?.time_zone ?? null;
   const time = useTimeDisplay(zone);
@@ -101,13 +101,7 @@ export function AlarmHealthReport() {
           <label htmlFor="health-to" className="label">To (inclusive)</label>
           <input id="health-to" type="date" className="field figures" value={to} onChange={(e) => list.set({ to: e.target.value })} />
         </div>
-        <div>
-          <label htmlFor="health-site" className="label">Site</label>
-          <select id="health-site" className="field" value={siteId} onChange={(e) => list.set({ site_id: e.target.value })}>
-            <option value="">All sites</option>
-            {sites.data?.items.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
-          </select>
-        </div>
+        <SiteFilter id="health-site" className="field" value={siteId} onChange={(v) => list.set({ site_id: v })} />
         <ClearFilters filtered={list.filtered} onClear={list.clearFilters} />
       </div>
 

@@ -11,7 +11,6 @@ import { ALARM_KINDS, alarmKindLabel, needsAcknowledgement, type AlarmKind } fro
 import { ALARM_PRIORITIES, ALARM_STATES, type AlarmState } from "@/lib/alarms/state-machine";
 import { alarmListQuerySchema, type AlarmSort } from "@/lib/validations/alarm";
 import type { AlarmJson } from "@/lib/services/alarms";
-import type { SiteJson } from "@/lib/services/sites";
 import { DataTableView } from "@/components/ui/data-table";
 import { useListParams } from "@/components/ui/list-params";
 import { ClearFilters } from "@/components/ui/clear-filters";
@@ -21,6 +20,7 @@ import { PriorityBadge } from "@/components/ui/priority-badge";
 import { ALARM_STATE_WORDS } from "@/lib/alarms/vocabulary";
 import { SiteTime } from "@/components/ui/site-time";
 import { AlarmActionDialog, type AlarmDialogMode } from "@/components/alarms/alarm-actions";
+import { SiteFilter } from "@/components/ui/site-filter";
 
 interface AlarmPage {
   total: number;
@@ -95,7 +95,6 @@ export function AlarmTable({ role }: { role: Role }) {
   const list = useListParams(alarmListQuerySchema, URL_KEYS, FILTER_KEYS);
   const filters = asFilters(list.values, list.raw("state"));
   const { data, error, isLoading, mutate } = useSWR<AlarmPage>(`/api/alarms?${apiQuery(filters)}`, swrFetcher, { refreshInterval: 15_000, keepPreviousData: true });
-  const sites = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
   const [selection, setSelection] = useState<RowSelectionState>({});
   const [dialog, setDialog] = useState<{ mode: AlarmDialogMode; ids: string[]; title: string } | null>(null);
   const [note, setNote] = useState<string | null>(null);
@@ -257,13 +256,7 @@ export function AlarmTable({ role }: { role: Role }) {
             {ALARM_STATES.map((s) => <option key={s} value={s}>{ALARM_STATE_WORDS[s]}</option>)}
           </select>
         </div>
-        <div>
-          <label htmlFor="alarm-filter-site" className="label">Site</label>
-          <select id="alarm-filter-site" className="field w-auto" value={filters.site_id} onChange={(e) => setParam({ site_id: e.target.value })}>
-            <option value="">All sites</option>
-            {sites.data?.items.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
-          </select>
-        </div>
+        <SiteFilter id="alarm-filter-site" value={filters.site_id} onChange={(v) => setParam({ site_id: v })} />
         <div>
           <label htmlFor="alarm-filter-priority" className="label">Priority</label>
           <select id="alarm-filter-priority" className="field w-auto" value={filters.priority} onChange={(e) => setParam({ priority: e.target.value })}>

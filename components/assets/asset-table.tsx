@@ -7,12 +7,12 @@ import { can, type Role } from "@/lib/auth/permissions";
 import { swrFetcher } from "@/lib/fetcher";
 import { ASSET_KINDS, assetListQuerySchema } from "@/lib/validations/asset";
 import type { AssetJson } from "@/lib/services/assets";
-import type { SiteJson } from "@/lib/services/sites";
 import { useFigures } from "@/components/ui/display-settings";
 import type { Figures } from "@/lib/format/figures";
 import { DataTable } from "@/components/ui/data-table";
 import { useListParams } from "@/components/ui/list-params";
 import { ClearFilters } from "@/components/ui/clear-filters";
+import { SiteFilter, useSites } from "@/components/ui/site-filter";
 
 const FILTERS = ["site_id", "kind"] as const;
 const column = createColumnHelper<AssetJson>();
@@ -32,7 +32,7 @@ export function AssetTable({ role }: { role: Role }) {
   const { site_id: siteId = "", kind = "" } = list.values;
   const query = new URLSearchParams(list.values as Record<string, string>).toString();
 
-  const sites = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
+  const sites = useSites();
   const { data, error, isLoading, mutate } = useSWR<{ items: AssetJson[] }>(`/api/assets${query ? `?${query}` : ""}`, swrFetcher);
   const siteName = (id: string) => sites.data?.items.find((s) => s.id === id)?.name ?? "…";
   const manage = can(role, "asset:manage");
@@ -54,13 +54,7 @@ export function AssetTable({ role }: { role: Role }) {
   return (
     <div className="space-y-4">
       <div className="flex flex-wrap gap-4" role="group" aria-label="Filters">
-        <div>
-          <label htmlFor="asset-filter-site" className="label">Site</label>
-          <select id="asset-filter-site" className="field" value={siteId} onChange={(e) => list.set({ site_id: e.target.value })}>
-            <option value="">All sites</option>
-            {sites.data?.items.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
-          </select>
-        </div>
+        <SiteFilter id="asset-filter-site" className="field" value={siteId} onChange={(v) => list.set({ site_id: v })} />
         <div>
           <label htmlFor="asset-filter-kind" className="label">Kind</label>
           <select id="asset-filter-kind" className="field" value={kind} onChange={(e) => list.set({ kind: e.target.value })}>

@@ -7,7 +7,6 @@ import { useState } from "react";
 import useSWR from "swr";
 import { createColumnHelper, getCoreRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
 import type { DeviceHealthPage, DeviceHealthRow } from "@/lib/read-models/overview-devices";
-import type { SiteJson } from "@/lib/services/sites";
 import { swrFetcher } from "@/lib/fetcher";
 import { DEVICE_HEALTH_FLAGS, deviceHealthQuerySchema, type DeviceHealthSort } from "@/lib/validations/overview";
 import { Figure } from "@/components/ui/display-settings";
@@ -16,6 +15,7 @@ import { FlagTag, flagLabel } from "@/components/fleet/fleet-status";
 import { DataTableView } from "@/components/ui/data-table";
 import { ClearFilters } from "@/components/ui/clear-filters";
 import { useListParams } from "@/components/ui/list-params";
+import { SiteFilter } from "@/components/ui/site-filter";
 
 // The devices health table: when each device was last heard, its battery, signal, firmware and the
 // open sensor flags of each channel. Paged, sorted and filtered on the server; every choice is kept in
@@ -83,7 +83,6 @@ export function DeviceHealthTable() {
   const api = new URLSearchParams({ page: String(page), page_size: String(pageSize), sort, dir });
   for (const k of FILTER_KEYS) if (values[k]) api.set(k, values[k]);
 
-  const sites = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
   const { data, error, isLoading, mutate } = useSWR<DeviceHealthPage>(`/api/device-health?${api.toString()}`, swrFetcher, { refreshInterval: LIVE_REFRESH_MS, keepPreviousData: true });
 
   const sorting: SortingState = [{ id: sort, desc: dir === "desc" }];
@@ -123,13 +122,7 @@ export function DeviceHealthTable() {
           <input id="health-q" className="field h-10 w-56" value={search} onChange={(e) => setSearch(e.target.value)} />
         </div>
         <button type="submit" className="btn-quiet">Search</button>
-        <div>
-          <label htmlFor="health-site" className="label">Site</label>
-          <select id="health-site" className="field h-10 w-auto" value={values.site_id ?? ""} onChange={(e) => list.set({ site_id: e.target.value })}>
-            <option value="">All sites</option>
-            {sites.data?.items.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
-          </select>
-        </div>
+        <SiteFilter id="health-site" className="field h-10 w-auto" value={values.site_id ?? ""} onChange={(v) => list.set({ site_id: v })} />
         <div>
           <label htmlFor="health-state" className="label">State</label>
           <select id="health-state" className="field h-10 w-auto" value={values.state ?? ""} onChange={(e) => list.set({ state: e.target.value })}>

@@ -8,11 +8,11 @@ import { createColumnHelper } from "@tanstack/react-table";
 import { swrFetcher } from "@/lib/fetcher";
 import { deviceListQuerySchema } from "@/lib/validations/device";
 import type { DeviceJson } from "@/lib/services/devices";
-import type { SiteJson } from "@/lib/services/sites";
 import { useFigures } from "@/components/ui/display-settings";
 import { DataTable } from "@/components/ui/data-table";
 import { useListParams } from "@/components/ui/list-params";
 import { ClearFilters } from "@/components/ui/clear-filters";
+import { SiteFilter, useSites } from "@/components/ui/site-filter";
 
 export const PROFILE_LABELS: Record<string, string> = { echo: "echo time", capture: "timer capture", pulse_coded: "pulse-coded", duty_coded: "duty-coded" };
 
@@ -28,7 +28,7 @@ export function DeviceTable() {
   const list = useListParams(deviceListQuerySchema, FILTERS, FILTERS);
   const siteId = list.values.site_id ?? "";
   const fig = useFigures();
-  const sites = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
+  const sites = useSites();
   const { data, error, isLoading, mutate } = useSWR<{ items: DeviceJson[] }>(siteId ? `/api/devices?site_id=${siteId}` : "/api/devices", swrFetcher, { refreshInterval: 30000 });
   const siteName = (id: string) => sites.data?.items.find((s) => s.id === id)?.name ?? "…";
 
@@ -55,13 +55,7 @@ export function DeviceTable() {
   return (
     <div className="space-y-4">
       <div className="flex flex-wrap gap-4" role="group" aria-label="Filters">
-        <div>
-          <label htmlFor="device-filter-site" className="label">Site</label>
-          <select id="device-filter-site" className="field w-auto" value={siteId} onChange={(e) => list.set({ site_id: e.target.value })}>
-            <option value="">All sites</option>
-            {sites.data?.items.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
-          </select>
-        </div>
+        <SiteFilter id="device-filter-site" value={siteId} onChange={(v) => list.set({ site_id: v })} />
         <ClearFilters filtered={list.filtered} onClear={list.clearFilters} />
       </div>
       <DataTable data={data?.items} columns={columns} getRowId={(d) => d.id} label="Devices" loading={isLoading} error={error} retry={() => mutate()} empty="No devices here yet." />

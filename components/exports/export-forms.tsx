@@ -4,12 +4,12 @@ import { useMemo, useState } from "react";
 import useSWR from "swr";
 import { swrFetcher } from "@/lib/fetcher";
 import type { AssetJson } from "@/lib/services/assets";
-import type { SiteJson } from "@/lib/services/sites";
 import { MAX_EXPORT_ASSETS, MAX_EXPORT_DAYS, rangeIssues } from "@/lib/validations/export";
 import { Loading, LoadError } from "@/components/ui/data-state";
 import { HORIZON_CHOICES } from "@/components/assets/refill-plan-table";
 import { useDisplaySettings } from "@/components/ui/display-settings";
 import type { UnitSystem } from "@/lib/units/units";
+import { SiteFilter, useSites } from "@/components/ui/site-filter";
 
 const UNIT_CHOICES: Record<UnitSystem, string> = { si: "SI: level_m, volume_l, air_temp_c", us: "US customary: level_ft, volume_gal, air_temp_f" };
 
@@ -92,7 +92,7 @@ function Download({ href, label, why }: { href: string | null; label: string; wh
 }
 
 function MeasurementsExport({ units }: { units: UnitSystem }) {
-  const sites = useSWR<{ items: SiteJson[] }>("/api/sites", swrFetcher);
+  const sites = useSites();
   const assets = useSWR<{ items: AssetJson[] }>("/api/assets", swrFetcher);
   const [siteId, setSiteId] = useState("");
   const [chosen, setChosen] = useState<Set<string>>(new Set());
@@ -117,13 +117,7 @@ function MeasurementsExport({ units }: { units: UnitSystem }) {
     <section aria-labelledby="export-measurements" className="card space-y-4 p-4">
       <h2 id="export-measurements" className="text-lg font-bold">Measurements</h2>
       <p className="text-sm text-muted">Every measurement of the chosen assets: status, time of flight, air temperature, distance, level, volume, fill and uncertainty. Up to {MAX_EXPORT_DAYS} days at a time.</p>
-      <div>
-        <label htmlFor="export-site" className="label">Site</label>
-        <select id="export-site" className="field w-auto" value={siteId} onChange={(e) => setSiteId(e.target.value)}>
-          <option value="">All sites</option>
-          {sites.data?.items.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
-        </select>
-      </div>
+      <SiteFilter id="export-site" value={siteId} onChange={(v) => setSiteId(v)} />
       <fieldset>
         <legend className="label">Assets ({chosen.size} chosen)</legend>
         {assets.isLoading && <Loading />}
